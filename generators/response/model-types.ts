@@ -1,0 +1,94 @@
+/**
+ * Inputs of the redistribution model as the content tree states them. Each profile parameter
+ * comes either from a law with coefficients, or from monotone interpolation of the measured
+ * line fits in log energy ("line-fits").
+ */
+
+/** One measured line (a row of a release's line-fit CSV). Errors are 1σ. */
+export interface LineFit {
+  line: string;
+  energyKeV: number;
+  centroidKeV: number;
+  centroidErrEv: number;
+  fwhmEv: number;
+  fwhmErrEv: number;
+  /** Fraction of events in the low-energy exponential tail, and its e-folding scale. */
+  tailFraction: number;
+  tailFractionErr: number;
+  tailScaleEv: number;
+  /** Fraction of events in the flat shelf down to the lowest channel. */
+  shelfFraction: number;
+  /** Measured detection efficiency relative to the model stack (or absolute QE), with error. */
+  efficiency: number | null;
+  efficiencyErr: number | null;
+}
+
+/** FWHM law: σ² = (w·N_r)²·n_pix(E) + F·w·E + σ₀², n_pix(E) = a + b·E. */
+export interface FwhmLaw {
+  source: 'law';
+  readNoiseE: number;
+  fano: number;
+  sigma0Ev: number;
+  pixelsPerEvent: { a: number; bPerKeV: number };
+}
+
+/**
+ * Energy scale: measured centroid(E) = E·(1 + gainError) + offsetEv − chargeLossEv·exp(−E/chargeLossScaleKeV).
+ * The last term is the loss of charge near the entrance surface that shifts soft peaks low.
+ */
+export interface CentroidLaw {
+  source: 'law';
+  gainError: number;
+  offsetEv: number;
+  chargeLossEv: number;
+  chargeLossScaleKeV: number;
+}
+
+/** Tail fraction(E) = f0·exp(−E/scaleKeV); tail e-folding scale constant. */
+export interface TailLaw {
+  source: 'law';
+  fractionAtZero: number;
+  fractionScaleKeV: number;
+  tailScaleEv: number;
+}
+
+export interface ShelfLaw {
+  source: 'law';
+  fraction: number;
+}
+
+export interface FromLineFits {
+  source: 'line-fits';
+}
+
+export interface RedistributionSpec {
+  /** Mean energy per electron-hole pair, eV. */
+  pairEnergyEv: number;
+  /** Events below this measured energy are lost (keV). */
+  thresholdKeV: number;
+  fwhm: FwhmLaw | (FromLineFits & { fano: number; readNoiseE: number; pixelsPerEvent: { a: number; bPerKeV: number }; sigma0Ev: number });
+  centroid: CentroidLaw | FromLineFits;
+  tail: TailLaw | FromLineFits;
+  shelf: ShelfLaw | FromLineFits;
+  /** Include the Si Kα escape peak (fraction from the thick-slab approximation). */
+  escape: boolean;
+  /** Optional Si Kα fluorescence line from the detector's own surface layers: fraction above the Si K edge. */
+  siFluorescenceFraction: number;
+}
+
+/** The channel grid: PI channels of equal width in energy. */
+export interface ChannelGrid {
+  count: number;
+  firstChannel: number;
+  /** Width of one PI channel, eV; channel c spans [(c − firstChannel)·w, (c − firstChannel + 1)·w] + originEv. */
+  widthEv: number;
+  originEv: number;
+}
+
+/** The response energy grid (bins of true photon energy). */
+export interface EnergyGridSpec {
+  minKeV: number;
+  maxKeV: number;
+  bins: number;
+  spacing: 'linear' | 'log';
+}
