@@ -1,0 +1,115 @@
+/**
+ * Effective area on a response energy grid: mirror area × detector efficiency. The mirror table is
+ * interpolated log-log (linear where an end point is zero) at each bin centre (ENERG_LO+ENERG_HI)/2,
+ * and the efficiency is evaluated at the same centres; no averaging over the bin.
+ */
+import { KilnInputError } from '../errors.ts';
+import type { ArfData } from '../response/types.ts';
+import type { DetectorStack } from './types.ts';
+import { efficiencyBreakdown } from './efficiency.ts';
+
+export interface MirrorAreaTable {
+  energyKeV: ArrayLike<number>;
+  areaCm2: ArrayLike<number>;
+  /** Where the table came from (file name), used in error messages. */
+  source?: string;
+}
+
+/** Relative slack when deciding whether the table covers the grid (text round-off). */
+const COVER_SLACK = 1e-9;
+
+function checkMirror(t: MirrorAreaTable): void {
+  const file = t.source;
+  const n = t.energyKeV?.length ?? 0;
+  if (n < 2 || t.areaCm2?.length !== n) {
+    throw new KilnInputError('mirror area table needs at least two rows and as many areas as energies', {
+      file,
+      field: 'energyKeV/areaCm2',
+      value: { energies: n, areas: t.areaCm2?.length ?? 0 },
+      expected: 'two arrays of equal length >= 2',
+    });
+  }
+  for (let i = 0; i < n; i++) {
+    const e = t.energyKeV[i];
+    const a = t.areaCm2[i];
+    if (!(Number.isFinite(e) && e > 0) || (i > 0 && !(e > t.energyKeV[i - 1]))) {
+      throw new KilnInputError(`mirror area table: energy in row ${i + 1} is not positive and strictly increasing`, {
+        file,
+        field: `energyKeV[${i}]`,
+        value: e,
+        expected: 'positive energies in strictly increasing order (keV)',
+      });
+    }
+    if (!(Number.isFinite(a) && a >= 0)) {
+      throw new KilnInputError(`mirror area table: area in row ${i + 1} is not a number >= 0`, { file, field: `areaCm2[${i}]`, value: a, expected: 'an area >= 0 cm²' });
+    }
+  }
+}
+
+function checkGrid(lo: Float64Array, hi: Float64Array): void {
+  if (lo.length === 0 || lo.length !== hi.length) {
+    throw new KilnInputError('response energy grid: ENERG_LO and ENERG_HI must be non-empty and of equal length', {
+      field: 'energyGrid',
+      value: { lo: lo.length, hi: hi.length },
+      expected: 'equal non-zero lengths',
+    });
+  }
+  for (let i = 0; i < lo.length; i++) {
+    if (!(lo[i] > 0 && hi[i] > lo[i]) || (i > 0 && lo[i] < hi[i - 1] * (1 - COVER_SLACK))) {
+      throw new KilnInputError(`response energy grid: bin ${i + 1} is not increasing`, {
+        field: `ENERG_LO/ENERG_HI[${i}]`,
+        value: [lo[i], hi[i]],
+        expected: '0 < ENERG_LO < ENERG_HI, bins in increasing order',
+      });
+    }
+  }
+}
+
+/** Mirror area at the centre of each bin, cm². The table must cover [ENERG_LO[0], ENERG_HI[last]]. */
+export function mirrorAreaAtBinCentres(table: MirrorAreaTable, energLoKeV: Float64Array, energHiKeV: Float64Array): Float64Array {
+  checkMirror(table);
+  checkGrid(energLoKeV, energHiKeV);
+  const e = table.energyKeV;
+  const a = table.areaCm2;
+  const n = e.length;
+  const gridLo = energLoKeV[0];
+  const gridHi = energHiKeV[energHiKeV.length - 1];
+  if (e[0] > gridLo * (1 + COVER_SLACK) || e[n - 1] < gridHi * (1 - COVER_SLACK)) {
+    throw new KilnInputError('mirror area table does not cover the response energy grid', {
+      file: table.source,
+      field: 'energyKeV',
+      value: `${e[0]}–${e[n - 1]} keV`,
+      expected: `a table spanning at least ${gridLo}–${gridHi} keV`,
+    });
+  }
+  const out = new Float64Array(energLoKeV.length);
+  let k = 0;
+  for (let i = 0; i < out.length; i++) {
+    const x = Math.min(Math.max(0.5 * (energLoKeV[i] + energHiKeV[i]), e[0]), e[n - 1]);
+    while (k < n - 2 && x > e[k + 1]) k++;
+    const [e0, e1, a0, a1] = [e[k], e[k + 1], a[k], a[k + 1]];
+    if (a0 > 0 && a1 > 0) out[i] = Math.exp(Math.log(a0) + (Math.log(a1 / a0) * Math.log(x / e0)) / Math.log(e1 / e0));
+    else out[i] = a0 + ((a1 - a0) * (x - e0)) / (e1 - e0);
+  }
+  return out;
+}
+
+/** Bin centres, keV. */
+export function binCentresKeV(energLoKeV: Float64Array, energHiKeV: Float64Array): Float64Array {
+  checkGrid(energLoKeV, energHiKeV);
+  return energLoKeV.map((lo, i) => 0.5 * (lo + energHiKeV[i]));
+}
+
+/** SPECRESP (cm²) of an ARF: mirror area × detector efficiency at the bin centres. */
+export function effectiveArea(
+  stack: DetectorStack,
+  mirror: MirrorAreaTable,
+  energLoKeV: Float64Array,
+  energHiKeV: Float64Array,
+  dateIso: string | null,
+): Pick<ArfData, 'energLoKeV' | 'energHiKeV' | 'specrespCm2'> {
+  const area = mirrorAreaAtBinCentres(mirror, energLoKeV, energHiKeV);
+  const qe = efficiencyBreakdown(stack, binCentresKeV(energLoKeV, energHiKeV), dateIso).detectorQE;
+  const specrespCm2 = area.map((v, i) => v * qe[i]);
+  return { energLoKeV: Float64Array.from(energLoKeV), energHiKeV: Float64Array.from(energHiKeV), specrespCm2 };
+}
