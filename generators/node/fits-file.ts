@@ -1,0 +1,91 @@
+/**
+ * Node file access for FITS: read (plain or gzip-compressed) with a size bound, and write
+ * atomically so that a failed write never leaves a partial product behind.
+ */
+import { closeSync, fsyncSync, openSync, readFileSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { gunzipSync } from 'node:zlib';
+import { KilnInputError } from '../errors.ts';
+import { readFits, type ChecksumPolicy, type FitsFile } from '../fits/index.ts';
+
+/** Largest file (after decompression) read by default: generous for response matrices. */
+export const DEFAULT_MAX_FITS_BYTES = 1024 * 1024 * 1024;
+/** gzip magic bytes (RFC 1952 §2.3.1). */
+const GZIP_MAGIC = [0x1f, 0x8b];
+
+export interface ReadFitsFileOptions {
+  maxBytes?: number;
+  verifyChecksums?: ChecksumPolicy;
+}
+
+/** Reads a file's bytes, gunzipping when it starts with the gzip magic; errors name the path. */
+export function readFitsBytes(path: string, opts: { maxBytes?: number } = {}): Uint8Array {
+  const maxBytes = opts.maxBytes ?? DEFAULT_MAX_FITS_BYTES;
+  let raw: Buffer;
+  try {
+    const st = statSync(path);
+    if (!st.isFile()) throw new KilnInputError('not a regular file', { file: path, expected: 'a FITS file' });
+    if (st.size > maxBytes) {
+      throw new KilnInputError(`file is ${st.size} bytes, over the limit`, { file: path, expected: `at most ${maxBytes} bytes` });
+    }
+    raw = readFileSync(path);
+  } catch (e) {
+    if (e instanceof KilnInputError) throw e;
+    const code = (e as NodeJS.ErrnoException).code ?? 'error';
+    throw new KilnInputError(`cannot read file (${code})`, { file: path, expected: 'a readable FITS file' });
+  }
+  if (raw.length >= 2 && raw[0] === GZIP_MAGIC[0] && raw[1] === GZIP_MAGIC[1]) {
+    try {
+      raw = gunzipSync(raw, { maxOutputLength: maxBytes });
+    } catch (e) {
+      const tooBig = (e as NodeJS.ErrnoException).code === 'ERR_BUFFER_TOO_LARGE' || e instanceof RangeError;
+      throw new KilnInputError(tooBig ? 'gzip content is larger than the limit' : `corrupt gzip data (${(e as Error).message})`, {
+        file: path,
+        expected: tooBig ? `at most ${maxBytes} bytes after decompression` : 'a complete gzip stream holding a FITS file',
+      });
+    }
+  }
+  return new Uint8Array(raw.buffer, raw.byteOffset, raw.byteLength);
+}
+
+/** Reads and parses a FITS file (gzip allowed); errors carry the path. */
+export function readFitsFile(path: string, opts: ReadFitsFileOptions = {}): FitsFile {
+  return readFits(readFitsBytes(path, opts), { fileName: path, verifyChecksums: opts.verifyChecksums });
+}
+
+let tempCounter = 0;
+
+/** Writes bytes to a temporary file in the same directory, fsyncs it, then renames it over `path`. */
+export function writeFileAtomic(path: string, bytes: Uint8Array): void {
+  const dir = dirname(path);
+  const tmp = join(dir, `.${basename(path)}.${process.pid}.${++tempCounter}.tmp`);
+  let fd: number | undefined;
+  try {
+    fd = openSync(tmp, 'wx');
+    let done = 0;
+    while (done < bytes.length) done += writeSync(fd, bytes, done, bytes.length - done);
+    fsyncSync(fd);
+    closeSync(fd);
+    fd = undefined;
+    renameSync(tmp, path);
+  } catch (e) {
+    if (fd !== undefined) closeSync(fd);
+    try {
+      unlinkSync(tmp);
+    } catch {
+      /* already gone */
+    }
+    throw e;
+  }
+  try {
+    // Persist the rename itself; not all platforms allow fsync on a directory.
+    const dfd = openSync(dir, 'r');
+    try {
+      fsyncSync(dfd);
+    } finally {
+      closeSync(dfd);
+    }
+  } catch {
+    /* best effort */
+  }
+}

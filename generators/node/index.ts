@@ -1,0 +1,2 @@
+/** Thin Node layers over the browser-safe core. */
+export * from './fits-file.ts';
