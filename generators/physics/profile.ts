@@ -1,0 +1,223 @@
+/**
+ * The measured-energy profile of monochromatic photons of true energy E: a mixture of components
+ * whose CDFs are closed forms, so channel probabilities are CDF differences.
+ *
+ *  - core: Gaussian N(c, σ)
+ *  - tail: low-energy exponential tail (scale τ) convolved with the same Gaussian — the exponentially
+ *    modified Gaussian of X = c − Y + G, Y ~ Exp(τ), G ~ N(0, σ):
+ *      F(x) = Φ(u/σ) + exp(u/τ + σ²/2τ²)·Φ(−u/σ − σ/τ),  u = x − c
+ *    the second term is evaluated as ½·exp(−u²/2σ²)·erfcx(a), a = (u/σ + σ/τ)/√2, when a ≥ 0,
+ *    so it never overflows (the exponent of the plain form is large exactly where erfc underflows);
+ *  - shelf: flat from the lowest channel energy up to c, convolved with the Gaussian;
+ *  - escape: Si Kα escape peak, Gaussian at the centroid and σ of energy E − E_Kα;
+ *  - fluorescence: Si Kα line from the detector's own surface layers, Gaussian at E_Kα.
+ * Fractions sum to 1 (the core takes the rest); events measured below the threshold are lost.
+ * Energies in keV.
+ */
+import { erfc, erfcx, normalCdf, normalPdf, INV_SQRT_2PI, SQRT2 } from './special.ts';
+import { KilnInputError } from '../errors.ts';
+
+/** Parameters of the profile at one true energy (see generators/response/params.ts). */
+export interface ProfileParams {
+  centroidKeV: number;
+  sigmaKeV: number;
+  tailFraction: number;
+  tailScaleKeV: number;
+  shelfFraction: number;
+  escapeFraction: number;
+  fluorescenceFraction: number;
+}
+
+export type ProfileComponent =
+  | { kind: 'gaussian'; role: 'core' | 'escape' | 'fluorescence'; fraction: number; centroidKeV: number; sigmaKeV: number }
+  | { kind: 'tail'; fraction: number; centroidKeV: number; sigmaKeV: number; scaleKeV: number }
+  | { kind: 'shelf'; fraction: number; lowKeV: number; highKeV: number; sigmaKeV: number };
+
+/** Gaussian window half-width in σ beyond which a component's CDF is taken as exactly 0 or 1 (Φ(−8) ≈ 6e-16). */
+export const WINDOW_SIGMAS = 8;
+/** Tail e-foldings below the centroid beyond which the tail's CDF is taken as 0 (e^-36 ≈ 2e-16). */
+export const TAIL_EFOLDINGS = 36;
+
+// ---- component CDFs (unit mass) ----
+
+export function gaussianCdf(x: number, c: number, s: number): number {
+  return 0.5 * erfc((c - x) / (s * SQRT2));
+}
+
+export function gaussianPdf(x: number, c: number, s: number): number {
+  return normalPdf((x - c) / s) / s;
+}
+
+/** exp(u/τ + σ²/2τ²)·Φ(−u/σ − σ/τ): the tail part of the EMG CDF (τ times its density). */
+function emgTerm(u: number, s: number, tau: number): number {
+  const a = (u / s + s / tau) / SQRT2;
+  if (a >= 0) return 0.5 * Math.exp((-0.5 * u * u) / (s * s)) * erfcx(a);
+  return 0.5 * Math.exp(u / tau + (0.5 * s * s) / (tau * tau)) * erfc(a);
+}
+
+/** CDF of the low-energy exponentially modified Gaussian. */
+export function emgLowTailCdf(x: number, c: number, s: number, tau: number): number {
+  const u = x - c;
+  return normalCdf(u / s) + emgTerm(u, s, tau);
+}
+
+/** Density of the low-energy exponentially modified Gaussian. */
+export function emgLowTailPdf(x: number, c: number, s: number, tau: number): number {
+  return emgTerm(x - c, s, tau) / tau;
+}
+
+/** ψ(z) = ∫_{−∞}^{z} Φ(t) dt = z·Φ(z) + φ(z), stable for both signs. */
+function psi(z: number): number {
+  if (z > 0) return z + psi(-z);
+  // z ≤ 0: Φ(z) = ½·erfcx(−z/√2)·exp(−z²/2)
+  const g = Math.exp(-0.5 * z * z);
+  return g * (0.5 * z * erfcx(-z / SQRT2) + INV_SQRT_2PI);
+}
+
+/** CDF of Uniform[lo, hi] convolved with N(0, σ). */
+export function shelfCdf(x: number, lo: number, hi: number, s: number): number {
+  const width = hi - lo;
+  if (width <= 1e-9 * s) return gaussianCdf(x, lo, s);
+  // far from both edges the convolution is exactly linear/0/1 to double precision
+  if (x <= lo - WINDOW_SIGMAS * s) return 0;
+  if (x >= hi + WINDOW_SIGMAS * s) return 1;
+  if (x >= lo + WINDOW_SIGMAS * s && x <= hi - WINDOW_SIGMAS * s) return (x - lo) / width;
+  return ((psi((x - lo) / s) - psi((x - hi) / s)) * s) / width;
+}
+
+export function shelfPdf(x: number, lo: number, hi: number, s: number): number {
+  const width = hi - lo;
+  if (width <= 1e-9 * s) return gaussianPdf(x, lo, s);
+  return (normalCdf((x - lo) / s) - normalCdf((x - hi) / s)) / width;
+}
+
+/** Energy range outside which the component CDF is 0 (below) or 1 (above) to ~1e-15. */
+export function componentWindow(c: ProfileComponent): [number, number] {
+  switch (c.kind) {
+    case 'gaussian':
+      return [c.centroidKeV - WINDOW_SIGMAS * c.sigmaKeV, c.centroidKeV + WINDOW_SIGMAS * c.sigmaKeV];
+    case 'tail':
+      return [c.centroidKeV - TAIL_EFOLDINGS * c.scaleKeV - WINDOW_SIGMAS * c.sigmaKeV, c.centroidKeV + WINDOW_SIGMAS * c.sigmaKeV];
+    case 'shelf':
+      return [c.lowKeV - WINDOW_SIGMAS * c.sigmaKeV, c.highKeV + WINDOW_SIGMAS * c.sigmaKeV];
+  }
+}
+
+/**
+ * A fast unit-mass CDF of one component, exact inside its window up to ~1e-15, clamped to 0/1
+ * outside it; clamped so that sums over channels telescope exactly.
+ */
+export function componentCdf(c: ProfileComponent): (x: number) => number {
+  const [wlo, whi] = componentWindow(c);
+  switch (c.kind) {
+    case 'gaussian': {
+      const mu = c.centroidKeV;
+      const k = 1 / (c.sigmaKeV * SQRT2);
+      return (x) => (x <= wlo ? 0 : x >= whi ? 1 : 0.5 * erfc((mu - x) * k));
+    }
+    case 'tail': {
+      const mu = c.centroidKeV;
+      const s = c.sigmaKeV;
+      const tau = c.scaleKeV;
+      // below this u the Gaussian parts are 0 and 1 to double precision: F = exp(u/τ + σ²/2τ²)
+      const uFast = -s * (WINDOW_SIGMAS + s / tau);
+      const shift = (0.5 * s * s) / (tau * tau);
+      return (x) => {
+        if (x <= wlo) return 0;
+        if (x >= whi) return 1;
+        const u = x - mu;
+        if (u < uFast) return Math.exp(u / tau + shift);
+        return normalCdf(u / s) + emgTerm(u, s, tau);
+      };
+    }
+    case 'shelf': {
+      const { lowKeV, highKeV, sigmaKeV } = c;
+      return (x) => (x <= wlo ? 0 : x >= whi ? 1 : shelfCdf(x, lowKeV, highKeV, sigmaKeV));
+    }
+  }
+}
+
+export function componentPdf(c: ProfileComponent, x: number): number {
+  switch (c.kind) {
+    case 'gaussian':
+      return gaussianPdf(x, c.centroidKeV, c.sigmaKeV);
+    case 'tail':
+      return emgLowTailPdf(x, c.centroidKeV, c.sigmaKeV, c.scaleKeV);
+    case 'shelf':
+      return shelfPdf(x, c.lowKeV, c.highKeV, c.sigmaKeV);
+  }
+}
+
+/** What a profile needs besides its own parameters. */
+export interface ProfileContext {
+  /** Lower energy of the lowest channel: where the shelf starts. */
+  shelfLowKeV: number;
+  /** Centroid and σ of the escape peak (those of energy E − E_Kα); needed when escapeFraction > 0. */
+  escape?: { centroidKeV: number; sigmaKeV: number };
+  /** Centroid and σ of the Si Kα fluorescence line; needed when fluorescenceFraction > 0. */
+  fluorescence?: { centroidKeV: number; sigmaKeV: number };
+}
+
+/** Throws KilnInputError when the fractions are not in [0, 1] or sum above 1. */
+export function checkFractions(p: ProfileParams, energyKeV: number): void {
+  const names = ['tailFraction', 'shelfFraction', 'escapeFraction', 'fluorescenceFraction'] as const;
+  let sum = 0;
+  for (const n of names) {
+    const v = p[n];
+    if (!(v >= 0 && v <= 1))
+      throw new KilnInputError(`profile ${n} out of range at ${energyKeV} keV`, { field: n, value: v, expected: 'in [0, 1]' });
+    sum += v;
+  }
+  if (sum > 1)
+    throw new KilnInputError(`profile fractions sum above 1 at ${energyKeV} keV`, { field: names.join('+'), value: sum, expected: '≤ 1' });
+  if (!(p.sigmaKeV > 0)) throw new KilnInputError(`profile width must be > 0 at ${energyKeV} keV`, { field: 'sigmaKeV', value: p.sigmaKeV, expected: '> 0' });
+  if (p.tailFraction > 0 && !(p.tailScaleKeV > 0))
+    throw new KilnInputError(`tail scale must be > 0 where the tail fraction is > 0 (at ${energyKeV} keV)`, { field: 'tailScaleKeV', value: p.tailScaleKeV, expected: '> 0' });
+}
+
+/** The profile's components (those with a non-zero fraction); fractions sum to 1. */
+export function profileComponents(p: ProfileParams, ctx: ProfileContext, energyKeV = p.centroidKeV): ProfileComponent[] {
+  checkFractions(p, energyKeV);
+  const out: ProfileComponent[] = [];
+  const core = 1 - p.tailFraction - p.shelfFraction - p.escapeFraction - p.fluorescenceFraction;
+  if (core > 0) out.push({ kind: 'gaussian', role: 'core', fraction: core, centroidKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV });
+  if (p.tailFraction > 0)
+    out.push({ kind: 'tail', fraction: p.tailFraction, centroidKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV, scaleKeV: p.tailScaleKeV });
+  if (p.shelfFraction > 0) {
+    const lo = Math.min(ctx.shelfLowKeV, p.centroidKeV);
+    out.push({ kind: 'shelf', fraction: p.shelfFraction, lowKeV: lo, highKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV });
+  }
+  if (p.escapeFraction > 0) {
+    if (!ctx.escape) throw new Error('profileComponents: escape fraction > 0 but no escape-peak centroid/σ given');
+    out.push({ kind: 'gaussian', role: 'escape', fraction: p.escapeFraction, ...ctx.escape });
+  }
+  if (p.fluorescenceFraction > 0) {
+    if (!ctx.fluorescence) throw new Error('profileComponents: fluorescence fraction > 0 but no line centroid/σ given');
+    out.push({ kind: 'gaussian', role: 'fluorescence', fraction: p.fluorescenceFraction, ...ctx.fluorescence });
+  }
+  return out;
+}
+
+/** Mixture CDF before the threshold. */
+export function profileCdf(components: readonly ProfileComponent[], x: number): number {
+  let s = 0;
+  for (const c of components) s += c.fraction * componentCdf(c)(x);
+  return s;
+}
+
+export function profilePdf(components: readonly ProfileComponent[], x: number): number {
+  let s = 0;
+  for (const c of components) s += c.fraction * componentPdf(c, x);
+  return s;
+}
+
+/** Fraction of events lost below the event threshold. */
+export function thresholdLoss(components: readonly ProfileComponent[], thresholdKeV: number): number {
+  return profileCdf(components, thresholdKeV);
+}
+
+/** Detected-events CDF: 0 below the threshold, F(x) − F(threshold) above (total 1 − loss). */
+export function detectedCdf(components: readonly ProfileComponent[], thresholdKeV: number, x: number): number {
+  if (x <= thresholdKeV) return 0;
+  return profileCdf(components, x) - profileCdf(components, thresholdKeV);
+}

@@ -1,0 +1,5 @@
+export * from './grid.ts';
+export * from './ebounds.ts';
+export * from './compress.ts';
+export * from './params.ts';
+export * from './redistribution.ts';

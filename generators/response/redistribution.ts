@@ -1,0 +1,173 @@
+/**
+ * Builds the redistribution matrix: for each true-energy bin, the probability of each channel as
+ * differences of the profile CDF at the channel boundaries (one CDF evaluation per boundary and
+ * component). Each component is evaluated only inside its window (±8σ for Gaussians; the tail's
+ * exponential down to 36 e-foldings; the shelf's linear middle in closed form); outside it the CDF
+ * is exactly 0 or 1, so the row telescopes and
+ *   Σ row + thresholdLoss + outsideLoss + droppedByCut = 1
+ * holds to rounding. When the centroid moves by more than a quarter σ across an energy bin the row
+ * is averaged over the bin (composite 2-point Gauss–Legendre, sub-intervals ≤ σ/2 of centroid
+ * motion), i.e. the matrix is for a spectrum flat within each bin.
+ */
+import type { ResponseMeta, RmfData, RmfRow } from './types.ts';
+import type { ChannelGrid, EnergyGridSpec, LineFit, RedistributionSpec } from './model-types.ts';
+import type { EscapeInputs } from '../physics/escape.ts';
+import { componentCdf, componentWindow, profileComponents, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
+import { buildParamsAt, type ParamsAt } from './params.ts';
+import { channelBoundsKeV, checkEnergyBins, energyGrid, type EnergyBins } from './grid.ts';
+import { eboundsFromChannels } from './ebounds.ts';
+import { compressRow, cutForBudget, DEFAULT_DROP_BUDGET } from './compress.ts';
+import { KilnInputError } from '../errors.ts';
+
+/** Sub-sample an energy bin when the centroid moves by more than this many σ across it. */
+export const SUBSAMPLE_SIGMAS = 0.25;
+/** Width (in σ of centroid motion) of each Gauss–Legendre sub-interval. */
+export const SUBINTERVAL_SIGMAS = 0.5;
+/** Cap on sub-intervals per bin (coarse bins over very narrow lines). */
+export const MAX_SUBINTERVALS = 256;
+/** 2-point Gauss–Legendre nodes on [−1, 1] are ±1/√3 with equal weights (Abramowitz & Stegun 25.4.29). */
+const GL2_NODE = 1 / Math.sqrt(3);
+
+export interface RedistributionInput {
+  spec: RedistributionSpec;
+  lineFits: readonly LineFit[];
+  energy: EnergyGridSpec | EnergyBins;
+  channels: ChannelGrid;
+  meta: ResponseMeta;
+  /** Silicon atomic data (ω_K, J, Kα, K edge, μ(E)); required with the escape peak or Si fluorescence. */
+  silicon?: EscapeInputs;
+  /** Element cut (LO_THRES). Default: dropBudget / channel count, which bounds each row's dropped sum by dropBudget. */
+  cut?: number;
+  /** Per-row dropped-probability budget used for the default cut (1e-5). */
+  dropBudget?: number;
+  file?: string;
+}
+
+/** Per-row accounting of probability not in the stored row. */
+export interface RowLosses {
+  /** Events measured below the event threshold. */
+  thresholdLoss: Float64Array;
+  /** Events measured below the lowest or above the highest channel (and above the threshold). */
+  outsideLoss: Float64Array;
+  /** Probability of the elements dropped by the cut. */
+  droppedByCut: Float64Array;
+}
+
+export interface RedistributionResult {
+  rmf: RmfData;
+  losses: RowLosses;
+  /** Stored matrix elements. */
+  nnz: number;
+}
+
+interface RowContext {
+  bounds: Float64Array;
+  widthKeV: number;
+  thresholdKeV: number;
+}
+
+/** Adds `mass` × component to prob; returns nothing, accumulates losses into acc[0] (threshold), acc[1] (outside). */
+function addComponent(prob: Float64Array, rc: RowContext, comp: ProfileComponent, mass: number, acc: Float64Array): void {
+  const { bounds, widthKeV, thresholdKeV: thr } = rc;
+  const n = bounds.length - 1;
+  const b0 = bounds[0];
+  const bN = bounds[n];
+  const G = componentCdf(comp);
+  const L = thr > b0 ? thr : b0;
+  const gL = G(L);
+  const gN = G(bN);
+  if (thr > b0) acc[0] += mass * gL;
+  else acc[1] += mass * gL;
+  acc[1] += mass * (1 - gN);
+  const [lo, hi] = componentWindow(comp);
+  const xa = Math.max(lo, L);
+  const xb = Math.min(hi, bN);
+  if (!(xb > xa)) return;
+  // one channel of margin each side against rounding in the index arithmetic
+  const ja = Math.max(0, Math.floor((xa - b0) / widthKeV) - 1);
+  const jb = Math.min(n - 1, Math.floor((xb - b0) / widthKeV) + 1);
+  let prev = G(bounds[ja] > thr ? bounds[ja] : thr);
+  for (let j = ja; j <= jb; j++) {
+    const x = bounds[j + 1];
+    const next = G(x > thr ? x : thr);
+    prob[j] += mass * (next - prev);
+    prev = next;
+  }
+}
+
+function nodesFor(loKeV: number, hiKeV: number, paramsAt: ParamsAt): { e: Float64Array; w: Float64Array } {
+  const pLo = paramsAt(loKeV);
+  const pHi = paramsAt(hiKeV);
+  const motion = Math.abs(pHi.centroidKeV - pLo.centroidKeV);
+  const sigma = Math.min(pLo.sigmaKeV, pHi.sigmaKeV);
+  if (motion <= SUBSAMPLE_SIGMAS * sigma) return { e: Float64Array.of(0.5 * (loKeV + hiKeV)), w: Float64Array.of(1) };
+  const m = Math.min(MAX_SUBINTERVALS, Math.ceil(motion / (SUBINTERVAL_SIGMAS * sigma)));
+  const e = new Float64Array(2 * m);
+  const w = new Float64Array(2 * m).fill(1 / (2 * m));
+  const h = (hiKeV - loKeV) / m;
+  for (let i = 0; i < m; i++) {
+    const mid = loKeV + (i + 0.5) * h;
+    e[2 * i] = mid - 0.5 * h * GL2_NODE;
+    e[2 * i + 1] = mid + 0.5 * h * GL2_NODE;
+  }
+  return { e, w };
+}
+
+/** Builds the matrix and its loss report. Throws KilnInputError on bad grids or parameters. */
+export function buildRedistribution(input: RedistributionInput): RedistributionResult {
+  const { spec, channels, silicon, file } = input;
+  const bins = 'loKeV' in input.energy ? checkEnergyBins(input.energy, 'energyBins', file) : energyGrid(input.energy, 'energyGrid', file);
+  const bounds = channelBoundsKeV(channels, 'channels', file);
+  const paramsAt = buildParamsAt(spec, input.lineFits, { silicon, file });
+  const n = channels.count;
+  const budget = input.dropBudget ?? DEFAULT_DROP_BUDGET;
+  const cut = input.cut ?? cutForBudget(n, budget);
+  if (!(cut >= 0 && cut < 1)) throw new KilnInputError('matrix element cut out of range', { file, field: 'cut', value: cut, expected: 'in [0, 1)' });
+  const rc: RowContext = { bounds, widthKeV: channels.widthEv / 1000, thresholdKeV: spec.thresholdKeV };
+
+  let fluoCtx: ProfileContext['fluorescence'];
+  if (silicon && spec.siFluorescenceFraction > 0) {
+    const pf = paramsAt(silicon.kAlphaKeV);
+    fluoCtx = { centroidKeV: pf.centroidKeV, sigmaKeV: pf.sigmaKeV };
+  }
+
+  const nE = bins.loKeV.length;
+  const rows: RmfRow[] = new Array(nE);
+  const losses: RowLosses = { thresholdLoss: new Float64Array(nE), outsideLoss: new Float64Array(nE), droppedByCut: new Float64Array(nE) };
+  const prob = new Float64Array(n);
+  const acc = new Float64Array(2);
+  let nnz = 0;
+  for (let i = 0; i < nE; i++) {
+    prob.fill(0);
+    acc.fill(0);
+    const { e, w } = nodesFor(bins.loKeV[i], bins.hiKeV[i], paramsAt);
+    for (let k = 0; k < e.length; k++) {
+      const p = paramsAt(e[k]);
+      const ctx: ProfileContext = { shelfLowKeV: bounds[0], fluorescence: fluoCtx };
+      if (p.escapeFraction > 0 && silicon) {
+        const pe = paramsAt(e[k] - silicon.kAlphaKeV);
+        ctx.escape = { centroidKeV: pe.centroidKeV, sigmaKeV: pe.sigmaKeV };
+      }
+      for (const c of profileComponents(p, ctx, e[k])) addComponent(prob, rc, c, w[k] * c.fraction, acc);
+    }
+    const { row, dropped } = compressRow(prob, cut, channels.firstChannel);
+    rows[i] = row;
+    nnz += row.matrix.length;
+    losses.thresholdLoss[i] = acc[0];
+    losses.outsideLoss[i] = acc[1];
+    losses.droppedByCut[i] = dropped;
+  }
+
+  const rmf: RmfData = {
+    meta: input.meta,
+    hduclas3: 'REDIST',
+    detchans: n,
+    firstChannel: channels.firstChannel,
+    loThres: cut,
+    energLoKeV: bins.loKeV,
+    energHiKeV: bins.hiKeV,
+    rows,
+    ebounds: eboundsFromChannels(channels),
+  };
+  return { rmf, losses, nnz };
+}
