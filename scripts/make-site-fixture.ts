@@ -246,7 +246,8 @@ function detectorSite(rel: ReleaseDef, det: number, seed: number): DetectorSite 
   });
   const resE = logGrid(0.2, 12, 80);
   const profileEnergies = [0.5, 1.5, 3, 5.9, 8];
-  const matrixE = logGrid(0.2, 12, 40);
+  // Rows evenly spaced in energy across matrix.energyKeV (linear), columns across channelEnergyKeV.
+  const matrixE = Array.from({ length: 40 }, (_, i) => 0.2 + ((12 - 0.2) * (i + 0.5)) / 40);
   const log10 = matrixE.map((e) => profileRow(e, rel, det).map((p) => (p > 0 ? round(Math.log10(p), 4) : null)));
   return {
     id: d.id,

@@ -1,0 +1,4 @@
+export * from './interp.ts';
+export * from './params.ts';
+export * from './checks.ts';
+export * from './render.ts';

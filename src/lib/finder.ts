@@ -1,0 +1,39 @@
+/** Files valid for an observation date: validFrom ≤ date < validTo (validTo null = open). */
+import type { ProductSummary, ReleaseIndex, ReleaseSummary } from '../../generators/site-data/types.ts';
+import { statusRank } from './status.ts';
+
+export interface FinderHit {
+  release: ReleaseSummary;
+  product: ProductSummary;
+  /** Non-null for superseded or withdrawn releases. */
+  warning: string | null;
+}
+
+/** ISO dates (YYYY-MM-DD) compare correctly as strings; longer timestamps are cut to the date. */
+const day = (s: string) => s.slice(0, 10);
+
+export const coversDate = (p: { validFrom: string; validTo: string | null }, dateIso: string): boolean =>
+  day(p.validFrom) <= day(dateIso) && (p.validTo === null || day(dateIso) < day(p.validTo));
+
+export function findFiles(index: ReleaseIndex, detector: string, dateIso: string): FinderHit[] {
+  const hits: FinderHit[] = [];
+  for (const r of index.releases) {
+    if (r.status === 'draft') continue;
+    for (const p of r.products)
+      if (p.detector === detector && coversDate(p, dateIso))
+        hits.push({
+          release: r,
+          product: p,
+          warning:
+            r.status === 'withdrawn'
+              ? `Release ${r.id} was withdrawn: do not use these files.`
+              : r.status === 'superseded'
+                ? `Release ${r.id} is superseded${index.releases.find((x) => x.supersedes === r.id) ? ` by ${index.releases.find((x) => x.supersedes === r.id)!.id}` : ''}.`
+                : null,
+        });
+  }
+  // Status preference, then newest release date first, then product kind.
+  return hits.sort(
+    (a, b) => statusRank(a.release.status) - statusRank(b.release.status) || b.release.date.localeCompare(a.release.date) || a.product.kind.localeCompare(b.product.kind),
+  );
+}

@@ -1,0 +1,122 @@
+/**
+ * The release page's plots, built from one detector's published arrays (no physics recomputed;
+ * measured centroid offsets are the published centroid minus the line energy, in eV).
+ */
+import type { DetectorSite } from '../../generators/site-data/types.ts';
+import { lineSeries, pointSeries, roundSig, OKABE_ITO, type PlotSpec, type SeriesSpec } from './plot/index.ts';
+
+const W = 640;
+const H = 300;
+const H_RESID = 170;
+const EV_PER_KEV = 1000;
+/** Display floor for log probability axes: six decades below the peak. */
+const PROFILE_DECADES = 6;
+
+export function effectiveAreaPlot(det: DetectorSite, releaseId: string): PlotSpec {
+  const series: SeriesSpec[] = det.epochs.map((ep, i) => lineSeries(`effective area, epoch ${ep.id}`, ep.energyKeV, ep.effectiveAreaCm2, i));
+  const last = det.epochs[det.epochs.length - 1];
+  if (last) series.push({ ...lineSeries(`mirror (epoch ${last.id})`, last.energyKeV, last.mirrorCm2, 6), dash: '4 3', colour: OKABE_ITO.black });
+  return { id: `ea-${det.id}`, title: `${det.name}: effective area (release ${releaseId})`, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: 'Effective area', unit: 'cm²', scale: 'log', toggle: true }, series };
+}
+
+export function componentsPlot(det: DetectorSite): PlotSpec {
+  const last = det.epochs[det.epochs.length - 1];
+  const series: SeriesSpec[] = [];
+  if (last) last.components.forEach((c, i) => series.push(lineSeries(`${c.name} (${c.kind})`, last.energyKeV, c.values, i + 1)));
+  det.epochs.forEach((ep, i) => series.push({ ...lineSeries(`detector efficiency, epoch ${ep.id}`, ep.energyKeV, ep.detectorQE, 0), widthPx: 2.4, dash: i ? '6 3' : undefined, colour: i ? OKABE_ITO.skyBlue : OKABE_ITO.blue }));
+  return {
+    id: `qe-${det.id}`,
+    title: `${det.name}: detector efficiency and its components${last ? ` (components for epoch ${last.id})` : ''}`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'Transmission or absorption probability', unit: '', scale: 'log', toggle: true, domain: [1e-3, 1.05] },
+    series,
+  };
+}
+
+export function fwhmPlot(det: DetectorSite): PlotSpec {
+  const f = det.lineFits;
+  return {
+    id: `fwhm-${det.id}`,
+    title: `${det.name}: FWHM vs energy`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'FWHM', unit: 'eV', scale: 'linear', toggle: true },
+    series: [
+      lineSeries('model', det.resolution.energyKeV, det.resolution.fwhmEv, 0),
+      pointSeries('measured line fits (1σ)', f.map((l) => l.energyKeV), f.map((l) => l.fwhmEv), f.map((l) => l.fwhmErrEv), 1),
+    ],
+  };
+}
+
+export function fwhmResidualPlot(det: DetectorSite): PlotSpec {
+  const f = det.lineFits;
+  return {
+    id: `fwhm-res-${det.id}`,
+    title: `${det.name}: FWHM residuals, measured − model`,
+    widthPx: W,
+    heightPx: H_RESID,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'Residual', unit: 'eV', scale: 'linear' },
+    yRef: 0,
+    series: [pointSeries('measured − model', f.map((l) => l.energyKeV), f.map((l) => l.fwhmResidualEv), f.map((l) => l.fwhmErrEv), 1)],
+  };
+}
+
+export function centroidPlot(det: DetectorSite): PlotSpec {
+  const f = det.lineFits;
+  return {
+    id: `cen-${det.id}`,
+    title: `${det.name}: centroid offset from line energy`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'Centroid − line energy', unit: 'eV', scale: 'linear' },
+    yRef: 0,
+    series: [
+      lineSeries('model', det.resolution.energyKeV, det.resolution.centroidOffsetEv, 0),
+      pointSeries('measured (1σ)', f.map((l) => l.energyKeV), f.map((l) => roundSig((l.centroidKeV - l.energyKeV) * EV_PER_KEV, 5)), f.map((l) => l.centroidErrEv), 1),
+    ],
+  };
+}
+
+export function centroidResidualPlot(det: DetectorSite): PlotSpec {
+  const f = det.lineFits;
+  return {
+    id: `cen-res-${det.id}`,
+    title: `${det.name}: centroid residuals, measured − model`,
+    widthPx: W,
+    heightPx: H_RESID,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'Residual', unit: 'eV', scale: 'linear' },
+    yRef: 0,
+    series: [pointSeries('measured − model', f.map((l) => l.energyKeV), f.map((l) => l.centroidResidualEv), f.map((l) => l.centroidErrEv), 1)],
+  };
+}
+
+/** Indices of the profiles shown before the reader picks: lowest, middle and highest energy. */
+export function defaultProfileIndices(n: number): number[] {
+  return [...new Set([0, Math.floor((n - 1) / 2), n - 1])].filter((i) => i >= 0 && i < n);
+}
+
+export function profilePlot(det: DetectorSite): PlotSpec {
+  const p = det.profiles;
+  const shown = new Set(defaultProfileIndices(p.energiesKeV.length));
+  let peak = 0;
+  for (const row of p.rows) for (const v of row) if (v > peak) peak = v;
+  const series = p.rows.map((row, i) => ({
+    ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i, 700),
+    hidden: !shown.has(i),
+  }));
+  return {
+    id: `prof-${det.id}`,
+    title: `${det.name}: line profiles (probability per channel)`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Channel energy', unit: 'keV', scale: 'linear', toggle: true },
+    y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, domain: peak > 0 ? [roundSig(peak / 10 ** PROFILE_DECADES, 2) as number, roundSig(peak * 1.5, 2) as number] : undefined },
+    series,
+  };
+}
