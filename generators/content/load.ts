@@ -1,0 +1,198 @@
+/**
+ * The content tree from disk: the only part of generators/content that touches the file system.
+ *
+ *   <root>/instruments/<id>/instrument.yaml + mirror-area.csv
+ *   <root>/releases/<semver>/release.yaml, notes.md, linefits/<detector>.csv
+ *   <root>/archive/          reserved for `kiln publish`; never read as input
+ *
+ * Every user mistake is a KilnInputError naming the file; nothing is written.
+ */
+import { readdir, readFile, stat } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { KilnInputError } from '../errors.ts';
+import { checkMirrorCoversGrid, parseInstrumentText, parseReleaseText } from './documents.ts';
+import { formatPath } from './issues.ts';
+import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
+import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { compareSemver } from './semver.ts';
+import { parseLineFits, parseMirrorArea } from './tables.ts';
+import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
+
+const UTF8 = new TextDecoder('utf-8', { fatal: true });
+/** Plain files allowed beside the entry directories (documentation). */
+const IGNORED_FILES = /^(\..*|README(\.md)?)$/;
+
+async function readBytes(file: string, expected: string): Promise<Uint8Array> {
+  try {
+    return new Uint8Array(await readFile(file));
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT') throw new KilnInputError('file not found', { file, expected });
+    if (code === 'EISDIR') throw new KilnInputError('is a directory, not a file', { file, expected });
+    throw e;
+  }
+}
+
+function decode(bytes: Uint8Array, file: string): string {
+  try {
+    return UTF8.decode(bytes);
+  } catch {
+    throw new KilnInputError('not UTF-8 text', { file, expected: 'a UTF-8 text file' });
+  }
+}
+
+async function isDirectory(p: string): Promise<boolean> {
+  try {
+    return (await stat(p)).isDirectory();
+  } catch {
+    return false;
+  }
+}
+
+/** Entry directories under `dir`; stray plain files are errors (they would be silently ignored). */
+async function entryDirs(dir: string, what: string): Promise<string[]> {
+  if (!(await isDirectory(dir))) return [];
+  const out: string[] = [];
+  for (const d of await readdir(dir, { withFileTypes: true })) {
+    if (d.isDirectory() && !d.name.startsWith('.')) out.push(d.name);
+    else if (!IGNORED_FILES.test(d.name))
+      throw new KilnInputError(`unexpected file in ${basename(dir)}/`, { file: join(dir, d.name), expected: `only one directory per ${what} (and README.md)` });
+  }
+  return out.sort();
+}
+
+interface LoadedInstrument {
+  instrument: Instrument;
+  source: DocSource;
+  inputs: InputFile[];
+}
+
+async function loadInstrumentAt(file: string, rel: (p: string) => string): Promise<LoadedInstrument> {
+  const bytes = await readBytes(file, `${INSTRUMENT_FILE}, the instrument description`);
+  const { doc, yaml } = parseInstrumentText(decode(bytes, file), file);
+  const dir = dirname(file);
+  const mirrorFile = join(dir, doc.mirrorArea);
+  const mirrorBytes = await readBytes(mirrorFile, `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
+  const mirror = parseMirrorArea(decode(mirrorBytes, mirrorFile), mirrorFile);
+  checkMirrorCoversGrid(mirror, doc);
+  return {
+    instrument: { ...doc, dir, file, mirror },
+    source: { file, locate: yaml.locate },
+    inputs: [
+      { path: rel(file), bytes },
+      { path: rel(mirrorFile), bytes: mirrorBytes },
+    ],
+  };
+}
+
+/** One instrument.yaml (and its mirror table), e.g. for `kiln efficiency`. */
+export async function loadInstrumentFile(path: string): Promise<Instrument> {
+  return (await loadInstrumentAt(path, (p) => p)).instrument;
+}
+
+function releaseError(src: DocSource, path: (string | number)[], message: string, value: unknown, expected: string): KilnInputError {
+  return new KilnInputError(message, { file: src.file, line: src.locate?.(path)?.line, field: formatPath(path), value, expected });
+}
+
+/** Loads, validates and resolves the whole tree. Throws the first KilnInputError found. */
+export async function loadContent(root: string): Promise<ContentTree> {
+  if (!(await isDirectory(root)))
+    throw new KilnInputError('content directory not found', { file: root, expected: `a directory with ${CONTENT_DIRS.instruments}/ and ${CONTENT_DIRS.releases}/` });
+  const rel = (p: string) => p.slice(root.length).replace(/^[\\/]+/, '').split(/[\\/]/).join('/');
+
+  const instruments = new Map<string, LoadedInstrument>();
+  const insDir = join(root, CONTENT_DIRS.instruments);
+  for (const name of await entryDirs(insDir, 'instrument')) {
+    const loaded = await loadInstrumentAt(join(insDir, name, INSTRUMENT_FILE), rel);
+    if (loaded.instrument.id !== name)
+      throw releaseError(loaded.source, ['id'], 'instrument id differs from its directory name', loaded.instrument.id, `"${name}" (or rename the directory)`);
+    instruments.set(name, loaded);
+  }
+
+  const relDir = join(root, CONTENT_DIRS.releases);
+  const parsed: { release: Release; source: DocSource; inputs: InputFile[] }[] = [];
+  for (const name of await entryDirs(relDir, 'release')) {
+    const dir = join(relDir, name);
+    const file = join(dir, RELEASE_FILE);
+    const bytes = await readBytes(file, `${RELEASE_FILE}, the release description`);
+    const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
+    const source: DocSource = { file, locate: yaml.locate };
+    if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
+    const notesFile = join(dir, NOTES_FILE);
+    const notesBytes = await readBytes(notesFile, `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
+    const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
+    parsed.push({ release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] });
+  }
+  parsed.sort((a, b) => compareSemver(a.release.id, b.release.id));
+  checkReleaseHistory(parsed);
+
+  const releases: ResolvedRelease[] = [];
+  for (const p of parsed) releases.push(await resolveRelease(p, instruments, rel));
+  return {
+    root,
+    instruments: [...instruments.values()].map((l) => l.instrument),
+    releases,
+  };
+}
+
+function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[]): void {
+  const byId = new Map(list.map((p) => [p.release.id, p]));
+  const supersededBy = new Map<string, string>();
+  for (const { release: r, source } of list) {
+    if (r.supersedes === null) continue;
+    const old = byId.get(r.supersedes);
+    if (!old) throw releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`);
+    if (compareSemver(r.supersedes, r.id) >= 0) throw releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`);
+    if (old.release.instrument !== r.instrument)
+      throw releaseError(source, ['supersedes'], `supersedes a release of another instrument (${old.release.instrument})`, r.supersedes, `a release of ${r.instrument}`);
+    supersededBy.set(r.supersedes, r.id);
+  }
+  for (const { release: r, source } of list)
+    if (r.status === 'superseded' && !supersededBy.has(r.id))
+      throw releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`);
+}
+
+async function resolveRelease(
+  p: { release: Release; source: DocSource; inputs: InputFile[] },
+  instruments: Map<string, LoadedInstrument>,
+  rel: (p: string) => string,
+): Promise<ResolvedRelease> {
+  const { release, source } = p;
+  const ins = instruments.get(release.instrument);
+  if (!ins) throw releaseError(source, ['instrument'], 'unknown instrument', release.instrument, `one of ${[...instruments.keys()].join(', ') || '(no instrument in the content tree)'}`);
+  const inputs = [...p.inputs, ...ins.inputs];
+  const used = new Set<string>();
+  const detectors = [];
+  for (const detectorId of Object.keys(release.detectors)) {
+    const relFile = lineFitsFileOf(release, detectorId);
+    const file = join(release.dir, relFile);
+    used.add(file);
+    if (!ins.instrument.detectors.some((d) => d.id === detectorId))
+      throw releaseError(source, ['detectors', detectorId], 'unknown detector', detectorId, `a detector of ${ins.instrument.id}: ${ins.instrument.detectors.map((d) => d.id).join(', ')}`);
+    const bytes = await readBytes(file, `the line fits of detector ${detectorId} (${relFile} in the release directory)`);
+    const lineFits = parseLineFits(decode(bytes, file), file);
+    inputs.push({ path: rel(file), bytes });
+    detectors.push(
+      resolveDetector({
+        instrument: ins.instrument as InstrumentDoc,
+        instrumentSource: ins.source,
+        release,
+        releaseSource: source,
+        detectorId,
+        lineFits,
+        lineFitsPath: rel(file),
+      }),
+    );
+  }
+  // A line-fit file no detector uses is most likely a detector left out of release.yaml.
+  const lfDir = join(release.dir, LINEFITS_DIR);
+  if (await isDirectory(lfDir))
+    for (const f of (await readdir(lfDir)).sort())
+      if (f.endsWith('.csv') && !used.has(join(lfDir, f)))
+        throw new KilnInputError('line-fit file not used by any detector of the release', {
+          file: join(lfDir, f),
+          expected: `a detector entry in ${RELEASE_FILE} (detectors.${f.slice(0, -4)}) or removal of the file`,
+        });
+  inputs.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+  return { release, instrument: ins.instrument, detectors, inputs };
+}

@@ -1,0 +1,425 @@
+/**
+ * The content model: zod schemas of instrument.yaml and release.yaml, shared by the build
+ * (generators/content/load.ts) and by the site's content collections (src/content.config.ts).
+ * Pure: no Node, no Astro. Field-level physics sanity sits on the fields; checks that need two
+ * fields sit in superRefine with `params.expected` so that the error translator can say what was
+ * expected. Unknown keys are rejected everywhere (.strict()).
+ *
+ * Dates are ISO calendar dates "YYYY-MM-DD". Our YAML reader keeps them as strings (YAML 1.2
+ * core schema); Astro's reader turns unquoted dates into Date objects, so both are accepted and
+ * normalised to the string form.
+ */
+import { z } from 'zod';
+import { parseFormula } from '../physics/compound.ts';
+import { TABLE_ENERGY_MAX_KEV, TABLE_ENERGY_MIN_KEV } from '../physics/elements.ts';
+import type { ContaminationSpec, DetectorStack, LayerSpec } from '../physics/types.ts';
+import type { RedistributionSpec } from '../response/model-types.ts';
+import { isSemver } from './semver.ts';
+
+// ---------------------------------------------------------------------------------------------
+// Names of the content tree (reserved: `archive/` is written by `kiln publish`, never an input).
+
+export const CONTENT_DIRS = { instruments: 'instruments', releases: 'releases', archive: 'archive' } as const;
+export const INSTRUMENT_FILE = 'instrument.yaml';
+export const DEFAULT_MIRROR_AREA_FILE = 'mirror-area.csv';
+export const RELEASE_FILE = 'release.yaml';
+export const NOTES_FILE = 'notes.md';
+export const LINEFITS_DIR = 'linefits';
+export const defaultLineFitsFile = (detectorId: string): string => `${LINEFITS_DIR}/${detectorId}.csv`;
+
+/** Ids that become path components and URL segments: lower-case, no "..", no separators. */
+export const SAFE_ID_RE = /^[a-z0-9][a-z0-9._-]*$/;
+export const MAX_ID_LENGTH = 64;
+const SAFE_ID_EXPECTED = `an id of lower-case letters, digits, ".", "_" or "-", starting with a letter or digit, no "..", at most ${MAX_ID_LENGTH} characters`;
+
+/** FITS header strings (TELESCOP, INSTRUME, DETNAM) must be printable ASCII (FITS 4.0 §4.2.1), ≤ 68 chars. */
+const FITS_STRING_RE = /^[\x20-\x7e]{1,68}$/;
+
+/** Upper bounds that only catch typos (a stray digit), not physics. */
+const MAX_CHANNELS = 65536;
+const MAX_ENERGY_BINS = 100000;
+/** |gain error| beyond 50 % is a units slip, not a gain drift. */
+const MAX_ABS_GAIN_ERROR = 0.5;
+
+export const PRODUCT_KINDS = ['rmf', 'arf', 'rsp'] as const;
+export const RELEASE_STATUSES = ['draft', 'candidate', 'published', 'superseded', 'withdrawn'] as const;
+
+// ---------------------------------------------------------------------------------------------
+// Building blocks.
+
+type Ctx = z.RefinementCtx;
+function issue(ctx: Ctx, message: string, expected: string, path: (string | number)[] = []): void {
+  ctx.addIssue({ code: z.ZodIssueCode.custom, message, path, params: { expected } });
+}
+
+export function isSafeId(s: string): boolean {
+  return s.length <= MAX_ID_LENGTH && SAFE_ID_RE.test(s) && !s.includes('..');
+}
+
+const text = z.string().trim().min(1);
+export const safeId = z.string().superRefine((s, ctx) => {
+  if (!isSafeId(s)) issue(ctx, 'not a safe id', SAFE_ID_EXPECTED);
+});
+export const releaseId = z.string().superRefine((s, ctx) => {
+  if (!isSemver(s))
+    issue(ctx, 'release id is not a strict semantic version', 'MAJOR.MINOR.PATCH with optional lower-case pre-release, e.g. 1.2.0 or 2.0.0-rc.1 (no "+build")');
+});
+const fitsString = z.string().superRefine((s, ctx) => {
+  if (!FITS_STRING_RE.test(s)) issue(ctx, 'not a FITS header string', '1 to 68 printable ASCII characters');
+});
+
+/** A file name relative to the entry's directory, inside it. */
+const relativeFile = (extension: string) =>
+  z.string().superRefine((s, ctx) => {
+    const parts = s.split('/');
+    const ok = !s.startsWith('/') && !s.includes('\\') && parts.every((p) => p !== '' && p !== '.' && p !== '..' && /^[A-Za-z0-9._-]+$/.test(p));
+    if (!ok || !s.endsWith(extension))
+      issue(ctx, 'not a relative file name inside this directory', `a relative path of [A-Za-z0-9._-] segments, no "..", ending in ${extension}`);
+  });
+
+const ISO_DATE_RE = /^(\d{4})-(\d{2})-(\d{2})$/;
+export function isIsoDate(s: string): boolean {
+  const m = ISO_DATE_RE.exec(s);
+  if (!m) return false;
+  const d = new Date(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
+  return d.toISOString().slice(0, 10) === s;
+}
+export const isoDate = z.preprocess(
+  (v) => (v instanceof Date && !Number.isNaN(v.getTime()) ? v.toISOString().replace(/T00:00:00\.000Z$/, '') : v),
+  z.string().superRefine((s, ctx) => {
+    if (!isIsoDate(s)) issue(ctx, 'not a calendar date', 'an ISO date YYYY-MM-DD');
+  }),
+);
+
+const finite = z.number().finite();
+const positive = finite.gt(0);
+const nonNegative = finite.gte(0);
+/** [0, 1): fractions of events. */
+const fractionBelowOne = finite.gte(0).lt(1);
+const unitInterval = finite.gte(0).lte(1);
+
+// ---------------------------------------------------------------------------------------------
+// Detector stack (→ physics DetectorStack).
+
+export const materialSchema = z
+  .object({
+    formula: z.string().superRefine((f, ctx) => {
+      try {
+        parseFormula(f);
+      } catch (e) {
+        issue(ctx, e instanceof Error ? e.message : 'bad chemical formula', 'a chemical formula of elements H..Zn with counts, e.g. C22H10N2O5');
+      }
+    }),
+    densityGcm3: positive,
+  })
+  .strict();
+
+export const layerSchema = z.object({ name: text, material: materialSchema, thicknessUm: positive }).strict();
+
+export const contaminationLawSchema = z.discriminatedUnion('kind', [
+  z
+    .object({ kind: z.literal('linear'), referenceDate: isoDate, thicknessAtReferenceUm: nonNegative, rateUmPerYear: finite })
+    .strict(),
+  z
+    .object({ kind: z.literal('exponential'), startDate: isoDate, initialUm: nonNegative, asymptoticUm: nonNegative, timescaleDays: positive })
+    .strict(),
+]);
+
+export const contaminationSchema = z.object({ name: text, material: materialSchema, law: contaminationLawSchema }).strict();
+
+export const partialLayerSchema = z.object({ thicknessUm: positive, collectionAtSurface: unitInterval }).strict();
+
+export const sensorSchema = z
+  .object({ material: materialSchema, depletionUm: positive, partial: partialLayerSchema.nullable().default(null) })
+  .strict();
+
+/** The stack as written: layer kinds follow from the list a layer sits in. */
+export const stackInputSchema = z
+  .object({
+    filters: z.array(layerSchema).default([]),
+    contamination: contaminationSchema.nullable().default(null),
+    surface: z.array(layerSchema).default([]),
+    sensor: sensorSchema,
+  })
+  .strict();
+export type StackInput = z.output<typeof stackInputSchema>;
+
+export function stackFromInput(s: StackInput): DetectorStack {
+  const tag = (kind: LayerSpec['kind']) => (l: z.output<typeof layerSchema>): LayerSpec => ({ ...l, kind });
+  return {
+    filters: s.filters.map(tag('filter')),
+    contamination: s.contamination as ContaminationSpec | null,
+    surface: s.surface.map(tag('surface')),
+    sensor: s.sensor,
+  };
+}
+
+/** Inverse of stackFromInput (for merging overrides on the written form). */
+export function stackToInput(s: DetectorStack): StackInput {
+  const strip = ({ name, material, thicknessUm }: LayerSpec) => ({ name, material, thicknessUm });
+  return { filters: s.filters.map(strip), contamination: s.contamination, surface: s.surface.map(strip), sensor: s.sensor };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Redistribution (→ RedistributionSpec).
+
+const pixelsPerEventSchema = z.object({ a: finite.gte(1), bPerKeV: nonNegative }).strict();
+const fanoSchema = finite.gt(0).lt(1);
+
+export const fwhmSchema = z
+  .object({
+    source: z.enum(['law', 'line-fits']),
+    readNoiseE: nonNegative,
+    fano: fanoSchema,
+    sigma0Ev: nonNegative,
+    pixelsPerEvent: pixelsPerEventSchema,
+  })
+  .strict();
+
+const lineFitsSource = z.object({ source: z.literal('line-fits') }).strict();
+const centroidLaw = z
+  .object({
+    source: z.literal('law'),
+    gainError: finite.gt(-MAX_ABS_GAIN_ERROR).lt(MAX_ABS_GAIN_ERROR),
+    offsetEv: finite,
+    chargeLossEv: nonNegative,
+    chargeLossScaleKeV: positive,
+  })
+  .strict();
+const tailLaw = z.object({ source: z.literal('law'), fractionAtZero: fractionBelowOne, fractionScaleKeV: positive, tailScaleEv: positive }).strict();
+const shelfLaw = z.object({ source: z.literal('law'), fraction: fractionBelowOne }).strict();
+
+export const centroidSchema = z.discriminatedUnion('source', [centroidLaw, lineFitsSource]);
+export const tailSchema = z.discriminatedUnion('source', [tailLaw, lineFitsSource]);
+export const shelfSchema = z.discriminatedUnion('source', [shelfLaw, lineFitsSource]);
+
+export const redistributionSchema = z
+  .object({
+    pairEnergyEv: positive,
+    thresholdKeV: nonNegative,
+    fwhm: fwhmSchema,
+    centroid: centroidSchema,
+    tail: tailSchema,
+    shelf: shelfSchema,
+    escape: z.boolean(),
+    siFluorescenceFraction: fractionBelowOne.default(0),
+  })
+  .strict();
+
+/** Does any profile parameter interpolate the line fits? */
+export function usesLineFits(r: RedistributionSpec): boolean {
+  return [r.fwhm, r.centroid, r.tail, r.shelf].some((p) => p.source === 'line-fits');
+}
+
+/** Checks across the fields of one detector's model (stack + redistribution), on the written form. */
+export function checkDetectorModel(m: { stack: StackInput; redistribution: z.output<typeof redistributionSchema> }, ctx: Ctx): void {
+  const { sensor } = m.stack;
+  if (sensor.partial && !(sensor.partial.thicknessUm < sensor.depletionUm))
+    issue(ctx, 'partially collecting layer is not thinner than the depletion depth', `< depletionUm = ${sensor.depletionUm}`, ['stack', 'sensor', 'partial', 'thicknessUm']);
+  const seen = new Map<string, string>();
+  for (const list of ['filters', 'surface'] as const)
+    m.stack[list].forEach((l, i) => {
+      const prev = seen.get(l.name);
+      if (prev) issue(ctx, `layer name "${l.name}" is used twice (also ${prev})`, 'unique layer names (overrides address layers by name)', ['stack', list, i, 'name']);
+      seen.set(l.name, `${list}[${i}]`);
+    });
+  const { tail, shelf } = m.redistribution;
+  if (tail.source === 'law' && shelf.source === 'law' && !(tail.fractionAtZero + shelf.fraction < 1))
+    issue(ctx, 'tail and shelf fractions leave no events in the peak', `fractionAtZero + shelf.fraction < 1 (shelf.fraction = ${shelf.fraction})`, ['redistribution', 'tail', 'fractionAtZero']);
+}
+
+export const detectorModelSchema = z
+  .object({ stack: stackInputSchema, redistribution: redistributionSchema })
+  .strict()
+  .superRefine(checkDetectorModel);
+
+// ---------------------------------------------------------------------------------------------
+// Grids.
+
+export const channelGridSchema = z
+  .object({
+    count: z.number().int().gte(1).lte(MAX_CHANNELS),
+    firstChannel: z.union([z.literal(0), z.literal(1)]),
+    widthEv: positive,
+    originEv: nonNegative,
+  })
+  .strict();
+
+export const energyGridSchema = z
+  .object({
+    minKeV: finite.gte(TABLE_ENERGY_MIN_KEV),
+    maxKeV: finite.lte(TABLE_ENERGY_MAX_KEV),
+    bins: z.number().int().gte(1).lte(MAX_ENERGY_BINS),
+    spacing: z.enum(['linear', 'log']),
+  })
+  .strict()
+  .superRefine((g, ctx) => {
+    if (!(g.maxKeV > g.minKeV)) issue(ctx, 'energy grid is not increasing', `maxKeV > minKeV = ${g.minKeV}`, ['maxKeV']);
+  });
+
+// ---------------------------------------------------------------------------------------------
+// instrument.yaml
+
+export const detectorSchema = z
+  .object({
+    id: safeId.pipe(fitsString),
+    name: text,
+    /** e.g. "front-illuminated CCD" */
+    kind: text,
+    description: text,
+    stack: stackInputSchema,
+    redistribution: redistributionSchema,
+  })
+  .strict()
+  .superRefine(checkDetectorModel);
+
+export const instrumentSchema = z
+  .object({
+    id: safeId,
+    /** FITS TELESCOP */
+    telescope: fitsString,
+    /** FITS INSTRUME */
+    instrument: fitsString,
+    title: text,
+    description: text,
+    /** CSV `energy_keV,area_cm2` beside instrument.yaml. */
+    mirrorArea: relativeFile('.csv').default(DEFAULT_MIRROR_AREA_FILE),
+    channels: channelGridSchema,
+    energyGrid: energyGridSchema,
+    detectors: z.array(detectorSchema).min(1),
+  })
+  .strict()
+  .superRefine((ins, ctx) => {
+    const ids = new Map<string, number>();
+    ins.detectors.forEach((d, i) => {
+      if (ids.has(d.id)) issue(ctx, `detector id "${d.id}" is used twice (also detectors[${ids.get(d.id)}])`, 'unique detector ids', ['detectors', i, 'id']);
+      ids.set(d.id, i);
+      if (!(d.redistribution.thresholdKeV < ins.energyGrid.maxKeV))
+        issue(ctx, 'threshold above the energy grid', `< energyGrid.maxKeV = ${ins.energyGrid.maxKeV}`, ['detectors', i, 'redistribution', 'thresholdKeV']);
+    });
+  });
+
+export type InstrumentDoc = z.output<typeof instrumentSchema>;
+export type DetectorDoc = z.output<typeof detectorSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// release.yaml: overrides of the instrument's model, per detector.
+
+const materialOverride = materialSchema.partial().strict();
+const layerOverride = z.object({ name: text, material: materialOverride.optional(), thicknessUm: positive.optional() }).strict();
+export const stackOverrideSchema = z
+  .object({
+    filters: z.array(layerOverride).optional(),
+    contamination: z
+      .object({ name: text.optional(), material: materialOverride.optional(), law: contaminationLawSchema.optional() })
+      .strict()
+      .nullable()
+      .optional(),
+    surface: z.array(layerOverride).optional(),
+    sensor: z
+      .object({
+        material: materialOverride.optional(),
+        depletionUm: positive.optional(),
+        partial: partialLayerSchema.partial().strict().nullable().optional(),
+      })
+      .strict()
+      .optional(),
+  })
+  .strict();
+
+const sourceEnum = z.enum(['law', 'line-fits']);
+export const redistributionOverrideSchema = z
+  .object({
+    pairEnergyEv: positive.optional(),
+    thresholdKeV: nonNegative.optional(),
+    fwhm: fwhmSchema.partial().strict().extend({ pixelsPerEvent: pixelsPerEventSchema.partial().strict().optional() }).optional(),
+    centroid: z
+      .object({
+        source: sourceEnum.optional(),
+        gainError: finite.gt(-MAX_ABS_GAIN_ERROR).lt(MAX_ABS_GAIN_ERROR).optional(),
+        offsetEv: finite.optional(),
+        chargeLossEv: nonNegative.optional(),
+        chargeLossScaleKeV: positive.optional(),
+      })
+      .strict()
+      .optional(),
+    tail: z
+      .object({ source: sourceEnum.optional(), fractionAtZero: fractionBelowOne.optional(), fractionScaleKeV: positive.optional(), tailScaleEv: positive.optional() })
+      .strict()
+      .optional(),
+    shelf: z.object({ source: sourceEnum.optional(), fraction: fractionBelowOne.optional() }).strict().optional(),
+    escape: z.boolean().optional(),
+    siFluorescenceFraction: fractionBelowOne.optional(),
+  })
+  .strict();
+
+export const modelOverrideSchema = z
+  .object({ stack: stackOverrideSchema.optional(), redistribution: redistributionOverrideSchema.optional() })
+  .strict();
+export type ModelOverride = z.output<typeof modelOverrideSchema>;
+
+export const epochSchema = z
+  .object({
+    id: safeId,
+    /** Reference date: contamination and other time-dependent laws are evaluated here. */
+    date: isoDate,
+    validFrom: isoDate,
+    validTo: isoDate.nullable(),
+    description: text.optional(),
+  })
+  .strict();
+export type Epoch = z.output<typeof epochSchema>;
+
+export const releaseDetectorSchema = z
+  .object({
+    /** Epochs to build for this detector; all of the release's epochs when absent. */
+    epochs: z.array(safeId).min(1).optional(),
+    /** Line-fit CSV relative to the release directory; default linefits/<detector>.csv. */
+    lineFits: relativeFile('.csv').optional(),
+    model: modelOverrideSchema.default({}),
+  })
+  .strict();
+
+export const releaseSchema = z
+  .object({
+    id: releaseId,
+    instrument: safeId,
+    title: text,
+    date: isoDate,
+    status: z.enum(RELEASE_STATUSES),
+    supersedes: releaseId.nullable().default(null),
+    validFrom: isoDate,
+    validTo: isoDate.nullable(),
+    products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
+    epochs: z.array(epochSchema).min(1),
+    detectors: z.record(safeId, releaseDetectorSchema),
+  })
+  .strict()
+  .superRefine((r, ctx) => {
+    if (r.supersedes === r.id) issue(ctx, 'a release cannot supersede itself', 'an earlier release id or null', ['supersedes']);
+    if (r.validTo !== null && !(r.validTo > r.validFrom)) issue(ctx, 'validity interval is empty or reversed', `a date after validFrom = ${r.validFrom}, or null`, ['validTo']);
+    if (new Set(r.products).size !== r.products.length) issue(ctx, 'a product kind is listed twice', `each of ${PRODUCT_KINDS.join(', ')} at most once`, ['products']);
+    if (Object.keys(r.detectors).length === 0) issue(ctx, 'no detector to build', 'at least one detector id of the instrument', ['detectors']);
+    const ids = new Map<string, number>();
+    r.epochs.forEach((e, i) => {
+      const at = (f: string) => ['epochs', i, f];
+      if (ids.has(e.id)) issue(ctx, `epoch id "${e.id}" is used twice (also epochs[${ids.get(e.id)}])`, 'unique epoch ids', at('id'));
+      ids.set(e.id, i);
+      if (e.validTo !== null && !(e.validTo > e.validFrom)) issue(ctx, 'epoch validity interval is empty or reversed', `a date after validFrom = ${e.validFrom}, or null`, at('validTo'));
+      if (e.validFrom < r.validFrom) issue(ctx, 'epoch starts before the release is valid', `≥ release validFrom = ${r.validFrom}`, at('validFrom'));
+      if (r.validTo !== null && (e.validTo === null || e.validTo > r.validTo))
+        issue(ctx, 'epoch ends after the release validity', `≤ release validTo = ${r.validTo}`, at('validTo'));
+      if (e.date < e.validFrom || (e.validTo !== null && !(e.date < e.validTo)))
+        issue(ctx, 'epoch reference date outside its validity interval', `in [${e.validFrom}, ${e.validTo ?? 'open'})`, at('date'));
+      const prev = r.epochs[i - 1];
+      if (prev && (prev.validTo === null || prev.validTo > e.validFrom))
+        issue(ctx, `epoch overlaps the previous one (${prev.id}, valid to ${prev.validTo ?? 'open'})`, `epochs in time order without overlap: validFrom ≥ ${prev.validTo ?? 'a closed previous epoch'}`, at('validFrom'));
+    });
+    for (const [det, d] of Object.entries(r.detectors))
+      (d.epochs ?? []).forEach((e, j) => {
+        if (!ids.has(e)) issue(ctx, `unknown epoch "${e}"`, `one of ${[...ids.keys()].join(', ')}`, ['detectors', det, 'epochs', j]);
+      });
+  });
+
+export type ReleaseDoc = z.output<typeof releaseSchema>;
+export type ReleaseDetectorDoc = z.output<typeof releaseDetectorSchema>;

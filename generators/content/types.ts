@@ -1,0 +1,67 @@
+/** The loaded content tree: documents as validated, plus each release's effective per-detector inputs. */
+import type { DetectorStack } from '../physics/types.ts';
+import type { LineFit, RedistributionSpec } from '../response/model-types.ts';
+import type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
+import type { MirrorArea } from './tables.ts';
+
+export type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
+export type { LineFitTable, MirrorArea } from './tables.ts';
+
+export type ProductKindName = ReleaseDoc['products'][number];
+
+/**
+ * An instrument.yaml with its mirror area table. `dir`, `file` (and MirrorArea.file) are the paths
+ * as opened, i.e. joined to the directory given to the loader, as error messages name them.
+ */
+export interface Instrument extends InstrumentDoc {
+  dir: string;
+  file: string;
+  mirror: MirrorArea;
+}
+
+export interface Release extends ReleaseDoc {
+  dir: string;
+  file: string;
+  notesFile: string;
+  notesMarkdown: string;
+}
+
+/** What the pipeline needs to build one detector of one release: instrument model with the release's overrides applied. */
+export interface ResolvedDetector {
+  id: string;
+  name: string;
+  kind: string;
+  description: string;
+  stack: DetectorStack;
+  redistribution: RedistributionSpec;
+  lineFits: LineFit[];
+  /** Content-root-relative path of the line-fit CSV. */
+  lineFitsFile: string;
+  /** The epochs to build (the release's, or the subset listed for this detector), in time order. */
+  epochs: Epoch[];
+}
+
+/** A file the release was built from, for hashing (inputsSha256). */
+export interface InputFile {
+  /** Content-root-relative, "/"-separated. */
+  path: string;
+  bytes: Uint8Array;
+}
+
+export interface ResolvedRelease {
+  release: Release;
+  instrument: Instrument;
+  /** In the order release.yaml lists them. */
+  detectors: ResolvedDetector[];
+  /** Every file read for this release, sorted by path. */
+  inputs: InputFile[];
+}
+
+export interface ContentTree {
+  /** The directory given to loadContent. */
+  root: string;
+  /** Sorted by id. */
+  instruments: Instrument[];
+  /** Sorted by semantic version, oldest first. */
+  releases: ResolvedRelease[];
+}
