@@ -11,15 +11,15 @@ import { efficiencyBreakdown } from './efficiency.ts';
 export interface MirrorAreaTable {
   energyKeV: ArrayLike<number>;
   areaCm2: ArrayLike<number>;
-  /** Where the table came from (file name), used in error messages. */
-  source?: string;
+  /** File the table came from, named in error messages (as generators/content's MirrorArea has it). */
+  file?: string;
 }
 
 /** Relative slack when deciding whether the table covers the grid (text round-off). */
 const COVER_SLACK = 1e-9;
 
 function checkMirror(t: MirrorAreaTable): void {
-  const file = t.source;
+  const file = t.file;
   const n = t.energyKeV?.length ?? 0;
   if (n < 2 || t.areaCm2?.length !== n) {
     throw new KilnInputError('mirror area table needs at least two rows and as many areas as energies', {
@@ -76,7 +76,7 @@ export function mirrorAreaAtBinCentres(table: MirrorAreaTable, energLoKeV: Float
   const gridHi = energHiKeV[energHiKeV.length - 1];
   if (e[0] > gridLo * (1 + COVER_SLACK) || e[n - 1] < gridHi * (1 - COVER_SLACK)) {
     throw new KilnInputError('mirror area table does not cover the response energy grid', {
-      file: table.source,
+      file: table.file,
       field: 'energyKeV',
       value: `${e[0]}–${e[n - 1]} keV`,
       expected: `a table spanning at least ${gridLo}–${gridHi} keV`,
