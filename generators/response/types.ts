@@ -16,6 +16,8 @@ export interface ResponseMeta {
   extraKeywords?: { keyword: string; value: string | number | boolean; comment?: string }[];
   /** HISTORY lines. */
   history?: string[];
+  /** Program and version written as CREATOR (optional; the OGIP writers default to "kiln"). */
+  creator?: string;
   /** Observation-independent creation date written as DATE (YYYY-MM-DD), from the input, never the clock. */
   date: string;
 }
