@@ -32,7 +32,7 @@ export function verdict(ok: boolean, f: CheckFields, okMessage: string, badStatu
 /** Round for display in messages without hiding the order of magnitude. */
 export function fmt(x: number): string {
   if (!Number.isFinite(x)) return String(x);
-  if (x === 0) return '0';
+  if (Number.isSafeInteger(x)) return String(x);
   const a = Math.abs(x);
   if (a >= 1e-3 && a < 1e6) return String(Number(x.toPrecision(6)));
   return x.toExponential(4);

@@ -137,9 +137,8 @@ function checkGroups(rmf: RmfData, product: string | null): Check[] {
       id: 'rmf.channels.range',
       title: 'every group within [TLMIN, TLMIN+DETCHANS−1]',
       product,
-      measured: outOfRange ? outCount : 0,
+      measured: `${outCount} group(s) outside`,
       tolerance: `channels ${first}–${last}`,
-      unit: 'groups',
       message: outOfRange ? `${outCount} group(s) outside channels ${first}–${last}; first: ${outOfRange}` : `all groups within ${first}–${last}`,
     }),
     makeCheck(overlap ? 'fail' : 'pass', {

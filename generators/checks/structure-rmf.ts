@@ -132,7 +132,6 @@ function checkDetchansAgreement(matrix: FileView['hdus'][number], ebounds: FileV
       product,
       measured: `MATRIX ${String(dm)}, EBOUNDS ${String(de)}, EBOUNDS rows ${rows}`,
       tolerance: 'all equal',
-      unit: 'channels',
       message: ok ? `${dm} channels everywhere` : `channel counts disagree: MATRIX DETCHANS=${String(dm)}, EBOUNDS DETCHANS=${String(de)}, EBOUNDS has ${rows} rows`,
     }),
     makeCheck(ctOk ? 'pass' : 'fail', {
