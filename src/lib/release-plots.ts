@@ -11,12 +11,22 @@ const H_RESID = 170;
 const EV_PER_KEV = 1000;
 /** Display floor for log probability axes: six decades below the peak. */
 const PROFILE_DECADES = 6;
+/** Effective area shown over four decades below its peak (the soft end falls steeply). */
+const AREA_DECADES = 4;
+
+/** Common x range of a detector's resolution plots, so main and residual panels line up. */
+function resolutionRange(det: DetectorSite): [number, number] {
+  const xs = [...det.resolution.energyKeV, ...det.lineFits.map((l) => l.energyKeV)].filter((v) => v > 0);
+  const lo = Math.min(...xs);
+  const hi = Math.max(...xs);
+  return [lo / 1.05, hi * 1.05];
+}
 
 export function effectiveAreaPlot(det: DetectorSite, releaseId: string): PlotSpec {
   const series: SeriesSpec[] = det.epochs.map((ep, i) => lineSeries(`effective area, epoch ${ep.id}`, ep.energyKeV, ep.effectiveAreaCm2, i));
   const last = det.epochs[det.epochs.length - 1];
   if (last) series.push({ ...lineSeries(`mirror (epoch ${last.id})`, last.energyKeV, last.mirrorCm2, 6), dash: '4 3', colour: OKABE_ITO.black });
-  return { id: `ea-${det.id}`, title: `${det.name}: effective area (release ${releaseId})`, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: 'Effective area', unit: 'cm²', scale: 'log', toggle: true }, series };
+  return { id: `ea-${det.id}`, title: `${det.name}: effective area (release ${releaseId})`, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: 'Effective area', unit: 'cm²', scale: 'log', toggle: true, maxDecades: AREA_DECADES }, series };
 }
 
 export function componentsPlot(det: DetectorSite): PlotSpec {
@@ -42,7 +52,7 @@ export function fwhmPlot(det: DetectorSite): PlotSpec {
     title: `${det.name}: FWHM vs energy`,
     widthPx: W,
     heightPx: H,
-    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
     y: { label: 'FWHM', unit: 'eV', scale: 'linear', toggle: true },
     series: [
       lineSeries('model', det.resolution.energyKeV, det.resolution.fwhmEv, 0),
@@ -58,7 +68,7 @@ export function fwhmResidualPlot(det: DetectorSite): PlotSpec {
     title: `${det.name}: FWHM residuals, measured − model`,
     widthPx: W,
     heightPx: H_RESID,
-    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
     y: { label: 'Residual', unit: 'eV', scale: 'linear' },
     yRef: 0,
     series: [pointSeries('measured − model', f.map((l) => l.energyKeV), f.map((l) => l.fwhmResidualEv), f.map((l) => l.fwhmErrEv), 1)],
@@ -72,7 +82,7 @@ export function centroidPlot(det: DetectorSite): PlotSpec {
     title: `${det.name}: centroid offset from line energy`,
     widthPx: W,
     heightPx: H,
-    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
     y: { label: 'Centroid − line energy', unit: 'eV', scale: 'linear' },
     yRef: 0,
     series: [
@@ -89,7 +99,7 @@ export function centroidResidualPlot(det: DetectorSite): PlotSpec {
     title: `${det.name}: centroid residuals, measured − model`,
     widthPx: W,
     heightPx: H_RESID,
-    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
     y: { label: 'Residual', unit: 'eV', scale: 'linear' },
     yRef: 0,
     series: [pointSeries('measured − model', f.map((l) => l.energyKeV), f.map((l) => l.centroidResidualEv), f.map((l) => l.centroidErrEv), 1)],

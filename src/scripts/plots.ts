@@ -2,7 +2,7 @@
  * Client side of the plots: hover readouts, drag-to-zoom (double-click resets), log/linear toggles.
  * Reads the spec embedded beside each SVG and re-renders with the same code the build used.
  */
-import { defaultView, fmt4, legendHtml, renderPlot, type PlotSpec, type PlotView, type Rendered } from '../lib/plot/index.ts';
+import { defaultView, fmt4, legendHtml, renderPlot, unpackSpec, type PlotSpec, type PlotView, type Rendered } from '../lib/plot/index.ts';
 
 interface State {
   spec: PlotSpec;
@@ -24,7 +24,7 @@ export function initPlots(root: ParentNode): void {
     const json = fig.querySelector('script.kplot-spec')?.textContent;
     const area = fig.querySelector<HTMLElement>('.kplot-area');
     if (!json || !area) return;
-    const spec = JSON.parse(json) as PlotSpec;
+    const spec = unpackSpec(JSON.parse(json));
     const view = defaultView(spec);
     const tools = document.createElement('div');
     tools.className = 'kplot-tools';

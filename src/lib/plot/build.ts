@@ -4,8 +4,11 @@ import { roundSig } from './format.ts';
 import { seriesColour, seriesDash } from './palette.ts';
 import type { SeriesSpec } from './spec.ts';
 
-/** Most curves need no more points than the plot has pixels across. */
-export const MAX_LINE_POINTS = 500;
+/**
+ * Points kept per curve for display: the plot frame is ~470 px wide, and min/max bucketing keeps
+ * edges, so 300 points look the same as thousands and keep the page in its byte budget.
+ */
+export const MAX_LINE_POINTS = 300;
 
 export function lineSeries(label: string, x: number[], y: (number | null)[], i: number, maxPoints = MAX_LINE_POINTS): SeriesSpec {
   const d = decimate(x, [y], maxPoints);

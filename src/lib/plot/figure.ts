@@ -10,6 +10,28 @@ import type { PlotSpec } from './spec.ts';
 /** JSON safe inside <script>: no "</script>" or "<!--" can appear. */
 export const jsonForScript = (v: unknown): string => JSON.stringify(v).replace(/</g, '\\u003c');
 
+/** Embedded form: a series whose x equals an earlier series' x stores {xOf: index} instead. */
+type PackedSeries = Omit<PlotSpec['series'][number], 'x'> & { x?: number[]; xOf?: number };
+
+export function packSpec(spec: PlotSpec): unknown {
+  const series: PackedSeries[] = spec.series.map((s, i) => {
+    const j = spec.series.findIndex((t, k) => k < i && t.x.length === s.x.length && t.x.every((v, n) => v === s.x[n]));
+    if (j < 0) return s;
+    const { x: _x, ...rest } = s;
+    return { ...rest, xOf: j };
+  });
+  return { ...spec, series };
+}
+
+export function unpackSpec(packed: unknown): PlotSpec {
+  const p = packed as Omit<PlotSpec, 'series'> & { series: PackedSeries[] };
+  const series = p.series.map((s) => s as PlotSpec['series'][number]);
+  p.series.forEach((s, i) => {
+    if (s.xOf !== undefined) series[i] = { ...(s as object), x: series[s.xOf].x } as PlotSpec['series'][number];
+  });
+  return { ...p, series };
+}
+
 export function figureHtml(spec: PlotSpec, caption = spec.title): string {
   const visible = spec.series.filter((s) => !s.hidden);
   return (
@@ -18,7 +40,7 @@ export function figureHtml(spec: PlotSpec, caption = spec.title): string {
     `<div class="kplot-area">${renderPlot(spec).svg}</div>` +
     `<div class="kplot-legend">${legendHtml(visible)}</div>` +
     (spec.note ? `<p class="kplot-note">${esc(spec.note)}</p>` : '') +
-    `<script type="application/json" class="kplot-spec">${jsonForScript(spec)}</script>` +
+    `<script type="application/json" class="kplot-spec">${jsonForScript(packSpec(spec))}</script>` +
     `</figure>`
   );
 }

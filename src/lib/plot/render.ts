@@ -6,7 +6,7 @@ import { bottomAxis, leftAxis, type Frame } from './axes.ts';
 import { axisTitle, esc } from './format.ts';
 import { linePath } from './line.ts';
 import { pointsPaths } from './points.ts';
-import { dataExtent, makeScale, paddedDomain, type NumScale } from './scales.ts';
+import { clampDecades, dataExtent, makeScale, paddedDomain, type NumScale } from './scales.ts';
 import { defaultView, type PlotSpec, type PlotView } from './spec.ts';
 
 export const MARGIN = { left: 64, right: 14, top: 10, bottom: 44 };
@@ -30,7 +30,9 @@ export function plotFrame(spec: PlotSpec): Frame {
 export function plotScales(spec: PlotSpec, view: PlotView): { x: NumScale; y: NumScale; frame: Frame } {
   const frame = plotFrame(spec);
   const xd = view.xDomain ?? (spec.x.domain && view.xScale === spec.x.scale ? spec.x.domain : paddedDomain(dataExtent(spec.series, 'x', view.xScale), view.xScale));
-  const yd = view.yDomain ?? (spec.y.domain && view.yScale === spec.y.scale ? spec.y.domain : paddedDomain(dataExtent(spec.series, 'y', view.yScale), view.yScale));
+  let yExt = dataExtent(spec.series, 'y', view.yScale);
+  if (view.yScale === 'log' && spec.y.maxDecades) yExt = clampDecades(yExt, spec.y.maxDecades);
+  const yd = view.yDomain ?? (spec.y.domain && view.yScale === spec.y.scale ? spec.y.domain : paddedDomain(yExt, view.yScale));
   const x = makeScale(view.xScale, xd, [frame.left, frame.left + frame.width]);
   const y = makeScale(view.yScale, yd, [frame.top + frame.height, frame.top]);
   return { x, y, frame };

@@ -34,11 +34,18 @@ export function dataExtent(series: SeriesSpec[], axis: 'x' | 'y', kind: ScaleKin
   return [lo, hi];
 }
 
-/** Domain padded a little (linear) or niced (both), so data do not touch the frame. */
+/** Fraction of the data range added on each side so curves do not touch the frame. */
+const PAD = 0.03;
+
+/** Domain padded a little (in log space for log axes); not niced, so no empty decades appear. */
 export function paddedDomain(extent: [number, number], kind: ScaleKind): [number, number] {
-  if (kind === 'log') return makeScale('log', extent, [0, 1]).nice().domain() as [number, number];
-  const pad = (extent[1] - extent[0]) * 0.04;
-  return makeScale('linear', [extent[0] - pad, extent[1] + pad], [0, 1]).nice().domain() as [number, number];
+  if (kind === 'log') {
+    const [a, b] = [Math.log10(extent[0]), Math.log10(extent[1])];
+    const pad = (b - a) * PAD;
+    return [10 ** (a - pad), 10 ** (b + pad)];
+  }
+  const pad = (extent[1] - extent[0]) * PAD;
+  return [extent[0] - pad, extent[1] + pad];
 }
 
 /** For log axes spanning many decades, keep the top `maxDecades` decades (probabilities, areas). */

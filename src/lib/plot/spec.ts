@@ -12,6 +12,8 @@ export interface AxisSpec {
   scale: ScaleKind;
   /** Fixed domain; computed from the data when absent. */
   domain?: [number, number];
+  /** On a log axis computed from the data, show at most this many decades below the maximum. */
+  maxDecades?: number;
   /** Whether the reader may switch this axis to the other scale. */
   toggle?: boolean;
 }

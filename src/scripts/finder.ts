@@ -1,0 +1,54 @@
+/** Finder page: filters the embedded release index by detector and observation date. */
+import type { ReleaseIndex } from '../../generators/site-data/types.ts';
+import { findFiles } from '../lib/finder.ts';
+import { esc } from '../lib/plot/format.ts';
+import { fileName, formatBytes } from '../lib/downloads.ts';
+import { validity } from '../lib/status.ts';
+
+const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
+
+export function initFinder(): void {
+  const form = document.getElementById('finder-form') as HTMLFormElement | null;
+  const det = document.getElementById('finder-detector') as HTMLSelectElement | null;
+  const date = document.getElementById('finder-date') as HTMLInputElement | null;
+  const out = document.getElementById('finder-result');
+  const json = document.getElementById('finder-index')?.textContent;
+  if (!form || !det || !date || !out || !json) return;
+  const index = JSON.parse(json) as ReleaseIndex;
+  const q = new URLSearchParams(location.search);
+  if (q.get('detector')) det.value = q.get('detector')!;
+  if (q.get('date') && ISO_DATE.test(q.get('date')!)) date.value = q.get('date')!;
+
+  const run = () => {
+    if (!ISO_DATE.test(date.value)) {
+      out.innerHTML = '<p class="callout">Enter the observation date as YYYY-MM-DD.</p>';
+      return;
+    }
+    const u = new URL(location.href);
+    u.searchParams.set('detector', det.value);
+    u.searchParams.set('date', date.value);
+    history.replaceState(null, '', u);
+    const hits = findFiles(index, det.value, date.value);
+    if (!hits.length) {
+      out.innerHTML = `<p class="callout">No file of any release covers ${esc(det.value)} on ${esc(date.value)}.</p>`;
+      return;
+    }
+    const best = hits[0].release;
+    const rows = hits.map(
+      (h) =>
+        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td><span class="st st-${h.release.status}">${h.release.status}</span></td><td>${h.product.kind.toUpperCase()}</td><td>${esc(h.product.epoch)}</td><td>${esc(validity(h.product.validFrom, h.product.validTo))}</td><td><a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}" download>${esc(fileName(h.product.path))}</a></td><td class="num">${formatBytes(h.product.bytes)}</td><td><code class="hash">${esc(h.product.sha256)}</code></td><td>${h.warning ? `<span class="st st-warn">warning</span> ${esc(h.warning)}` : ''}</td></tr>`,
+    );
+    const bestWarn = hits[0].warning ? `<p class="callout danger">${esc(hits[0].warning)} No published or candidate release covers this date.</p>` : '';
+    out.innerHTML =
+      `<h2>Files for ${esc(det.value)} on ${esc(date.value)}</h2>${bestWarn}` +
+      `<p>Recommended: release <strong>${esc(best.id)}</strong> (${esc(best.status)}). ${hits.length} file(s) in ${new Set(hits.map((h) => h.release.id)).size} release(s).</p>` +
+      `<div class="table-wrap"><table class="data" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+  };
+  form.addEventListener('submit', (e) => {
+    e.preventDefault();
+    run();
+  });
+  det.addEventListener('change', run);
+  date.addEventListener('change', run);
+  if (q.get('date')) run();
+}

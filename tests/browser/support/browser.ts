@@ -1,0 +1,45 @@
+/** Headless Debian chromium through playwright-core (never a downloaded browser). */
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+export const CHROMIUM = '/usr/bin/chromium';
+const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
+
+/** A fresh profile directory per launch (playwright passes it as --user-data-dir). */
+export async function launch(): Promise<{ context: BrowserContext; close: () => Promise<void> }> {
+  const profile = mkdtempSync(join(tmpdir(), 'kiln-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ARGS,
+    viewport: { width: 1280, height: 900 },
+    acceptDownloads: true,
+  });
+  return {
+    context,
+    close: async () => {
+      await context.close();
+      rmSync(profile, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Collects console errors, page errors and failed or off-site requests of a page. */
+export function watch(page: Page, origin: string): { problems: string[] } {
+  const problems: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error') problems.push(`console: ${m.text()}`);
+  });
+  page.on('pageerror', (e) => problems.push(`pageerror: ${e.message}`));
+  page.on('requestfailed', (r) => problems.push(`failed: ${r.url()} ${r.failure()?.errorText ?? ''}`));
+  page.on('response', (r) => {
+    if (r.status() >= 400) problems.push(`HTTP ${r.status()}: ${r.url()}`);
+  });
+  page.on('request', (r) => {
+    const u = r.url();
+    if (!u.startsWith(origin) && !u.startsWith('data:') && !u.startsWith('blob:')) problems.push(`off-site request: ${u}`);
+  });
+  return { problems };
+}
