@@ -15,11 +15,14 @@ export interface InstrumentDetectors {
 }
 export type InstrumentLoader = (path: string) => Promise<InstrumentDetectors>;
 
-/** Node's loader lives in generators/content; imported lazily so the verb stays cheap to list. */
-const CONTENT_MODULE = '../content/index.ts';
+/**
+ * The file loader lives in generators/content (imported lazily so `kiln efficiency --help` stays
+ * cheap); its detectors carry the stack as written, turned into a DetectorStack here.
+ */
 const loadInstrument: InstrumentLoader = async (path) => {
-  const mod = (await import(/* @vite-ignore */ CONTENT_MODULE)) as { loadInstrumentFile: InstrumentLoader };
-  return mod.loadInstrumentFile(path);
+  const content = await import('../content/index.ts');
+  const ins = await content.loadInstrumentFile(path);
+  return { detectors: ins.detectors.map((d) => ({ id: d.id, name: d.name, stack: content.stackFromInput(d.stack) })) };
 };
 
 /** "0.5,1,1.5" (commas and/or spaces) → energies in keV; a bad value → UsageError naming it. */
