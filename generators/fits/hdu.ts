@@ -145,7 +145,7 @@ export function hduLayout(h: FitsHeader, index: number, dataOffset: number, avai
   let type: HduType;
   if (index === 0) {
     if (!first || first.keyword !== 'SIMPLE' || first.value !== true) {
-      fitsFail(ctx, 'not a FITS file: the first card must be SIMPLE = T', { card: 1, byteOffset: 0, value: first?.keyword, expected: "'SIMPLE  =                    T'" });
+      fitsFail(ctx, 'not a FITS file: the first card must be SIMPLE = T', { card: 1, byteOffset: 0, value: first?.keyword === 'SIMPLE' ? first.value : first?.keyword, expected: "'SIMPLE  =                    T'" });
     }
     type = 'primary';
   } else {
