@@ -44,13 +44,12 @@ export function exactEscapeInputs(ref: SiliconRef): EscapeInputs {
 /** EscapeInputs with μ(E) log-log interpolated on a dense xraylib table (for matrix builds). */
 export function tabulatedEscapeInputs(): EscapeInputs {
   const es: number[] = [];
-  for (let e = 0.05; e < 20; e *= 1.01) es.push(e);
+  for (let e = 0.5; e < 20; e *= 1.01) es.push(e); // xraylib tables start near 0.1 keV; escape needs only E > Kα
   const ref = runPythonJson<{ w: number; j: number; edge: number; ka: number; mu: number[] }>(
     'xraylib',
     `import json, sys, xraylib as x
 es = json.load(sys.stdin)
 edge = x.EdgeEnergy(14, x.K_SHELL)
-# step to just either side of the edge so the jump is kept
 mu = [x.CS_Total(14, e) for e in es]
 print(json.dumps({"w": x.FluorYield(14, x.K_SHELL), "j": x.JumpFactor(14, x.K_SHELL), "edge": edge, "ka": x.LineEnergy(14, x.KL3_LINE), "mu": mu}))`,
     es,
