@@ -24,11 +24,11 @@ export function parseYaml(text: string, file: string): YamlText {
   const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true, version: '1.2' });
   const problem = doc.errors[0] ?? doc.warnings[0];
   if (problem) {
-    const pos = problem.linePos?.[0];
+    const pos = lineCounter.linePos(problem.pos[0]);
     throw new KilnInputError(`YAML syntax: ${problem.message.split('\n')[0]}`, {
       file,
-      line: pos?.line,
-      field: pos ? `column ${pos.col}` : undefined,
+      line: pos.line,
+      field: `column ${pos.col}`,
       expected: 'well-formed YAML',
     });
   }

@@ -1,0 +1,147 @@
+/**
+ * The stated truth behind the demo line fits of the invented QUILLON / TARNCAM scenario.
+ * scripts/make-demo-linefits.ts draws content/releases/<id>/linefits/<detector>.csv from it, and
+ * tests/content/ check that fitting the CSVs recovers it. Every number here is invented for the
+ * demo; only the X-ray line energies are physics (see LINE_ENERGIES_KEV).
+ *
+ * Where a release's model takes a parameter from a law, the truth equals the law the release
+ * states (tests check that). Where the release interpolates line fits, the truth below is the
+ * only place the "real" curve is written down.
+ */
+
+/**
+ * Line energies, keV. Kα = radiative-rate-weighted mean of Kα1 (KL3) and Kα2 (KL2), Kβ = Kβ1,3,
+ * as given by xraylib (LineEnergy, RadRate); checked against python3-xraylib in
+ * tests/content/demo-lines.test.ts.
+ */
+export const LINE_ENERGIES_KEV = {
+  'C Ka': 0.2774,
+  'O Ka': 0.5249,
+  'F Ka': 0.6768,
+  'Al Ka': 1.4867,
+  'Si Ka': 1.7398,
+  'Ag La1': 2.9844,
+  'Ti Ka': 4.5089,
+  'Mn Ka': 5.895,
+  'Mn Kb': 6.4904,
+  'Ni Ka': 7.4723,
+  'Cu Ka': 8.0411,
+} as const;
+export type LineName = keyof typeof LINE_ENERGIES_KEV;
+
+export interface DetectorTruth {
+  pairEnergyEv: number;
+  fwhm: { readNoiseE: number; fano: number; sigma0Ev: number; pixelsPerEvent: { a: number; bPerKeV: number } };
+  centroid: { gainError: number; offsetEv: number; chargeLossEv: number; chargeLossScaleKeV: number };
+  tail: { fractionAtZero: number; fractionScaleKeV: number; tailScaleEv: number };
+  shelf: { fraction: number };
+  /** Relative efficiency (measured / model) and its 1σ error; null where no absolute flux is known. */
+  efficiency: { value: number; err: number } | null;
+}
+
+export interface ReleaseTruth {
+  release: string;
+  seed: number;
+  /** How the lines were obtained (goes into the CSV's comment header). */
+  setting: string;
+  /** Counts in each line (peak + tail + shelf). */
+  lines: { line: LineName; counts: number }[];
+  detectors: Record<string, DetectorTruth>;
+}
+
+/** Fano factor of the demo's silicon: inside the ≈0.115–0.12 range of the primer (memory). */
+const FANO = 0.118;
+/** Mean energy per pair in cold silicon, invented for the demo (primer: ≈3.65 eV warm, a bit more cold). */
+const PAIR_EV = 3.68;
+
+const GROUND_FI: DetectorTruth = {
+  pairEnergyEv: PAIR_EV,
+  fwhm: { readNoiseE: 3.5, fano: FANO, sigma0Ev: 10, pixelsPerEvent: { a: 1.2, bPerKeV: 0.35 } },
+  centroid: { gainError: 0, offsetEv: 0, chargeLossEv: 5, chargeLossScaleKeV: 0.8 },
+  tail: { fractionAtZero: 0.08, fractionScaleKeV: 1.0, tailScaleEv: 60 },
+  shelf: { fraction: 0.005 },
+  efficiency: { value: 1, err: 0.015 },
+};
+const GROUND_BI: DetectorTruth = {
+  pairEnergyEv: PAIR_EV,
+  fwhm: { readNoiseE: 4.0, fano: FANO, sigma0Ev: 15, pixelsPerEvent: { a: 1.4, bPerKeV: 0.45 } },
+  // Hidden truth: release 1.0.0 interpolates the measured centroids and tails of this detector.
+  centroid: { gainError: 0, offsetEv: 0, chargeLossEv: 25, chargeLossScaleKeV: 0.6 },
+  tail: { fractionAtZero: 0.35, fractionScaleKeV: 0.7, tailScaleEv: 90 },
+  shelf: { fraction: 0.012 },
+  efficiency: { value: 1, err: 0.015 },
+};
+
+/** In flight: more noise (radiation damage, invented), a residual gain drift after PI correction. */
+const FLIGHT_FI: DetectorTruth = {
+  ...GROUND_FI,
+  fwhm: { ...GROUND_FI.fwhm, readNoiseE: 3.9, sigma0Ev: 18 },
+  centroid: { ...GROUND_FI.centroid, gainError: 0.0021 },
+  efficiency: null,
+};
+const FLIGHT_BI: DetectorTruth = {
+  ...GROUND_BI,
+  fwhm: { ...GROUND_BI.fwhm, readNoiseE: 4.3, sigma0Ev: 22 },
+  centroid: { ...GROUND_BI.centroid, gainError: 0.0015 },
+  efficiency: null,
+};
+
+/** 2.0.0: the revised soft response (steeper, shorter FI tail; BI tail and shelf as laws). */
+const REVISED_FI: DetectorTruth = {
+  ...FLIGHT_FI,
+  centroid: { ...FLIGHT_FI.centroid, chargeLossEv: 8, chargeLossScaleKeV: 0.5 },
+  tail: { fractionAtZero: 0.12, fractionScaleKeV: 0.8, tailScaleEv: 45 },
+};
+const REVISED_BI: DetectorTruth = {
+  ...FLIGHT_BI,
+  tail: { fractionAtZero: 0.3, fractionScaleKeV: 0.55, tailScaleEv: 80 },
+  shelf: { fraction: 0.015 },
+};
+
+export const DEMO_TRUTH: ReleaseTruth[] = [
+  {
+    release: '1.0.0',
+    seed: 0x51ee1,
+    setting: 'ground calibration, beamline with fluorescence targets (invented)',
+    lines: [
+      { line: 'C Ka', counts: 4000 },
+      { line: 'O Ka', counts: 6000 },
+      { line: 'Al Ka', counts: 20000 },
+      { line: 'Si Ka', counts: 15000 },
+      { line: 'Ag La1', counts: 12000 },
+      { line: 'Ti Ka', counts: 20000 },
+      { line: 'Mn Ka', counts: 40000 },
+      { line: 'Mn Kb', counts: 8000 },
+      { line: 'Ni Ka', counts: 15000 },
+      { line: 'Cu Ka', counts: 15000 },
+    ],
+    detectors: { fi0: GROUND_FI, bi1: GROUND_BI },
+  },
+  {
+    release: '1.1.0',
+    seed: 0x51ee2,
+    setting: 'in flight, onboard calibration source (Mn K) with Al and Ti fluorescence targets (invented)',
+    lines: [
+      { line: 'Al Ka', counts: 5000 },
+      { line: 'Ti Ka', counts: 6000 },
+      { line: 'Mn Ka', counts: 60000 },
+      { line: 'Mn Kb', counts: 9000 },
+    ],
+    detectors: { fi0: FLIGHT_FI, bi1: FLIGHT_BI },
+  },
+  {
+    release: '2.0.0',
+    seed: 0x51ee3,
+    setting: 'in flight, calibration source plus the soft fluorescence target (O, F, Al, Si) (invented)',
+    lines: [
+      { line: 'O Ka', counts: 3000 },
+      { line: 'F Ka', counts: 3000 },
+      { line: 'Al Ka', counts: 8000 },
+      { line: 'Si Ka', counts: 4000 },
+      { line: 'Ti Ka', counts: 8000 },
+      { line: 'Mn Ka', counts: 90000 },
+      { line: 'Mn Kb', counts: 13000 },
+    ],
+    detectors: { fi0: REVISED_FI, bi1: REVISED_BI },
+  },
+];

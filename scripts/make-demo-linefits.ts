@@ -1,0 +1,138 @@
+/**
+ * Writes the invented demo line fits, content/releases/<id>/linefits/<detector>.csv, from the
+ * stated truth in scripts/demo-truth.ts with seeded Gaussian scatter whose size is the error
+ * written beside each value (so χ²/dof of a fit of the true law is ≈ 1).
+ *
+ *   node --import tsx scripts/make-demo-linefits.ts           write the files
+ *   node --import tsx scripts/make-demo-linefits.ts --check   exit 1 if the committed files differ
+ *
+ * Deterministic: same truth and seed → same bytes.
+ */
+import { readFile, writeFile, mkdir } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { FWHM_PER_SIGMA, fanoLimitFwhmEv, fwhmEv } from '../generators/physics/resolution.ts';
+import { DEMO_TRUTH, LINE_ENERGIES_KEV, type DetectorTruth, type ReleaseTruth } from './demo-truth.ts';
+
+const EV_PER_KEV = 1000;
+/** Systematic floors of the invented analysis: gain calibration (centroid) and line-shape model (FWHM). */
+const CENTROID_FLOOR_EV = 0.3;
+const FWHM_FLOOR_EV = 0.5;
+/** Relative scatter of the fitted tail e-folding scale (no error column for it). */
+const TAIL_SCALE_REL_SCATTER = 0.05;
+/** Smallest tail fraction used in the binomial error, so that a vanishing tail still has a finite error. */
+const TAIL_ERR_FLOOR_FRACTION = 1e-4;
+
+/** mulberry32: a small seeded PRNG (public-domain algorithm), uniform in [0, 1). */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Standard normal deviates by Box–Muller. */
+export function gaussian(uniform: () => number): () => number {
+  return () => {
+    const u = 1 - uniform(); // (0, 1]
+    const v = uniform();
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
+  };
+}
+
+export function truthCentroidKeV(d: DetectorTruth, energyKeV: number): number {
+  const c = d.centroid;
+  const shiftEv = c.gainError * energyKeV * EV_PER_KEV + c.offsetEv - c.chargeLossEv * Math.exp(-energyKeV / c.chargeLossScaleKeV);
+  return energyKeV + shiftEv / EV_PER_KEV;
+}
+
+export function truthFwhmEv(d: DetectorTruth, energyKeV: number): number {
+  return fwhmEv(energyKeV, { pairEnergyEv: d.pairEnergyEv, ...d.fwhm });
+}
+
+export function truthTailFraction(d: DetectorTruth, energyKeV: number): number {
+  return d.tail.fractionAtZero * Math.exp(-energyKeV / d.tail.fractionScaleKeV);
+}
+
+const HEADER = 'line,energy_keV,centroid_keV,centroid_err_eV,fwhm_eV,fwhm_err_eV,tail_fraction,tail_fraction_err,tail_scale_eV,shelf_fraction,efficiency,efficiency_err';
+
+/** The CSV text for one detector of one release. */
+export function makeLineFitsCsv(t: ReleaseTruth, detector: string): string {
+  const d = t.detectors[detector];
+  if (!d) throw new Error(`no truth for ${detector} in ${t.release}`);
+  // One stream per detector, so adding a detector does not change the others.
+  const detIndex = Object.keys(t.detectors).indexOf(detector);
+  const g = gaussian(mulberry32(t.seed + 7919 * (detIndex + 1)));
+  const rows = t.lines.map(({ line, counts }) => {
+    const e = LINE_ENERGIES_KEV[line];
+    const tail = truthTailFraction(d, e);
+    const peakCounts = counts * (1 - tail - d.shelf.fraction);
+    const fwhm = truthFwhmEv(d, e);
+    const sigma = fwhm / FWHM_PER_SIGMA;
+    const centroidErr = Math.hypot(sigma / Math.sqrt(peakCounts), CENTROID_FLOOR_EV);
+    const fwhmErr = Math.hypot(fwhm / Math.sqrt(2 * peakCounts), FWHM_FLOOR_EV);
+    const tailErr = Math.sqrt((Math.max(tail, TAIL_ERR_FLOOR_FRACTION) * (1 - tail)) / counts);
+    const centroid = truthCentroidKeV(d, e) + (centroidErr * g()) / EV_PER_KEV;
+    const fwhmMeasured = fwhm + fwhmErr * g();
+    // A fit cannot return a negative fraction: it stops at the boundary.
+    const tailMeasured = Math.max(0, tail + tailErr * g());
+    const tailScale = d.tail.tailScaleEv * (1 + TAIL_SCALE_REL_SCATTER * g());
+    const shelf = Math.max(0, d.shelf.fraction + Math.sqrt(d.shelf.fraction / counts) * g());
+    const limit = fanoLimitFwhmEv(e, d.pairEnergyEv, d.fwhm.fano);
+    if (!(fwhmMeasured > limit)) throw new Error(`${t.release} ${detector} ${line}: FWHM ${fwhmMeasured} eV below the Fano limit ${limit} eV`);
+    const eff = d.efficiency ? [(d.efficiency.value + d.efficiency.err * g()).toFixed(4), d.efficiency.err.toFixed(4)] : ['', ''];
+    return [
+      line,
+      e.toFixed(4),
+      centroid.toFixed(5),
+      centroidErr.toFixed(2),
+      fwhmMeasured.toFixed(2),
+      fwhmErr.toFixed(2),
+      tailMeasured.toFixed(5),
+      tailErr.toFixed(5),
+      tailScale.toFixed(1),
+      shelf.toFixed(5),
+      ...eff,
+    ].join(',');
+  });
+  return [
+    `# INVENTED demo data (fictional QUILLON telescope, TARNCAM camera, detector ${detector}), release ${t.release}.`,
+    `# Setting: ${t.setting}.`,
+    '# Drawn by scripts/make-demo-linefits.ts from the truth in scripts/demo-truth.ts; errors are 1 sigma.',
+    HEADER,
+    ...rows,
+    '',
+  ].join('\n');
+}
+
+const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
+export const demoLineFitsPath = (release: string, detector: string) => join(ROOT, 'content', 'releases', release, 'linefits', `${detector}.csv`);
+
+async function main(check: boolean): Promise<number> {
+  let differ = 0;
+  for (const t of DEMO_TRUTH)
+    for (const det of Object.keys(t.detectors)) {
+      const file = demoLineFitsPath(t.release, det);
+      const text = makeLineFitsCsv(t, det);
+      if (check) {
+        const old = await readFile(file, 'utf8').catch(() => null);
+        if (old !== text) {
+          process.stderr.write(`differs: ${file}\n`);
+          differ++;
+        }
+      } else {
+        await mkdir(dirname(file), { recursive: true });
+        await writeFile(file, text);
+        process.stdout.write(`wrote ${file}\n`);
+      }
+    }
+  return differ ? 1 : 0;
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  main(process.argv.includes('--check')).then((code) => process.exit(code));
+}
