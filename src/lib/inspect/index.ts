@@ -1,0 +1,3 @@
+export * from './gunzip.ts';
+export * from './analyse.ts';
+export * from './fitsjs.ts';
