@@ -51,7 +51,8 @@ export interface FitResult {
   iterations: number;
 }
 
-const LM_MAX_ITERATIONS = 1000;
+/** The package has no step-size stopping rule (it stops only at χ² ≤ errorTolerance), so it runs all its iterations; the Gauss–Newton polish settles the optimum. */
+const LM_MAX_ITERATIONS = 100;
 const POLISH_ITERATIONS = 30;
 
 export function chi2Of(p: LsqProblem, theta: readonly number[]): number {
