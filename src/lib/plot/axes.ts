@@ -44,35 +44,39 @@ function decadeLabel(v: number, fallback: string): string {
 const SUP: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
 const superscript = (n: number) => String(n).split('').map((c) => SUP[c] ?? c).join('');
 
+/** Grid and tick marks as one path each (compact); minor log ticks get a tick but no grid line. */
 export function bottomAxis(scale: NumScale, kind: ScaleKind, frame: Frame, title: string): string {
   const y0 = frame.top + frame.height;
-  const parts: string[] = [`<g class="axis x">`];
+  let grid = '';
+  let marks = '';
+  const labels: string[] = [];
   for (const t of ticks(scale, kind, Math.max(3, Math.round(frame.width / 80)))) {
     const x = scale(t.value).toFixed(1);
-    const len = t.label ? TICK_PX : TICK_PX - 2;
-    parts.push(`<line class="grid" x1="${x}" x2="${x}" y1="${frame.top}" y2="${y0}"${t.label ? '' : ' data-minor=""'}/>`);
-    parts.push(`<line x1="${x}" x2="${x}" y1="${y0}" y2="${y0 + len}"/>`);
-    if (t.label) parts.push(`<text x="${x}" y="${y0 + TICK_PX + FONT_PX}" text-anchor="middle">${esc(t.label)}</text>`);
+    if (t.label) grid += `M${x},${frame.top}V${y0}`;
+    marks += `M${x},${y0}v${t.label ? TICK_PX : TICK_PX - 2}`;
+    if (t.label) labels.push(`<text x="${x}" y="${y0 + TICK_PX + FONT_PX}" text-anchor="middle">${esc(t.label)}</text>`);
   }
-  parts.push(`<line x1="${frame.left}" x2="${frame.left + frame.width}" y1="${y0}" y2="${y0}"/>`);
-  parts.push(`<text class="title" x="${frame.left + frame.width / 2}" y="${y0 + TICK_PX + 2 * FONT_PX + 8}" text-anchor="middle">${esc(title)}</text>`);
-  parts.push('</g>');
-  return parts.join('');
+  return (
+    `<g class="axis x"><path class="grid" d="${grid}"/><path d="${marks}M${frame.left},${y0}h${frame.width}"/>${labels.join('')}` +
+    `<text class="title" x="${frame.left + frame.width / 2}" y="${y0 + TICK_PX + 2 * FONT_PX + 8}" text-anchor="middle">${esc(title)}</text></g>`
+  );
 }
 
 export function leftAxis(scale: NumScale, kind: ScaleKind, frame: Frame, title: string): string {
   const x0 = frame.left;
-  const parts: string[] = [`<g class="axis y">`];
+  let grid = '';
+  let marks = '';
+  const labels: string[] = [];
   for (const t of ticks(scale, kind, Math.max(3, Math.round(frame.height / 45)))) {
     const y = scale(t.value).toFixed(1);
+    if (t.label) grid += `M${x0},${y}h${frame.width}`;
     const len = t.label ? TICK_PX : TICK_PX - 2;
-    parts.push(`<line class="grid" x1="${x0}" x2="${x0 + frame.width}" y1="${y}" y2="${y}"${t.label ? '' : ' data-minor=""'}/>`);
-    parts.push(`<line x1="${x0 - len}" x2="${x0}" y1="${y}" y2="${y}"/>`);
-    if (t.label) parts.push(`<text x="${x0 - TICK_PX - 3}" y="${y}" dy="0.32em" text-anchor="end">${esc(t.label)}</text>`);
+    marks += `M${x0 - len},${y}h${len}`;
+    if (t.label) labels.push(`<text x="${x0 - TICK_PX - 3}" y="${y}" dy="0.32em" text-anchor="end">${esc(t.label)}</text>`);
   }
-  parts.push(`<line x1="${x0}" x2="${x0}" y1="${frame.top}" y2="${frame.top + frame.height}"/>`);
   const cy = frame.top + frame.height / 2;
-  parts.push(`<text class="title" transform="translate(${x0 - 48},${cy}) rotate(-90)" text-anchor="middle">${esc(title)}</text>`);
-  parts.push('</g>');
-  return parts.join('');
+  return (
+    `<g class="axis y"><path class="grid" d="${grid}"/><path d="${marks}M${x0},${frame.top}v${frame.height}"/>${labels.join('')}` +
+    `<text class="title" transform="translate(${x0 - 48},${cy}) rotate(-90)" text-anchor="middle">${esc(title)}</text></g>`
+  );
 }

@@ -8,7 +8,7 @@ export const CHROMIUM = '/usr/bin/chromium';
 const ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
 
 /** A fresh profile directory per launch (playwright passes it as --user-data-dir). */
-export async function launch(): Promise<{ context: BrowserContext; close: () => Promise<void> }> {
+export async function launch(opts: { javaScriptEnabled?: boolean } = {}): Promise<{ context: BrowserContext; close: () => Promise<void> }> {
   const profile = mkdtempSync(join(tmpdir(), 'kiln-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM,
@@ -16,6 +16,7 @@ export async function launch(): Promise<{ context: BrowserContext; close: () => 
     args: ARGS,
     viewport: { width: 1280, height: 900 },
     acceptDownloads: true,
+    javaScriptEnabled: opts.javaScriptEnabled ?? true,
   });
   return {
     context,

@@ -1,0 +1,267 @@
+/**
+ * The built site in Debian's chromium (playwright-core, never a downloaded browser), served from
+ * dist/ by a tiny local server. dist/ must come from `npm run build` (KILN_OUT, default .kiln/out).
+ * Checksums are verified with node:crypto's SHA-256 (FIPS 180-4) against the release manifests.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createHash } from 'node:crypto';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { gunzipSync } from 'node:zlib';
+import type { BrowserContext, Page } from 'playwright-core';
+import type { ReleaseIndex, ReleaseManifest } from '../../generators/site-data/types.ts';
+import { DIST, requireDist, serveDist } from './support/server.ts';
+import { launch, watch } from './support/browser.ts';
+
+const SHOTS = '/tmp/shots';
+/** A drawn curve should have many vertices; a handful means the data did not arrive. */
+const MIN_LINE_POINTS = 20;
+
+requireDist();
+const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8')) as ReleaseIndex;
+const releaseIds = index.releases.map((r) => r.id);
+const PAGES = ['/', '/compare/', '/finder/', '/inspect/', '/about/', ...releaseIds.map((id) => `/releases/${id}/`)];
+
+let server: Awaited<ReturnType<typeof serveDist>>;
+let browser: Awaited<ReturnType<typeof launch>>;
+let context: BrowserContext;
+
+beforeAll(async () => {
+  mkdirSync(SHOTS, { recursive: true });
+  server = await serveDist();
+  browser = await launch();
+  context = browser.context;
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+async function open(path: string): Promise<{ page: Page; problems: string[] }> {
+  const page = await context.newPage();
+  const { problems } = watch(page, server.url);
+  await page.goto(server.url + path, { waitUntil: 'networkidle' });
+  return { page, problems };
+}
+
+const pointCount = (d: string) => (d.match(/[ML]/g) ?? []).length;
+
+describe('every page', () => {
+  for (const path of PAGES)
+    it(`${path} loads without console errors, failed or off-site requests`, async () => {
+      const { page, problems } = await open(path);
+      expect(await page.title()).not.toBe('');
+      await page.screenshot({ path: `${SHOTS}/page${path.replace(/\W+/g, '_')}.png`, fullPage: true });
+      expect(problems).toEqual([]);
+      await page.close();
+    });
+});
+
+describe('release page', () => {
+  const id = releaseIds[0];
+  it('draws every line plot with many points and the matrix image', async () => {
+    const { page, problems } = await open(`/releases/${id}/`);
+    // Curves on energy grids (area, efficiency, FWHM and centroid models) carry many points; a
+    // profile far below the peak may legitimately have few channels above zero.
+    const figs = await page.$$eval('figure.kplot', (fs) => fs.map((f) => ({ id: f.id, ds: [...f.querySelectorAll('path.series:not(.points)')].map((p) => p.getAttribute('d') ?? '') })));
+    const curves = figs.filter((f) => /^(ea|qe|fwhm|cen)-/.test(f.id) && !/-res-/.test(f.id));
+    expect(curves.length).toBeGreaterThanOrEqual(4);
+    for (const f of curves) expect(Math.max(...f.ds.map(pointCount)), f.id).toBeGreaterThanOrEqual(MIN_LINE_POINTS);
+    for (const f of figs.filter((x) => x.id.startsWith('prof-'))) expect(f.ds.some((d) => pointCount(d) > 1), f.id).toBe(true);
+    const pts = await page.$$eval('figure.kplot path.series.points', (ps) => ps.map((p) => p.getAttribute('d') ?? ''));
+    expect(pts.length).toBeGreaterThan(0);
+    for (const d of pts) expect(d.length).toBeGreaterThan(0);
+    const imgs = await page.$$eval('figure.matrix-fig image', (is) => is.map((i) => i.getAttribute('href')));
+    expect(imgs.length).toBeGreaterThan(0);
+    for (const src of imgs) {
+      const r = await page.request.get(server.url + src);
+      expect(r.status()).toBe(200);
+      expect([...(await r.body()).subarray(0, 4)]).toEqual([137, 80, 78, 71]);
+    }
+    expect(problems).toEqual([]);
+    await page.close();
+  });
+
+  it('lets no raw HTML or script from the notes through', async () => {
+    for (const rid of releaseIds) {
+      const { page } = await open(`/releases/${rid}/`);
+      expect(await page.$$eval('.notes script, .notes iframe, .notes [onerror], .notes [onclick]', (n) => n.length)).toBe(0);
+      expect(await page.$$eval('.notes a[href^="javascript:"]', (n) => n.length)).toBe(0);
+      expect(await page.evaluate(() => (window as unknown as { __kilnInjected?: boolean }).__kilnInjected)).toBeUndefined();
+      await page.close();
+    }
+  });
+
+  it('hover shows a readout, drag zooms, double-click resets, log toggle redraws', async () => {
+    const { page } = await open(`/releases/${id}/`);
+    const fig = page.locator('figure.kplot').first();
+    await fig.scrollIntoViewIfNeeded();
+    const box = (await fig.locator('svg.plot-svg').boundingBox())!;
+    const before = await fig.locator('path.series').first().getAttribute('d');
+    await page.mouse.move(box.x + box.width * 0.5, box.y + box.height * 0.4);
+    await expect.poll(() => fig.locator('output.kplot-readout').textContent()).toMatch(/Energy [\d.]+ keV/);
+    await page.mouse.move(box.x + box.width * 0.35, box.y + box.height * 0.2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.7, box.y + box.height * 0.6, { steps: 5 });
+    await page.mouse.up();
+    const zoomed = await fig.locator('path.series').first().getAttribute('d');
+    expect(zoomed).not.toBe(before);
+    await fig.locator('svg.plot-svg').dblclick({ position: { x: box.width * 0.5, y: box.height * 0.5 } });
+    expect(await fig.locator('path.series').first().getAttribute('d')).toBe(before);
+    const xlog = fig.getByRole('button', { name: 'log x' });
+    await xlog.focus();
+    await page.keyboard.press('Enter');
+    expect(await xlog.getAttribute('aria-pressed')).toBe('false');
+    expect(await fig.locator('path.series').first().getAttribute('d')).not.toBe(before);
+    await page.close();
+  });
+
+  it('profile energy checkboxes change the drawn profiles', async () => {
+    const { page } = await open(`/releases/${id}/`);
+    const box = page.locator('.profiles').first();
+    const count = () => box.locator('path.series').count();
+    const n0 = await count();
+    const boxes = box.locator('input[type=checkbox]');
+    const total = await boxes.count();
+    for (let i = 0; i < total; i++) await boxes.nth(i).check();
+    expect(await count()).toBe(total);
+    expect(total).toBeGreaterThanOrEqual(n0);
+    await boxes.nth(0).uncheck();
+    expect(await count()).toBe(total - 1);
+    await page.close();
+  });
+});
+
+describe('downloads', () => {
+  for (const id of releaseIds)
+    it(`release ${id}: every download resolves and matches the manifest SHA-256`, async () => {
+      const manifest = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'manifest.json'), 'utf8')) as ReleaseManifest;
+      const { page } = await open(`/releases/${id}/`);
+      const links = await page.$$eval('a.dl', (as) => as.map((a) => ({ href: a.getAttribute('href')!, sha: a.getAttribute('data-sha256')! })));
+      expect(links.length).toBe(manifest.files.length);
+      for (const f of manifest.files) {
+        const link = links.find((l) => l.href === `/releases/${id}/${f.path}`);
+        expect(link, f.path).toBeDefined();
+        const r = await page.request.get(server.url + link!.href);
+        expect(r.status()).toBe(200);
+        const body = await r.body();
+        expect(body.length).toBe(f.bytes);
+        expect(createHash('sha256').update(body).digest('hex')).toBe(f.sha256);
+      }
+      const sums = await (await page.request.get(`${server.url}/releases/${id}/files/SHA256SUMS.txt`)).text();
+      for (const f of manifest.files) expect(sums).toContain(`${f.sha256}  ${f.path.replace(/^files\//, '')}`);
+      await page.close();
+    });
+});
+
+describe('compare page', () => {
+  it('changing the selection changes the plots and the URL', async () => {
+    const { page, problems } = await open('/compare/');
+    const first = () => page.locator('#compare-body path.series').first().getAttribute('d');
+    const d0 = await first();
+    const a0 = await page.inputValue('#sel-a');
+    const b0 = await page.inputValue('#sel-b');
+    // A different pair: swap A and B (a different picture whenever the releases differ).
+    await page.selectOption('#sel-a', b0);
+    await page.selectOption('#sel-b', a0);
+    await expect.poll(() => page.textContent('#compare-status')).toContain(`B = ${a0} against A = ${b0}`);
+    expect(await first()).not.toBe(d0);
+    const u = new URL(page.url());
+    expect(u.searchParams.get('a')).toBe(b0);
+    expect(u.searchParams.get('b')).toBe(a0);
+    await page.screenshot({ path: `${SHOTS}/compare-swapped.png`, fullPage: true });
+    // The shared URL reproduces the choice.
+    const again = await context.newPage();
+    await again.goto(page.url(), { waitUntil: 'networkidle' });
+    await expect.poll(() => again.textContent('#compare-status')).toContain(`B = ${a0} against A = ${b0}`);
+    expect(await again.locator('#compare-body path.series').first().getAttribute('d')).toBe(await first());
+    expect(problems).toEqual([]);
+    await again.close();
+    await page.close();
+  });
+});
+
+describe('finder page', () => {
+  it('lists the files valid for a date, published first, warning on superseded', async () => {
+    const det = index.instruments[0].detectors[0].id;
+    const p = index.releases.flatMap((r) => r.products.map((x) => ({ r, x }))).find((h) => h.x.detector === det)!;
+    const date = p.x.validFrom;
+    const { page } = await open(`/finder/?detector=${det}&date=${date}`);
+    const rows = page.locator('#finder-hits tbody tr');
+    expect(await rows.count()).toBeGreaterThan(0);
+    const statuses = await page.$$eval('#finder-hits tbody tr td:nth-child(2)', (t) => t.map((x) => x.textContent?.trim()));
+    const rank = ['published', 'candidate', 'superseded', 'withdrawn'];
+    const ranks = statuses.map((s) => rank.indexOf(s!));
+    expect([...ranks].sort((a, b) => a - b)).toEqual(ranks);
+    const warned = await page.$$eval('#finder-hits tbody tr', (trs) => trs.map((t) => [t.children[1].textContent?.trim(), /warning/.test(t.children[8].textContent ?? '')]));
+    for (const [s, w] of warned) expect(w).toBe(s === 'superseded' || s === 'withdrawn');
+    await page.screenshot({ path: `${SHOTS}/finder-result.png`, fullPage: true });
+    await page.close();
+  });
+});
+
+describe('inspect page', () => {
+  const firstFile = (suffix: string) => {
+    for (const id of releaseIds) {
+      const dir = join(DIST, 'releases', id, 'files');
+      const f = readdirSync(dir).find((n) => n.endsWith(suffix));
+      if (f) return join(dir, f);
+    }
+    throw new Error(`no *${suffix} in dist/releases/*/files`);
+  };
+
+  for (const suffix of ['.rmf.gz', '.arf.gz'])
+    it(`parses, checks and plots a valid ${suffix} file`, async () => {
+      const { page, problems } = await open('/inspect/');
+      await page.selectOption('#inspect-against', { index: 1 });
+      await page.setInputFiles('#inspect-file', firstFile(suffix));
+      await page.waitForSelector('#inspect-fitsjs', { timeout: 20_000 });
+      expect(await page.locator('#inspect-error').count()).toBe(0);
+      expect(await page.locator('#inspect-checks tbody tr').count()).toBeGreaterThan(3);
+      const paths = await page.$$eval('#inspect-result path.series', (ps) => ps.map((p) => p.getAttribute('d') ?? ''));
+      expect(paths.some((d) => pointCount(d) >= MIN_LINE_POINTS)).toBe(true);
+      expect(await page.textContent('#inspect-fitsjs')).toMatch(/fitsjs sees \d+ HDUs/);
+      await page.screenshot({ path: `${SHOTS}/inspect${suffix.replace(/\W/g, '_')}.png`, fullPage: true });
+      expect(problems).toEqual([]);
+      await page.close();
+    });
+
+  it('reports a file that is not FITS', async () => {
+    const { page } = await open('/inspect/');
+    await page.setInputFiles('#inspect-file', { name: 'broken.rmf', mimeType: 'application/octet-stream', buffer: Buffer.from('this is not a FITS file '.repeat(200)) });
+    await page.waitForSelector('#inspect-error');
+    expect(await page.textContent('#inspect-error')).toMatch(/broken\.rmf/);
+    await page.close();
+  });
+
+  it('reports a truncated FITS file', async () => {
+    const whole = gunzipSync(readFileSync(firstFile('.rmf.gz')));
+    const cut = join('/tmp', 'kiln-truncated.rmf');
+    writeFileSync(cut, whole.subarray(0, Math.floor(whole.length / 2880 / 2) * 2880 + 100));
+    const { page } = await open('/inspect/');
+    await page.setInputFiles('#inspect-file', cut);
+    await page.waitForSelector('#inspect-error, #inspect-fitsjs');
+    const failed = (await page.locator('#inspect-error').count()) + (await page.locator('#inspect-checks .st-fail').count());
+    expect(failed).toBeGreaterThan(0);
+    await page.close();
+  });
+});
+
+describe('without JavaScript', () => {
+  it('release and compare pages still show plotted data', async () => {
+    const nojs = await launch({ javaScriptEnabled: false });
+    try {
+      for (const path of [`/releases/${releaseIds[0]}/`, '/compare/']) {
+        const page = await nojs.context.newPage();
+        await page.goto(server.url + path, { waitUntil: 'networkidle' });
+        const ds = await page.$$eval('path.series:not(.points)', (ps) => ps.map((p) => p.getAttribute('d') ?? ''));
+        expect(ds.length).toBeGreaterThan(0);
+        expect(ds.filter((d) => pointCount(d) >= MIN_LINE_POINTS).length).toBeGreaterThan(0);
+        await page.screenshot({ path: `${SHOTS}/nojs${path.replace(/\W+/g, '_')}.png`, fullPage: true });
+        await page.close();
+      }
+    } finally {
+      await nojs.close();
+    }
+  });
+});

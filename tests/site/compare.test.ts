@@ -1,0 +1,51 @@
+/** Compare helpers: expected values worked out by hand in the comments. */
+import { describe, expect, it } from 'vitest';
+import type { ParameterRow } from '../../generators/site-data/types.ts';
+import { defaultPair, difference, onGrid, parameterChanges, ratio, validationDiff } from '../../src/lib/compare/index.ts';
+
+describe('onGrid', () => {
+  it('returns B unchanged on an equal grid, null outside its range', () => {
+    expect(onGrid([1, 2, 4], [1, 2, 4], [10, 20, 40])).toEqual([10, 20, 40]);
+    expect(onGrid([0.5, 1, 8], [1, 2, 4], [10, 20, 40])).toEqual([null, 10, null]);
+  });
+  it('interpolates linearly in log energy', () => {
+    // Between (1, 10) and (4, 40): x = 2 is halfway in log x → 25.
+    expect(onGrid([2], [1, 4], [10, 40])[0]).toBeCloseTo(25, 12);
+  });
+});
+
+describe('ratio and difference', () => {
+  it('skip nulls and zero denominators', () => {
+    expect(ratio([2, 0, null, 4], [3, 1, 1, null])).toEqual([1.5, null, null, null]);
+    expect(difference([2, 0, null], [3, 1, 1])).toEqual([1, 1, null]);
+  });
+});
+
+const row = (name: string, value: number, uncertainty: number | null, detector: string | null = 'd0'): ParameterRow => ({ detector, group: 'g', name, symbol: null, unit: 'eV', value, uncertainty, source: 'fit' });
+
+describe('parameterChanges', () => {
+  it('gives Δ and Δ over the quadrature sum of the 1σ errors, changed rows first', () => {
+    const pc = parameterChanges([row('same', 1, 0.1), row('moved', 10, 0.3)], [row('same', 1, 0.1), row('moved', 10.5, 0.4), row('new', 2, null)]);
+    expect(pc.map((p) => p.name)).toEqual(['moved', 'new', 'same']);
+    expect(pc[0].delta).toBeCloseTo(0.5, 12);
+    expect(pc[0].deltaSigma).toBeCloseTo(0.5 / 0.5, 12); // hypot(0.3, 0.4) = 0.5
+    expect(pc[1].a).toBeNull();
+    expect(pc[2].changed).toBe(false);
+  });
+});
+
+describe('validationDiff and defaultPair', () => {
+  const c = (id: string, status: 'pass' | 'fail', measured: number) => ({ id, title: id, product: null, status, measured, tolerance: 1, unit: null, message: '' });
+  it('lists changed, removed and added checks', () => {
+    const d = validationDiff(
+      { schema: 'kiln/validation/1', release: 'a', checks: [c('x', 'pass', 1), c('y', 'pass', 1), c('gone', 'pass', 1)] },
+      { schema: 'kiln/validation/1', release: 'b', checks: [c('x', 'pass', 1), c('y', 'fail', 2), c('new', 'pass', 1)] },
+    );
+    expect(d.map((x) => x.id)).toEqual(['y', 'gone', 'new']);
+  });
+  it('pairs the newest release with the one it supersedes', () => {
+    expect(defaultPair([{ id: '3', supersedes: '1' }, { id: '2', supersedes: '1' }, { id: '1', supersedes: null }])).toEqual(['1', '3']);
+    expect(defaultPair([{ id: '2', supersedes: null }, { id: '1', supersedes: null }])).toEqual(['1', '2']);
+    expect(defaultPair([{ id: '1', supersedes: null }])).toBeNull();
+  });
+});
