@@ -128,8 +128,10 @@ export function issueToError(iss: z.ZodIssue, cx: IssueContext, pathPrefix: Fiel
 export function parseWith<S extends z.ZodTypeAny>(schema: S, raw: unknown, cx: Omit<IssueContext, 'raw' | 'schema'>, pathPrefix: FieldPath = []): z.output<S> {
   const r = schema.safeParse(raw);
   if (r.success) return r.data;
-  const errors = r.error.issues.map((i) => issueToError(i, { ...cx, raw, schema }, pathPrefix));
-  errors.sort((a, b) => (a.where.line ?? Infinity) - (b.where.line ?? Infinity));
+  // A misspelt field also shows up as a missing one: report the unknown name first, then by line.
+  const ranked = r.error.issues.map((i) => ({ unknown: i.code === 'unrecognized_keys' ? 0 : 1, err: issueToError(i, { ...cx, raw, schema }, pathPrefix) }));
+  ranked.sort((a, b) => a.unknown - b.unknown || (a.err.where.line ?? Infinity) - (b.err.where.line ?? Infinity));
+  const errors = ranked.map((x) => x.err);
   const first = errors[0];
   if (errors.length === 1) throw first;
   throw new KilnInputError(`${first.message} (and ${errors.length - 1} more problem${errors.length > 2 ? 's' : ''} in this file)`, first.where);

@@ -118,6 +118,8 @@ export async function loadContent(root: string): Promise<ContentTree> {
     const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
     const source: DocSource = { file, locate: yaml.locate };
     if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
+    if (!instruments.has(doc.instrument))
+      throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys()].join(', ') || '(no instrument in the content tree)'}`);
     const notesFile = join(dir, NOTES_FILE);
     const notesBytes = await readBytes(notesFile, `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
     const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };

@@ -127,10 +127,13 @@ export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
   const parsed = detectorModelSchema.safeParse(merged);
   if (!parsed.success) {
     const iss = parsed.error.issues[0];
-    const op = fromOverride(iss.path, provenance);
-    const err = op
-      ? issueToError({ ...iss, path: op as (string | number)[] }, { file: x.releaseSource.file, raw: rd.model, locate: x.releaseSource.locate, schema: undefined }, overridePrefix)
-      : issueToError(iss, { file: x.instrumentSource.file, raw: merged, locate: x.instrumentSource.locate }, ['detectors', index]);
+    const lookup = iss.code === 'unrecognized_keys' ? [...iss.path, iss.keys[0]] : iss.path;
+    const op = fromOverride(lookup, provenance);
+    let err = issueToError(iss, { file: x.instrumentSource.file, raw: merged, locate: x.instrumentSource.locate, schema: detectorModelSchema }, ['detectors', index]);
+    if (op) {
+      const path = [...overridePrefix, ...op];
+      err = new KilnInputError(err.message, { ...err.where, file: x.releaseSource.file, line: x.releaseSource.locate?.(path)?.line, field: formatPath(path) });
+    }
     throw new KilnInputError(`${err.message} (after applying release ${release.id}'s model to detector ${detectorId})`, err.where);
   }
   const redistribution = parsed.data.redistribution as RedistributionSpec;

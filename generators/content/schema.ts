@@ -239,7 +239,12 @@ export const detectorModelSchema = z
 export const channelGridSchema = z
   .object({
     count: z.number().int().gte(1).lte(MAX_CHANNELS),
-    firstChannel: z.union([z.literal(0), z.literal(1)]),
+    firstChannel: z
+      .number()
+      .int()
+      .superRefine((v, ctx) => {
+        if (v !== 0 && v !== 1) issue(ctx, 'first channel must be 0 or 1', '0 or 1 (TLMIN of F_CHAN, OGIP CAL/GEN/92-002)');
+      }),
     widthEv: positive,
     originEv: nonNegative,
   })

@@ -93,7 +93,7 @@ export function parseLineFits(text: string, file: string): LineFitTable {
     const eff = row.values.efficiency as number | null;
     const effErr = row.values.efficiencyErr as number | null;
     if ((eff === null) !== (effErr === null))
-      fail(file, row, eff === null ? 'efficiencyErr' : 'efficiency', C, 'efficiency and efficiency_err must be given together', 'both empty or both numbers');
+      fail(file, row, eff === null ? 'efficiency' : 'efficiencyErr', C, 'efficiency and efficiency_err must be given together', 'both empty or both numbers');
     if (eff !== null) need('efficiency', (x) => x > 0, '> 0');
     if (effErr !== null) need('efficiencyErr', (x) => x > 0, '> 0 (a 1σ error)');
     return {
