@@ -22,9 +22,13 @@ function range(values: ColumnValues): string {
       n++;
     }
   };
-  for (const v of values as ArrayLike<unknown>) {
-    if (ArrayBuffer.isView(v)) for (const x of v as unknown as ArrayLike<unknown>) visit(x);
-    else visit(v);
+  const all = values as ArrayLike<unknown>;
+  for (let i = 0; i < all.length; i++) {
+    const v = all[i];
+    if (ArrayBuffer.isView(v)) {
+      const cell = v as unknown as ArrayLike<unknown>;
+      for (let k = 0; k < cell.length; k++) visit(cell[k]);
+    } else visit(v);
   }
   return n ? `${fmt(lo)} .. ${fmt(hi)}` : '';
 }

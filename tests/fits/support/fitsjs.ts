@@ -61,7 +61,7 @@ export function loadFitsjs(path?: string): Fitsjs {
 export function openBlob(astro: Fitsjs, bytes: Uint8Array): Promise<FitsjsHdu[]> {
   return new Promise((resolve, reject) => {
     try {
-      new astro.FITS(new Blob([bytes]), function (this: { hdus: FitsjsHdu[] }) {
+      new astro.FITS(new Blob([bytes as Uint8Array<ArrayBuffer>]), function (this: { hdus: FitsjsHdu[] }) {
         resolve(this.hdus);
       });
     } catch (e) {
