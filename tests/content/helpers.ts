@@ -18,6 +18,8 @@ export interface Scratch {
   replace(file: string, from: string | RegExp, to: string): void;
   /** 1-based line of the first line containing `needle` (after edits). */
   lineOf(file: string, needle: string | RegExp): number;
+  /** 1-based line of the last line starting with `prefix`. */
+  lastLineStarting(file: string, prefix: string): number;
   remove(file: string): void;
   dispose(): void;
 }
@@ -40,6 +42,11 @@ export function scratchCopy(): Scratch {
       const i = s.read(f).split('\n').findIndex((l) => (typeof needle === 'string' ? l.includes(needle) : needle.test(l)));
       if (i < 0) throw new Error(`test setup: ${String(needle)} not found in ${f}`);
       return i + 1;
+    },
+    lastLineStarting(f, prefix) {
+      const lines = s.read(f).split('\n');
+      for (let i = lines.length - 1; i >= 0; i--) if (lines[i].startsWith(prefix)) return i + 1;
+      throw new Error(`test setup: no line starting ${prefix} in ${f}`);
     },
     remove: (f) => rmSync(p(f), { recursive: true }),
     dispose: () => rmSync(dirname(root), { recursive: true, force: true }),
