@@ -3,7 +3,7 @@
  * that loadContent throws a KilnInputError naming the file, the line (found in the edited text,
  * not taken from our code), the field or column, the bad value and the expectation.
  */
-import { writeFileSync } from 'node:fs';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { KilnInputError } from '../../generators/errors.ts';
@@ -151,6 +151,18 @@ describe('loadContent rejects broken content trees with a precise KilnInputError
     try {
       writeFileSync(join(t.root, 'releases', 'notes.txt'), 'x');
       await expect(loadContent(t.root)).rejects.toMatchObject({ name: 'KilnInputError', where: { file: join(t.root, 'releases', 'notes.txt') } });
+    } finally {
+      t.dispose();
+    }
+  });
+
+  it('never reads the reserved archive/ directory as input', async () => {
+    const t = scratchCopy();
+    try {
+      mkdirSync(join(t.root, 'archive', '0.9.0'), { recursive: true });
+      writeFileSync(join(t.root, 'archive', '0.9.0', 'release.yaml'), 'not: [valid');
+      const tree = await loadContent(t.root);
+      expect(tree.releases.map((r) => r.release.id)).toEqual(['1.0.0', '1.1.0', '2.0.0']);
     } finally {
       t.dispose();
     }
