@@ -118,6 +118,7 @@ export function profilePlot(det: DetectorSite): PlotSpec {
   for (const row of p.rows) for (const v of row) if (v > peak) peak = v;
   const series = p.rows.map((row, i) => ({
     ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i, 700),
+    step: true,
     hidden: !shown.has(i),
   }));
   return {

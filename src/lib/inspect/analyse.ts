@@ -27,7 +27,7 @@ export function analyseBytes(bytes: Uint8Array, fileName: string): Analysis {
   const a: Analysis = { fileName, byteLength: bytes.length, kind: 'unknown', hdus: [], checks: [], arf: null, rmf: null, error: null };
   try {
     const file = readFits(bytes, { fileName, verifyChecksums: 'report' });
-    a.hdus = file.hdus.map((h) => ({ index: h.index, name: h.name, rows: h.table?.rows ?? 0 }));
+    a.hdus = file.hdus.map((h) => ({ index: h.index, name: h.name, rows: h.table?.nRows ?? 0 }));
     a.kind = identifyProduct(file) ?? 'unknown';
     try {
       if (a.kind === 'rmf') a.rmf = readRmf(file).data;

@@ -9,6 +9,7 @@ interface FjHdu { header: FjHeader; data?: FjTable }
 interface FjAstro { FITS: new (b: Blob, cb: (this: { hdus: FjHdu[] }) => void) => unknown }
 
 async function loadFitsjs(): Promise<FjAstro> {
+  // @ts-expect-error fitsjs ships no type declarations; the shape used is typed above.
   const m = (await import('fitsjs')) as unknown as { astro?: FjAstro; default?: { astro?: FjAstro } };
   const astro = m.astro ?? m.default?.astro;
   if (!astro) throw new Error('fitsjs did not load');
@@ -27,7 +28,7 @@ export async function secondOpinion(bytes: Uint8Array, extname: string | null, k
     const astro = await loadFitsjs();
     const hdus = await new Promise<FjHdu[]>((resolve, reject) => {
       try {
-        new astro.FITS(new Blob([bytes]), function (this: { hdus: FjHdu[] }) {
+        new astro.FITS(new Blob([bytes as Uint8Array<ArrayBuffer>]), function (this: { hdus: FjHdu[] }) {
           resolve(this.hdus);
         });
       } catch (e) {

@@ -5,6 +5,6 @@ export const isGzip = (b: Uint8Array): boolean => b.length > 2 && b[0] === GZIP_
 
 export async function maybeGunzip(bytes: Uint8Array): Promise<Uint8Array> {
   if (!isGzip(bytes)) return bytes;
-  const stream = new Blob([bytes]).stream().pipeThrough(new DecompressionStream('gzip'));
+  const stream = new Blob([bytes as Uint8Array<ArrayBuffer>]).stream().pipeThrough(new DecompressionStream('gzip'));
   return new Uint8Array(await new Response(stream).arrayBuffer());
 }

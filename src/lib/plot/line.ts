@@ -1,5 +1,5 @@
 /** A series as an SVG path (d3-shape line), with gaps where values are missing or off a log axis. */
-import { line } from 'd3-shape';
+import { curveLinear, curveStep, line } from 'd3-shape';
 import type { NumScale } from './scales.ts';
 import type { ScaleKind, SeriesSpec } from './spec.ts';
 
@@ -11,6 +11,7 @@ export function linePath(s: SeriesSpec, x: NumScale, y: NumScale, xKind: ScaleKi
     .defined((i) => ok(s.x[i], xKind) && ok(s.y[i], yKind))
     .x((i) => x(s.x[i]))
     .y((i) => y(s.y[i] as number))
+    .curve(s.step ? curveStep : curveLinear)
     .digits(1);
   return gen(idx) ?? '';
 }

@@ -30,6 +30,8 @@ export interface SeriesSpec {
   yErr?: (number | null)[];
   dash?: string;
   widthPx?: number;
+  /** Draw as steps centred on x (channel histograms). */
+  step?: boolean;
   /** Not drawn (the reader can switch it on, e.g. line profiles). */
   hidden?: boolean;
 }

@@ -10,5 +10,5 @@ export const getStaticPaths: GetStaticPaths = () =>
 export const GET: APIRoute = ({ params }) => {
   const det = loadSite(params.id as string).detectors.find((d) => d.id === params.det)!;
   const { width, height, rgba } = matrixPixels(det.matrix);
-  return new Response(encodePng(width, height, rgba), { headers: { 'Content-Type': 'image/png' } });
+  return new Response(new Uint8Array(encodePng(width, height, rgba)), { headers: { 'Content-Type': 'image/png' } });
 };
