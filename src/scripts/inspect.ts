@@ -9,15 +9,22 @@ const ORDER = ['fail', 'warn', 'review', 'pass'];
 const W = 640;
 const H = 280;
 
+function checksRows(checks: Check[]): string {
+  const v = (x: number | string | null) => (x === null ? '—' : typeof x === 'number' ? fmt4(x) : esc(x));
+  return checks.map((c) => `<tr><td><span class="st st-${c.status}">${c.status}</span></td><td>${esc(c.title)}<br><code class="muted">${esc(c.id)}</code></td><td class="num">${v(c.measured)}</td><td class="num">${v(c.tolerance)}</td><td>${esc(c.unit ?? '')}</td><td>${esc(c.message)}</td></tr>`).join('');
+}
+
+/** Failures, warnings and items to review first; the passes folded away (long for an RMF). */
 function checksTable(checks: Check[]): string {
   const sorted = [...checks].sort((a, b) => ORDER.indexOf(a.status) - ORDER.indexOf(b.status));
   const n = (s: string) => checks.filter((c) => c.status === s).length;
-  const v = (x: number | string | null) => (x === null ? '—' : typeof x === 'number' ? fmt4(x) : esc(x));
+  const head = '<thead><tr><th>Result</th><th>Check</th><th class="num">Measured</th><th class="num">Tolerance</th><th>Unit</th><th>Message</th></tr></thead>';
+  const open = sorted.filter((c) => c.status !== 'pass');
+  const passed = sorted.filter((c) => c.status === 'pass');
   return (
     `<p id="inspect-counts">${n('fail')} fail · ${n('warn')} warn · ${n('review')} to review · ${n('pass')} pass</p>` +
-    `<div class="table-wrap"><table class="data" id="inspect-checks"><thead><tr><th>Result</th><th>Check</th><th class="num">Measured</th><th class="num">Tolerance</th><th>Unit</th><th>Message</th></tr></thead><tbody>` +
-    sorted.map((c) => `<tr><td><span class="st st-${c.status}">${c.status}</span></td><td>${esc(c.title)}<br><code class="muted">${esc(c.id)}</code></td><td class="num">${v(c.measured)}</td><td class="num">${v(c.tolerance)}</td><td>${esc(c.unit ?? '')}</td><td>${esc(c.message)}</td></tr>`).join('') +
-    `</tbody></table></div>`
+    `<div class="table-wrap"><table class="data" id="inspect-checks">${head}<tbody>${checksRows(open)}</tbody></table></div>` +
+    (passed.length ? `<details><summary>${passed.length} passed checks</summary><div class="table-wrap"><table class="data" id="inspect-passed">${head}<tbody>${checksRows(passed)}</tbody></table></div></details>` : '')
   );
 }
 
@@ -84,13 +91,15 @@ async function handle(file: File, against: string, out: HTMLElement) {
   const parts: string[] = [`<h2>${esc(file.name)} <span class="muted">(${a.kind.toUpperCase()}, ${bytes.length} bytes uncompressed)</span></h2>`];
   if (a.error) parts.push(`<div class="callout danger" id="inspect-error"><strong>Not a readable FITS product.</strong> ${esc(a.error)}</div>`);
   if (a.hdus.length) parts.push(`<p>HDUs (Kiln reader): ${a.hdus.map((h) => `${h.index}: ${esc(h.name || 'PRIMARY')}${h.rows ? ` (${h.rows} rows)` : ''}`).join(' · ')}</p>`);
-  if (a.checks.length) parts.push('<h3>Checks (as <code>kiln check</code>)</h3>', checksTable(a.checks));
   if (!a.error) {
     try {
       parts.push('<h3>Plots</h3>', await plots(a, against));
     } catch (e) {
       parts.push(`<p class="callout">Comparison unavailable: ${esc((e as Error).message)}</p>`);
     }
+  }
+  if (a.checks.length) parts.push('<h3>Checks (as <code>kiln check</code>)</h3>', checksTable(a.checks));
+  if (!a.error) {
     const ext = a.arf ? 'SPECRESP' : a.rmf ? (a.hdus.find((h) => /MATRIX/i.test(h.name))?.name.toUpperCase() ?? 'MATRIX') : null;
     const so = await secondOpinion(bytes, ext, a.arf?.energLoKeV ?? a.rmf?.energLoKeV ?? null);
     parts.push(
