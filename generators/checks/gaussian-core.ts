@@ -27,8 +27,17 @@ export interface GaussianCore {
   points: number;
 }
 
+export interface CoreFitOptions {
+  /**
+   * "both": channels on both sides of the peak down to CORE_FRACTION. "upper": the peak and
+   * the channels above it — the side away from the low-energy tail and
+   * shelf, which otherwise pull a soft line's core low and wide (Kiln's choice).
+   */
+  side?: 'both' | 'upper';
+}
+
 /** Fits the core of row `i`. Returns null when the row has fewer than 3 usable channels near its peak. */
-export function fitRowCore(rmf: RmfData, i: number): GaussianCore | null {
+export function fitRowCore(rmf: RmfData, i: number, opts: CoreFitOptions = {}): GaussianCore | null {
   const y = denseRow(rmf, i);
   const { eMinKeV, eMaxKeV } = rmf.ebounds;
   const n = Math.min(y.length, eMinKeV.length);
@@ -45,6 +54,7 @@ export function fitRowCore(rmf: RmfData, i: number): GaussianCore | null {
   let b = kMax;
   while (a > 0 && dens[a - 1] >= floor) a--;
   while (b < n - 1 && dens[b + 1] >= floor) b++;
+  if (opts.side === 'upper') a = Math.max(a, kMax);
   if (b - a + 1 < 3) return null;
   // Centre x on the peak for conditioning.
   const x0 = 0.5 * (eMinKeV[kMax] + eMaxKeV[kMax]);
@@ -75,11 +85,11 @@ export function fitRowCore(rmf: RmfData, i: number): GaussianCore | null {
 }
 
 /** Core at an arbitrary energy: fits of the two bracketing rows, interpolated linearly. */
-export function fitCoreAt(rmf: RmfData, energyKeV: number): GaussianCore | null {
+export function fitCoreAt(rmf: RmfData, energyKeV: number, opts: CoreFitOptions = {}): GaussianCore | null {
   const br = bracket(rmf.energLoKeV, rmf.energHiKeV, energyKeV);
-  const f0 = fitRowCore(rmf, br.i0);
+  const f0 = fitRowCore(rmf, br.i0, opts);
   if (br.i1 === br.i0 || br.t === 0) return f0;
-  const f1 = fitRowCore(rmf, br.i1);
+  const f1 = fitRowCore(rmf, br.i1, opts);
   if (!f0 || !f1) return null;
   const t = br.t;
   return {

@@ -11,4 +11,5 @@ export * from './arf.ts';
 export * from './resolution.ts';
 export * from './profile.ts';
 export * from './escape.ts';
+export * from './escape-inputs.ts';
 export * from './interp.ts';

@@ -1,0 +1,313 @@
+/**
+ * kiln build: content → validated inputs → products → checks → site data, written atomically.
+ *
+ *   1. load and validate the content tree (any input error stops the build, nothing written);
+ *   2. for each release, oldest first: serve a published release from its archive after checking
+ *      its inputs and every archived byte; build every other release on worker threads;
+ *   3. compare each built release with the one before it (differences flagged for review);
+ *   4. refuse the whole build when a candidate release fails a check; a draft shows its failures;
+ *   5. swap the complete output tree into place.
+ */
+import { gzipSync } from 'node:zlib';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { loadContent } from '../content/index.ts';
+import type { ContentTree, ResolvedRelease } from '../content/types.ts';
+import { KilnInputError } from '../errors.ts';
+import type {
+  Check,
+  InstrumentSummary,
+  ManifestFile,
+  ProductSummary,
+  ReleaseIndex,
+  ReleaseManifest,
+  ReleaseSite,
+  ReleaseSummary,
+  ValidationReport,
+} from '../site-data/types.ts';
+import { countStatuses } from '../checks/index.ts';
+import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.ts';
+import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
+import { crossReleaseChecks } from './cross-release.ts';
+import { sha256Hex } from './hash.ts';
+import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
+import { JobPool, defaultWorkerCount } from './pool.ts';
+import type { DetectorJobResult } from './run-job.ts';
+
+/** gzip level of product files: the smallest files; speed matters little next to the model (zlib's 9). */
+const GZIP_LEVEL = 9;
+/** Statuses whose products are frozen in the archive. */
+const FROZEN_STATUSES = new Set(['published', 'superseded']);
+
+export interface BuildOptions {
+  contentDir: string;
+  outDir: string;
+  workers?: number;
+  /** Progress lines (to the terminal). */
+  log?: (line: string) => void;
+  /**
+   * Publishing: build releases up to and including this id only, and build this one from its
+   * inputs even if its status is already published (it has no archive yet).
+   */
+  publishing?: string;
+}
+
+export interface ReleaseOutcome {
+  id: string;
+  status: string;
+  source: 'built' | 'archive';
+  files: number;
+  checks: ReturnType<typeof countStatuses>;
+  failures: Check[];
+}
+
+export interface BuildSummary {
+  outDir: string;
+  releases: ReleaseOutcome[];
+  products: number;
+  nnz: number;
+}
+
+/** A candidate (or published) release failed checks: the build is refused, nothing is written. */
+export class BuildRefused extends Error {
+  readonly outcomes: ReleaseOutcome[];
+  constructor(message: string, outcomes: ReleaseOutcome[]) {
+    super(message);
+    this.name = 'BuildRefused';
+    this.outcomes = outcomes;
+  }
+}
+
+function json(value: unknown): string {
+  return JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 0) + '\n';
+}
+
+function writeJson(path: string, value: unknown): void {
+  writeFileSync(path, json(value));
+}
+
+export function gzipProduct(fits: Uint8Array): Uint8Array {
+  // Node's gzip writes MTIME 0 and a fixed OS byte: identical input gives identical bytes.
+  return new Uint8Array(gzipSync(fits, { level: GZIP_LEVEL }));
+}
+
+function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
+  return content.instruments.map((i) => ({
+    id: i.id,
+    telescope: i.telescope,
+    instrument: i.instrument,
+    title: i.title,
+    description: i.description,
+    channels: i.channels.count,
+    detectors: i.detectors.map((d) => ({ id: d.id, name: d.name, kind: d.kind, description: d.description })),
+  }));
+}
+
+/** Checks that the frozen release still has the inputs it was published from. */
+function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
+  const now = inputsSha256(r);
+  if (now === seal.inputsSha256) return;
+  const files = inputFileHashes(r);
+  const changed = Object.keys({ ...files, ...seal.inputFiles })
+    .filter((p) => files[p] !== seal.inputFiles[p])
+    .sort();
+  throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
+    file: r.release.file,
+    value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
+    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — put changes into a new release`,
+  });
+}
+
+interface ReleaseWork {
+  r: ResolvedRelease;
+  dir: string;
+  outcome: ReleaseOutcome;
+  products: ProductSummary[];
+}
+
+function releaseSummary(w: ReleaseWork): ReleaseSummary {
+  const rel = w.r.release;
+  const c = w.outcome.checks;
+  return {
+    id: rel.id,
+    instrument: rel.instrument,
+    title: rel.title,
+    date: rel.date,
+    status: rel.status,
+    validFrom: rel.validFrom,
+    validTo: rel.validTo,
+    supersedes: rel.supersedes,
+    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
+    products: w.products,
+  };
+}
+
+function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, unknown>): ReleaseManifest {
+  const rel = w.r.release;
+  const files: ManifestFile[] = w.products.map((p) => ({
+    path: p.path,
+    bytes: p.bytes,
+    sha256: p.sha256,
+    kind: p.kind,
+    detector: p.detector,
+    epoch: p.epoch,
+    validFrom: p.validFrom,
+    validTo: p.validTo,
+  }));
+  return {
+    schema: 'kiln/release-manifest/1',
+    release: rel.id,
+    instrument: rel.instrument,
+    status: rel.status,
+    date: rel.date,
+    validFrom: rel.validFrom,
+    validTo: rel.validTo,
+    inputsSha256: inputs,
+    parameters,
+    files,
+  };
+}
+
+/** Serves a frozen release from its archive into `dir`. */
+function serveArchive(content: ContentTree, r: ResolvedRelease, dir: string): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite } {
+  const seal = readSeal(content.root, r.release.id);
+  verifyFrozenInputs(r, seal);
+  const bytes = readVerifiedArchive(content.root, seal);
+  const site = JSON.parse(new TextDecoder().decode(bytes.get('site.json')!)) as ReleaseSite;
+  const report = JSON.parse(new TextDecoder().decode(bytes.get('validation.json')!)) as ValidationReport;
+  mkdirSync(join(dir, 'files'), { recursive: true });
+  for (const [path, b] of bytes) if (path.startsWith('files/')) writeFileSync(join(dir, path), b);
+  // Status, title and notes may change after publishing; the products and numbers may not.
+  const rel = r.release;
+  const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
+  writeJson(join(dir, 'site.json'), current);
+  writeJson(join(dir, 'validation.json'), report);
+  return { products: site.products, checks: report.checks, site };
+}
+
+function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSummary[] {
+  mkdirSync(join(dir, 'files'), { recursive: true });
+  const products: ProductSummary[] = [];
+  for (const res of results)
+    for (const f of res.files) {
+      const gz = gzipProduct(f.fits);
+      const path = `files/${f.name}`;
+      writeFileSync(join(dir, path), gz);
+      products.push({ id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: gz.length, sha256: sha256Hex(gz), validFrom: f.validFrom, validTo: f.validTo });
+    }
+  return products;
+}
+
+export async function build(opts: BuildOptions): Promise<BuildSummary> {
+  const log = opts.log ?? (() => {});
+  const content = await loadContent(opts.contentDir);
+  if (opts.publishing !== undefined) {
+    const at = content.releases.findIndex((r) => r.release.id === opts.publishing);
+    if (at < 0)
+      throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
+    content.releases.splice(at + 1);
+  }
+  const isFrozen = (r: ResolvedRelease) =>
+    r.release.id !== opts.publishing && (FROZEN_STATUSES.has(r.release.status) || (r.release.status === 'withdrawn' && hasArchive(content.root, r.release.id)));
+  // Check every frozen release before any work: a tampered archive stops the build at once.
+  for (const r of content.releases) {
+    if (r.release.id === opts.publishing) continue;
+    const frozen = FROZEN_STATUSES.has(r.release.status);
+    if (frozen && !hasArchive(content.root, r.release.id))
+      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
+        file: r.release.file,
+        field: 'status',
+        value: r.release.status,
+        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
+      });
+    if (frozen) verifyFrozenInputs(r, readSeal(content.root, r.release.id));
+  }
+
+  recoverInterruptedSwap(opts.outDir);
+  removeStaleStaging(opts.outDir);
+  const staging = stagingDir(opts.outDir);
+  const pool = new JobPool(opts.workers ?? defaultWorkerCount());
+  const works: ReleaseWork[] = [];
+  let nnz = 0;
+  try {
+    for (const r of content.releases) {
+      const rel = r.release;
+      const dir = join(staging, 'releases', rel.id);
+      mkdirSync(dir, { recursive: true });
+      const inputs = inputsSha256(r);
+      const frozen = isFrozen(r);
+      let products: ProductSummary[];
+      let checks: Check[];
+      let parameters: Record<string, unknown> = {};
+      if (frozen) {
+        const served = serveArchive(content, r, dir);
+        ({ products, checks } = served);
+        parameters = { rows: served.site.parameters };
+        log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
+      } else {
+        const jobs = jobsOf(r);
+        const t0 = performance.now();
+        let done = 0;
+        const results = await pool.run(jobs, (res) => {
+          done++;
+          log(`release ${rel.id} (${rel.status}): detector ${res.detectorId} built, ${res.files.length} products, ${res.nnz} matrix elements [${done}/${jobs.length}, ${((performance.now() - t0) / 1000).toFixed(1)} s]`);
+        });
+        products = writeBuiltFiles(dir, results);
+        checks = results.flatMap((x) => x.checks);
+        nnz += results.reduce((s, x) => s + x.nnz, 0);
+        const prev = works.length ? works[works.length - 1] : null;
+        if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
+        const site: ReleaseSite = {
+          schema: 'kiln/release-site/1',
+          id: rel.id,
+          instrument: rel.instrument,
+          title: rel.title,
+          date: rel.date,
+          status: rel.status,
+          validFrom: rel.validFrom,
+          validTo: rel.validTo,
+          supersedes: rel.supersedes,
+          notesMarkdown: rel.notesMarkdown,
+          parameters: results.flatMap((x) => x.parameters),
+          detectors: results.map((x) => x.site),
+          products,
+        };
+        parameters = Object.fromEntries(results.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
+        writeJson(join(dir, 'site.json'), site);
+        const report: ValidationReport = { schema: 'kiln/validation/1', release: rel.id, checks };
+        writeJson(join(dir, 'validation.json'), report);
+      }
+      const counts = countStatuses(checks);
+      const work: ReleaseWork = {
+        r,
+        dir,
+        products,
+        outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
+      };
+      writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
+      works.push(work);
+      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review`);
+    }
+  } catch (e) {
+    await pool.close();
+    removeStaleStaging(opts.outDir);
+    throw e;
+  }
+  await pool.close();
+
+  const refused = works.filter((w) => w.outcome.failures.length > 0 && w.r.release.status !== 'draft' && w.outcome.source === 'built');
+  if (refused.length) {
+    removeStaleStaging(opts.outDir);
+    const lines = refused.map((w) => `release ${w.outcome.id} (${w.outcome.status}) fails ${w.outcome.failures.length} checks: ${w.outcome.failures.slice(0, 8).map((c) => `${c.id}${c.product ? ` [${c.product}]` : ''}`).join(', ')}${w.outcome.failures.length > 8 ? ', …' : ''}`);
+    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown)`, works.map((w) => w.outcome));
+  }
+
+  const index: ReleaseIndex = {
+    schema: 'kiln/release-index/1',
+    instruments: instrumentSummaries(content),
+    releases: works.map(releaseSummary).reverse(),
+  };
+  writeJson(join(staging, 'index.json'), index);
+  swapInto(staging, opts.outDir);
+  return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz };
+}

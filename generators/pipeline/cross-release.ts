@@ -1,0 +1,39 @@
+/**
+ * Cross-release review: each detector's products against the release before it. Differences
+ * beyond the stated tolerances (generators/checks/tolerances.ts) get status "review": a
+ * reviewer must accept them; they never fail a build.
+ */
+import { join } from 'node:path';
+import { compareArf, compareRmf } from '../checks/index.ts';
+import { readArf, readRmf } from '../ogip/index.ts';
+import { readFitsFile } from '../node/index.ts';
+import type { Check, ProductSummary } from '../site-data/types.ts';
+import type { ArfData, RmfData } from '../response/types.ts';
+
+function rmfAt(dir: string, p: ProductSummary): RmfData {
+  return readRmf(readFitsFile(join(dir, p.path))).data;
+}
+function arfAt(dir: string, p: ProductSummary): ArfData {
+  return readArf(readFitsFile(join(dir, p.path))).data;
+}
+
+/** The older release's ARF of the detector valid on `date`, else its latest. */
+function olderArfFor(older: ProductSummary[], detector: string, date: string): ProductSummary | undefined {
+  const arfs = older.filter((p) => p.kind === 'arf' && p.detector === detector).sort((a, b) => a.validFrom.localeCompare(b.validFrom));
+  return arfs.find((p) => p.validFrom <= date && (p.validTo === null || date < p.validTo)) ?? arfs[arfs.length - 1];
+}
+
+export function crossReleaseChecks(olderDir: string, older: ProductSummary[], olderId: string, newerDir: string, newer: ProductSummary[], newerId: string): Check[] {
+  const checks: Check[] = [];
+  const label = `${olderId} → ${newerId}`;
+  for (const p of newer) {
+    if (p.kind === 'rmf') {
+      const o = older.find((q) => q.kind === 'rmf' && q.detector === p.detector);
+      if (o) checks.push(...compareRmf(rmfAt(olderDir, o), rmfAt(newerDir, p), p.id, { label }));
+    } else if (p.kind === 'arf') {
+      const o = olderArfFor(older, p.detector, p.validFrom);
+      if (o) checks.push(...compareArf(arfAt(olderDir, o), arfAt(newerDir, p), p.id, { label: `${label} (${o.epoch} → ${p.epoch})` }));
+    }
+  }
+  return checks.map((c) => ({ ...c, id: c.id.startsWith('compare.') ? `review.${c.id.slice('compare.'.length)}` : c.id }));
+}

@@ -1,0 +1,51 @@
+/**
+ * What a release's products are made from, and its fingerprint. The fingerprint covers the model
+ * (resolved stack, redistribution spec, line fits, grids, mirror table, epochs, validity,
+ * product list) and not the release's status, title or notes: a published release may later be
+ * marked superseded or withdrawn, or its notes corrected, without touching its products.
+ */
+import type { ResolvedRelease } from '../content/types.ts';
+import { canonicalJson, sha256Hex } from './hash.ts';
+import type { DetectorJob } from './job.ts';
+
+/** Bump when the meaning of the fingerprinted fields changes (not when code changes: archives keep their bytes). */
+export const INPUTS_SCHEMA = 'kiln/inputs/1';
+
+export function jobsOf(r: ResolvedRelease): DetectorJob[] {
+  const { release, instrument } = r;
+  return r.detectors.map((detector) => ({
+    release: { id: release.id, date: release.date, validFrom: release.validFrom, validTo: release.validTo, products: [...release.products] },
+    instrument: {
+      id: instrument.id,
+      telescope: instrument.telescope,
+      instrument: instrument.instrument,
+      channels: instrument.channels,
+      energyGrid: instrument.energyGrid,
+      mirror: { energyKeV: instrument.mirror.energyKeV, areaCm2: instrument.mirror.areaCm2, file: instrument.mirror.file },
+    },
+    detector,
+  }));
+}
+
+/** The fingerprinted view of a release: jobs without file paths (moving the content tree changes nothing). */
+function fingerprintView(r: ResolvedRelease): unknown {
+  return {
+    schema: INPUTS_SCHEMA,
+    jobs: jobsOf(r).map((j) => ({
+      release: j.release,
+      instrument: { ...j.instrument, mirror: { energyKeV: j.instrument.mirror.energyKeV, areaCm2: j.instrument.mirror.areaCm2 } },
+      detector: { ...j.detector, lineFitsFile: undefined },
+    })),
+  };
+}
+
+export function inputsSha256(r: ResolvedRelease): string {
+  return sha256Hex(canonicalJson(fingerprintView(r)));
+}
+
+/** SHA-256 of each input file (content-relative path → hex), to name what changed. */
+export function inputFileHashes(r: ResolvedRelease): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const f of r.inputs) out[f.path] = sha256Hex(f.bytes);
+  return out;
+}

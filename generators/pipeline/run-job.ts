@@ -1,0 +1,34 @@
+/** One detector job end to end: products, their checks and their site data. Pure. */
+import type { Check, DetectorSite, ParameterRow } from '../site-data/types.ts';
+import type { FitResult } from '../fit/index.ts';
+import type { BuiltFile, DetectorJob } from './job.ts';
+import { buildDetectorProducts } from './product.ts';
+import { detectorSite } from './site-detector.ts';
+import { validateDetector } from './validate.ts';
+
+export interface DetectorJobResult {
+  releaseId: string;
+  detectorId: string;
+  files: BuiltFile[];
+  checks: Check[];
+  site: DetectorSite;
+  parameters: ParameterRow[];
+  fits: { fwhm: FitResult | null; centroid: FitResult | null };
+  nnz: number;
+}
+
+export function runDetectorJob(job: DetectorJob): DetectorJobResult {
+  const built = buildDetectorProducts(job);
+  const checks = validateDetector(job, built);
+  const { site, parameters, fits } = detectorSite(job, built);
+  return {
+    releaseId: job.release.id,
+    detectorId: job.detector.id,
+    files: built.files,
+    checks,
+    site,
+    parameters,
+    fits,
+    nnz: built.redistribution.nnz,
+  };
+}

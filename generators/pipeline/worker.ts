@@ -1,0 +1,25 @@
+/** Worker-thread side of the job pool: runs detector jobs sent by the main thread. */
+import { parentPort } from 'node:worker_threads';
+import { isInputError } from '../errors.ts';
+import type { DetectorJob } from './job.ts';
+import { runDetectorJob } from './run-job.ts';
+
+if (!parentPort) throw new Error('generators/pipeline/worker.ts must run in a worker thread');
+const port = parentPort;
+
+port.on('message', (msg: { seq: number; job: DetectorJob }) => {
+  try {
+    const result = runDetectorJob(msg.job);
+    port.postMessage({ seq: msg.seq, ok: true, result }, result.files.map((f) => f.fits.buffer as ArrayBuffer));
+  } catch (e) {
+    const input = isInputError(e);
+    port.postMessage({
+      seq: msg.seq,
+      ok: false,
+      input,
+      message: e instanceof Error ? e.message : String(e),
+      where: input ? e.where : undefined,
+      stack: e instanceof Error ? e.stack : undefined,
+    });
+  }
+});
