@@ -213,7 +213,8 @@ function parameterRows(job: DetectorJob, fwhmFit: FitResult | null, centroidFit:
   if (fwhmFit) {
     add(res, 'read noise, fitted to line widths', 'N_r', 'e⁻ RMS', fwhmFit.params.readNoiseE, fwhmFit.errors.readNoiseE, 'fit');
     add(res, 'Fano factor, fitted to line widths', 'F', '', fwhmFit.params.fano, fwhmFit.errors.fano, 'fit');
-    add(res, `FWHM law fit χ² (${fwhmFit.dof} dof)`, 'χ²', '', fwhmFit.chi2, null, 'fit');
+    add(res, 'FWHM law fit χ²', 'χ²', '', fwhmFit.chi2, null, 'fit');
+    add(res, 'FWHM law fit degrees of freedom', 'dof', '', fwhmFit.dof, null, 'fit');
   }
   const es = 'energy scale';
   const c = spec.centroid;
@@ -228,7 +229,8 @@ function parameterRows(job: DetectorJob, fwhmFit: FitResult | null, centroidFit:
     add(es, 'offset, fitted to centroids', null, 'eV', centroidFit.params.offsetEv, centroidFit.errors.offsetEv, 'fit');
     if (centroidFit.free.includes('chargeLossEv'))
       add(es, 'surface charge loss, fitted', null, 'eV', centroidFit.params.chargeLossEv, centroidFit.errors.chargeLossEv, 'fit');
-    add(es, `centroid law fit χ² (${centroidFit.dof} dof)`, 'χ²', '', centroidFit.chi2, null, 'fit');
+    add(es, 'centroid law fit χ²', 'χ²', '', centroidFit.chi2, null, 'fit');
+    add(es, 'centroid law fit degrees of freedom', 'dof', '', centroidFit.dof, null, 'fit');
   }
   const pr = 'profile';
   if (spec.tail.source === 'law') {

@@ -1,0 +1,26 @@
+/** kiln compare: thin shell over generators/pipeline/compare-releases.ts and generators/compare/. */
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { formatCompareText, needsReview } from '../compare/index.ts';
+import { compareFiles, compareReleases } from '../pipeline/compare-releases.ts';
+import { optFlag, optString, type CommandSpec } from './args.ts';
+import { DEFAULT_OUT_DIR } from './build.ts';
+
+export const command: CommandSpec = {
+  name: 'compare',
+  summary:
+    'Compare two releases (ids, from a build) or two RMF/ARF files: effective-area ratios and differences of width, centroid and row sums per energy, and parameter changes. Exit 0 when every difference is within the review tolerances, 1 when some need review, 2 on bad input.',
+  usage: 'kiln compare A B [--out DIR] [--json]',
+  positionals: { min: 2, max: 2, names: 'A B (two release ids or two files)' },
+  options: [
+    { name: 'out', arg: 'DIR', help: `build output holding the releases (default ${DEFAULT_OUT_DIR})` },
+    { name: 'json', help: 'print the report as JSON (schema kiln/compare/1)' },
+  ],
+  async run(args) {
+    const [a, b] = args.positionals;
+    const asFiles = existsSync(a) && existsSync(b) && !/^\d+\.\d+\.\d+/.test(a);
+    const report = asFiles ? compareFiles(a, b) : compareReleases(resolve(optString(args, 'out') ?? DEFAULT_OUT_DIR), a, b);
+    process.stdout.write(optFlag(args, 'json') ? JSON.stringify(report, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n' : formatCompareText(report) + '\n');
+    return needsReview(report) ? 1 : 0;
+  },
+};

@@ -1,0 +1,3 @@
+export * from './tables.ts';
+export * from './parameters.ts';
+export * from './report.ts';

@@ -1,0 +1,79 @@
+/**
+ * kiln compare: two release ids (read from a build's output) or two product files. Node layer:
+ * reads the files, then hands the data to the pure tables in generators/compare/.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { basename, join } from 'node:path';
+import { compareArf, compareRmf } from '../checks/index.ts';
+import { arfDiffTable, parameterDiffs, rmfDiffTable, type ComparedPair, type CompareReport } from '../compare/index.ts';
+import { KilnInputError } from '../errors.ts';
+import { readFitsFile } from '../node/index.ts';
+import { identifyProduct, readArf, readRmf } from '../ogip/index.ts';
+import type { ProductSummary, ReleaseSite } from '../site-data/types.ts';
+
+function readSite(outDir: string, id: string): ReleaseSite {
+  const file = join(outDir, 'releases', id, 'site.json');
+  if (!existsSync(file))
+    throw new KilnInputError(`release ${id} not found in the build output`, { file, value: id, expected: 'a release id built by `kiln build` (or two FITS files)' });
+  return JSON.parse(readFileSync(file, 'utf8')) as ReleaseSite;
+}
+
+function arfValidOn(list: ProductSummary[], detector: string, date: string): ProductSummary | undefined {
+  const arfs = list.filter((p) => p.kind === 'arf' && p.detector === detector).sort((x, y) => x.validFrom.localeCompare(y.validFrom));
+  return arfs.find((p) => p.validFrom <= date && (p.validTo === null || date < p.validTo)) ?? arfs[arfs.length - 1];
+}
+
+export function compareReleases(outDir: string, idA: string, idB: string): CompareReport {
+  const A = readSite(outDir, idA);
+  const B = readSite(outDir, idB);
+  const dir = (id: string) => join(outDir, 'releases', id);
+  const pairs: ComparedPair[] = [];
+  const unmatched: string[] = [];
+  for (const pb of B.products) {
+    if (pb.kind === 'rsp') continue;
+    const pa = pb.kind === 'rmf' ? A.products.find((p) => p.kind === 'rmf' && p.detector === pb.detector) : arfValidOn(A.products, pb.detector, pb.validFrom);
+    if (!pa) {
+      unmatched.push(`${idB}:${pb.id}`);
+      continue;
+    }
+    const label = pb.kind === 'rmf' ? `${pb.detector} RMF` : `${pb.detector} ARF (${pa.epoch} → ${pb.epoch})`;
+    if (pb.kind === 'rmf') {
+      const a = readRmf(readFitsFile(join(dir(idA), pa.path))).data;
+      const b = readRmf(readFitsFile(join(dir(idB), pb.path))).data;
+      pairs.push({ label, detector: pb.detector, a: `${idA}:${pa.id}`, b: `${idB}:${pb.id}`, kind: 'rmf', rmf: rmfDiffTable(a, b), checks: compareRmf(a, b, pb.id) });
+    } else {
+      const a = readArf(readFitsFile(join(dir(idA), pa.path))).data;
+      const b = readArf(readFitsFile(join(dir(idB), pb.path))).data;
+      pairs.push({ label, detector: pb.detector, a: `${idA}:${pa.id}`, b: `${idB}:${pb.id}`, kind: 'arf', arf: arfDiffTable(a, b), checks: compareArf(a, b, pb.id) });
+    }
+  }
+  for (const pa of A.products)
+    if (pa.kind !== 'rsp' && !B.products.some((p) => p.kind === pa.kind && p.detector === pa.detector)) unmatched.push(`${idA}:${pa.id}`);
+  return { schema: 'kiln/compare/1', a: idA, b: idB, pairs, parameters: parameterDiffs(A.parameters, B.parameters), unmatched };
+}
+
+export function compareFiles(fileA: string, fileB: string): CompareReport {
+  const fa = readFitsFile(fileA);
+  const fb = readFitsFile(fileB);
+  const ka = identifyProduct(fa);
+  const kb = identifyProduct(fb);
+  const a = basename(fileA);
+  const b = basename(fileB);
+  if (!ka || !kb || ka !== kb || ka === 'pha')
+    throw new KilnInputError('files are not two response products of the same kind', {
+      file: !ka || ka === 'pha' ? fileA : fileB,
+      value: `${ka ?? 'unknown'} and ${kb ?? 'unknown'}`,
+      expected: 'two RMFs or two ARFs',
+    });
+  let pair: ComparedPair;
+  if (ka === 'rmf') {
+    const ra = readRmf(fa).data;
+    const rb = readRmf(fb).data;
+    pair = { label: 'RMF', detector: null, a, b, kind: 'rmf', rmf: rmfDiffTable(ra, rb), checks: compareRmf(ra, rb, b) };
+  } else {
+    const ra = readArf(fa).data;
+    const rb = readArf(fb).data;
+    pair = { label: 'ARF', detector: null, a, b, kind: 'arf', arf: arfDiffTable(ra, rb), checks: compareArf(ra, rb, b) };
+  }
+  return { schema: 'kiln/compare/1', a, b, pairs: [pair], parameters: [], unmatched: [] };
+}
