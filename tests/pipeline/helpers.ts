@@ -1,0 +1,110 @@
+/**
+ * Helpers for the release-pipeline tests: scratch copies of the demo content, the kiln CLI as a
+ * child process (cwd = repository root), and byte-level snapshots of output trees.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { createHash } from 'node:crypto';
+import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, relative } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const REPO = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
+export const DEMO_CONTENT = join(REPO, 'content');
+export const KILN = join(REPO, 'bin', 'kiln.mjs');
+
+export interface CliResult {
+  status: number | null;
+  signal: NodeJS.Signals | null;
+  stdout: string;
+  stderr: string;
+}
+
+/** `node bin/kiln.mjs ARGS...` from the repository root. */
+export function kiln(...args: string[]): CliResult {
+  const r = spawnSync(process.execPath, [KILN, ...args], { cwd: REPO, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+  return { status: r.status, signal: r.signal, stdout: r.stdout, stderr: r.stderr };
+}
+
+/** The same, not waited for (crash tests). */
+export function kilnAsync(...args: string[]): ChildProcess {
+  return spawn(process.execPath, [KILN, ...args], { cwd: REPO, stdio: ['ignore', 'pipe', 'pipe'] });
+}
+
+/** A fresh temporary workspace holding a copy of the demo content at `<ws>/content`. */
+export interface Workspace {
+  dir: string;
+  content: string;
+  out: string;
+  path(rel: string): string;
+  read(rel: string): string;
+  write(rel: string, text: string): void;
+  /** Replaces the first occurrence of `from`, which must exist (a missed edit would test nothing). */
+  replace(rel: string, from: string | RegExp, to: string): void;
+  dispose(): void;
+}
+
+export function workspace(): Workspace {
+  const dir = mkdtempSync(join(tmpdir(), 'kiln-pipeline-'));
+  const content = join(dir, 'content');
+  cpSync(DEMO_CONTENT, content, { recursive: true });
+  const ws: Workspace = {
+    dir,
+    content,
+    out: join(dir, 'out'),
+    path: (rel) => join(content, rel),
+    read: (rel) => readFileSync(join(content, rel), 'utf8'),
+    write: (rel, text) => writeFileSync(join(content, rel), text),
+    replace(rel, from, to) {
+      const t = ws.read(rel);
+      const found = typeof from === 'string' ? t.includes(from) : from.test(t);
+      if (!found) throw new Error(`test setup: ${String(from)} not found in ${rel}`);
+      ws.write(rel, t.replace(from, to));
+    },
+    dispose: () => rmSync(dir, { recursive: true, force: true }),
+  };
+  return ws;
+}
+
+/** Every file under `root` (relative path → bytes), sorted by path. */
+export function readTree(root: string): Map<string, Buffer> {
+  const out = new Map<string, Buffer>();
+  const walk = (d: string) => {
+    for (const name of readdirSync(d).sort()) {
+      const p = join(d, name);
+      if (statSync(p).isDirectory()) walk(p);
+      else out.set(relative(root, p).split('\\').join('/'), readFileSync(p));
+    }
+  };
+  walk(root);
+  return out;
+}
+
+/** Relative path → SHA-256 of every file under `root` (compact comparison of whole trees). */
+export function treeDigest(root: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [p, b] of readTree(root)) out[p] = sha256(b);
+  return out;
+}
+
+export function sha256(b: Uint8Array): string {
+  return createHash('sha256').update(b).digest('hex');
+}
+
+/** Staging directories of builds into `out` left in its parent (atomic.ts naming: .<base>.staging-<pid>). */
+export function stagingLeft(out: string): string[] {
+  const parent = dirname(out);
+  if (!existsSync(parent)) return [];
+  return readdirSync(parent).filter((n) => n.includes('.staging-') || n.endsWith('.previous'));
+}
+
+/**
+ * A user-mistake report: exactly one non-empty line, no stack trace ("    at " frames are what
+ * Node prints for an uncaught error — common practice, no source).
+ */
+export function expectOneLine(stderr: string): string {
+  const lines = stderr.split('\n').filter((l) => l.trim() !== '');
+  if (lines.some((l) => /^\s+at /.test(l))) throw new Error(`stack trace on stderr:\n${stderr}`);
+  if (lines.length !== 1) throw new Error(`expected one line on stderr, got ${lines.length}:\n${stderr}`);
+  return lines[0];
+}
