@@ -10,7 +10,7 @@ import { optFlag, type CommandSpec, type ParsedArgs } from './args.ts';
 
 export const command: CommandSpec = {
   name: 'check',
-  summary: 'validate RMF, ARF or PHA files (any origin) against the OGIP layouts and numeric rules',
+  summary: 'Validate RMF, ARF or PHA files (any origin) against the OGIP layouts and numeric rules. Exit 0 clean, 1 findings, 2 unreadable file or bad usage.',
   usage: 'kiln check FILE... [--json] [--failures]',
   options: [
     { name: 'json', help: 'print a JSON report instead of text' },

@@ -104,7 +104,7 @@ export async function runEfficiency(args: ParsedArgs, load: InstrumentLoader = l
 
 export const command: CommandSpec = {
   name: 'efficiency',
-  summary: 'print the transmission of every layer, the sensor absorption and the total efficiency of a detector',
+  summary: 'Print the transmission of every layer, the sensor absorption and the total efficiency of a detector',
   usage: 'kiln efficiency --instrument FILE --detector ID --energies LIST [--date YYYY-MM-DD] [--json]',
   options: [
     { name: 'instrument', arg: 'FILE', help: 'instrument description file' },

@@ -62,7 +62,7 @@ export function describeFile(file: FitsFile): string {
 
 export const command: CommandSpec = {
   name: 'inspect',
-  summary: 'print the HDUs, key header values and columns of a FITS file',
+  summary: 'Print the HDUs, key header values and columns of a FITS file. Exit 0 readable, 1 checksum mismatch, 2 unreadable.',
   usage: 'kiln inspect FILE',
   options: [],
   positionals: { min: 1, max: 1, names: 'FILE' },
