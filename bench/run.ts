@@ -1,0 +1,204 @@
+/**
+ * `npm run bench`: every case in its own child process (so peak RSS is the case's own), each
+ * followed by its floor (FITS checksum + SHA-256 + fsync'd write of the same bytes), then the
+ * targets. One JSON line per case, one JSON line per target. Asserts nothing: a missed target is
+ * reported, not an error; only a case that crashes makes the exit code non-zero.
+ *
+ *   npm run bench [-- --only rmf-4096x8192,arf-8192] [--no-site] [--cpu-prof] [--keep]
+ *
+ * --cpu-prof writes V8 CPU profiles of the model cases into the temp directory (kept).
+ * The site case runs `npm run build` in the repository: it rewrites .kiln/out and dist/.
+ */
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { ARF_CASE, CASE_NAMES, RMF_CASES, SITE_CASE } from './cases.ts';
+import { filesUnder, totalSize } from './io.ts';
+import { round, type CaseResult } from './measure.ts';
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+/** GNU time reports the children's user/sys CPU and the peak RSS of the largest descendant. */
+const GNU_TIME = '/usr/bin/time';
+/** What the site build writes: the kiln build output (generators/cli/build.ts DEFAULT_OUT_DIR) and the Astro site. */
+const SITE_OUTPUTS = ['.kiln/out', 'dist'];
+const BYTES_PER_MB = 1024 * 1024;
+
+/** Targets (the issue's, for a 2-core machine). */
+const TARGET_FLOOR_RATIO = 4;
+const TARGET_FLOOR_CASE = 'rmf-4096x8192';
+const TARGET_RSS_PER_OUTPUT_BYTE = 2;
+const TARGET_RSS_ALLOWANCE_MB = 200;
+/** Linear cost: ns per stored element of the three sizes within this max/min ratio (our reading of "linear"). */
+const TARGET_NS_PER_NNZ_SPREAD = 1.5;
+const TARGET_SITE_S = 60;
+
+interface Options {
+  only: Set<string>;
+  site: boolean;
+  cpuProf: boolean;
+  keep: boolean;
+}
+
+function parseArgs(argv: string[]): Options {
+  const o: Options = { only: new Set(CASE_NAMES), site: true, cpuProf: false, keep: false };
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i];
+    if (a === '--only') {
+      const names = (argv[++i] ?? '').split(',').filter(Boolean);
+      const unknown = names.filter((n) => !CASE_NAMES.includes(n));
+      if (unknown.length) fail(`unknown case(s) ${unknown.join(', ')}; cases: ${CASE_NAMES.join(', ')}`);
+      o.only = new Set(names);
+    } else if (a === '--no-site') o.site = false;
+    else if (a === '--cpu-prof') o.cpuProf = o.keep = true;
+    else if (a === '--keep') o.keep = true;
+    else fail(`unknown option ${a}; options: --only <cases>, --no-site, --cpu-prof, --keep`);
+  }
+  if (!o.site) o.only.delete(SITE_CASE.name);
+  return o;
+}
+
+function fail(message: string): never {
+  console.error(`bench: ${message}`);
+  process.exit(2);
+}
+
+/** Runs a bench script in a fresh Node process; returns its last JSON line. */
+function runNode(script: string, args: string[], nodeFlags: string[] = []): Record<string, unknown> {
+  const r = spawnSync(process.execPath, [...nodeFlags, '--import', 'tsx', join(ROOT, 'bench', script), ...args], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    maxBuffer: 64 * BYTES_PER_MB,
+  });
+  if (r.status !== 0) throw new Error(`${script} ${args[0]} exited with ${r.status ?? r.signal}:\n${r.stderr}`);
+  const line = r.stdout.trim().split('\n').filter((l) => l.startsWith('{')).pop();
+  if (!line) throw new Error(`${script} ${args[0]} printed no result:\n${r.stdout}\n${r.stderr}`);
+  return JSON.parse(line);
+}
+
+function floorOf(name: string, files: string[], tmp: string): { floorS: number; phases: Record<string, number> } {
+  const list = join(tmp, `${name}.floor-list`);
+  writeFileSync(list, files.join('\n') + '\n');
+  const f = runNode('floor.ts', [name, join(tmp, `${name}.floor.bin`), `@${list}`]);
+  rmSync(join(tmp, `${name}.floor.bin`), { force: true });
+  return { floorS: f.floorS as number, phases: f.phases as Record<string, number> };
+}
+
+interface Line {
+  case: string;
+  wallS: number;
+  cpuS: number | null;
+  peakRssMB: number | null;
+  bytesWritten: number;
+  nnz: number | null;
+  nsPerNnz: number | null;
+  floorS: number;
+  ratioToFloor: number;
+  phases: Record<string, number>;
+  floorPhases: Record<string, number>;
+  [extra: string]: unknown;
+}
+
+function modelCase(name: string, tmp: string, o: Options): Line {
+  const flags = o.cpuProf ? ['--cpu-prof', '--cpu-prof-dir', join(tmp, 'profiles'), '--cpu-prof-name', `${name}.cpuprofile`] : [];
+  const r = runNode('case.ts', [name, tmp], flags) as unknown as CaseResult;
+  const floor = floorOf(name, r.files, tmp);
+  if (!o.keep) for (const f of r.files) rmSync(f, { force: true });
+  const { files: _files, phases, ...rest } = r;
+  return {
+    ...rest,
+    nsPerNnz: round((r.wallS * 1e9) / r.nnz, 1),
+    floorS: floor.floorS,
+    ratioToFloor: round(r.wallS / floor.floorS, 2),
+    phases,
+    floorPhases: floor.phases,
+  };
+}
+
+function siteCase(tmp: string): Line {
+  const timeFile = join(tmp, 'site.time');
+  const haveTime = existsSync(GNU_TIME);
+  const cmd = haveTime ? GNU_TIME : 'npm';
+  const args = haveTime ? ['-f', '%e %U %S %M', '-o', timeFile, 'npm', 'run', 'build'] : ['run', 'build'];
+  const t0 = performance.now();
+  const r = spawnSync(cmd, args, { cwd: ROOT, encoding: 'utf8', maxBuffer: 64 * BYTES_PER_MB });
+  const wallS = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`npm run build exited with ${r.status ?? r.signal}:\n${r.stdout}\n${r.stderr}`);
+  let cpuS: number | null = null;
+  let peakRssMB: number | null = null;
+  if (haveTime) {
+    const [, user, sys, maxKb] = readFileSync(timeFile, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
+    cpuS = round(user + sys);
+    peakRssMB = round(maxKb / 1024, 1);
+  }
+  const files = SITE_OUTPUTS.map((d) => join(ROOT, d)).filter(existsSync).flatMap(filesUnder);
+  const floor = floorOf(SITE_CASE.name, files, tmp);
+  return {
+    case: SITE_CASE.name,
+    wallS: round(wallS),
+    cpuS,
+    peakRssMB,
+    bytesWritten: totalSize(files),
+    nnz: null,
+    nsPerNnz: null,
+    floorS: floor.floorS,
+    ratioToFloor: round(wallS / floor.floorS, 2),
+    phases: {},
+    floorPhases: floor.phases,
+    filesWritten: files.length,
+    note: 'npm run build: kiln build of content/ + Astro site; peakRssMB is the largest single process (GNU time)',
+  };
+}
+
+function verdict(target: string, pass: boolean, details: Record<string, unknown>): void {
+  console.log(JSON.stringify({ target, verdict: pass ? 'pass' : 'miss', ...details }));
+}
+
+function targets(lines: Map<string, Line>): void {
+  const big = lines.get(TARGET_FLOOR_CASE);
+  if (big) verdict(`${TARGET_FLOOR_CASE} within ${TARGET_FLOOR_RATIO}x its floor`, big.ratioToFloor <= TARGET_FLOOR_RATIO, { ratioToFloor: big.ratioToFloor, wallS: big.wallS, floorS: big.floorS, phases: big.phases });
+
+  const modelLines = [...lines.values()].filter((l) => l.case !== SITE_CASE.name && l.peakRssMB !== null);
+  if (modelLines.length) {
+    const per = modelLines.map((l) => {
+      const limitMB = round((TARGET_RSS_PER_OUTPUT_BYTE * l.bytesWritten) / BYTES_PER_MB + TARGET_RSS_ALLOWANCE_MB, 1);
+      return { case: l.case, peakRssMB: l.peakRssMB!, limitMB };
+    });
+    verdict(`peak RSS within ${TARGET_RSS_PER_OUTPUT_BYTE}x output + ${TARGET_RSS_ALLOWANCE_MB} MB`, per.every((p) => p.peakRssMB <= p.limitMB), { cases: per });
+  }
+
+  const rmf = RMF_CASES.map((c) => lines.get(c.name)).filter((l): l is Line => !!l);
+  if (rmf.length === RMF_CASES.length) {
+    const ns = rmf.map((l) => l.nsPerNnz!);
+    const spread = round(Math.max(...ns) / Math.min(...ns), 2);
+    const modelNs = rmf.map((l) => round((l.phases.modelS * 1e9) / l.nnz!, 1));
+    verdict(`cost linear in nnz (ns/nnz max/min <= ${TARGET_NS_PER_NNZ_SPREAD})`, spread <= TARGET_NS_PER_NNZ_SPREAD, {
+      nsPerNnz: Object.fromEntries(rmf.map((l, i) => [l.case, ns[i]])),
+      spread,
+      modelOnlyNsPerNnz: Object.fromEntries(rmf.map((l, i) => [l.case, modelNs[i]])),
+    });
+  }
+
+  const site = lines.get(SITE_CASE.name);
+  if (site) verdict(`demo site in <= ${TARGET_SITE_S} s`, site.wallS <= TARGET_SITE_S, { wallS: site.wallS });
+}
+
+const o = parseArgs(process.argv.slice(2));
+const tmp = mkdtempSync(join(tmpdir(), 'kiln-bench-'));
+const lines = new Map<string, Line>();
+let crashed = false;
+for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
+  try {
+    const line = name === SITE_CASE.name ? siteCase(tmp) : modelCase(name, tmp, o);
+    lines.set(name, line);
+    console.log(JSON.stringify(line));
+  } catch (e) {
+    crashed = true;
+    console.error(`bench: case ${name} failed: ${e instanceof Error ? e.message : e}`);
+  }
+}
+targets(lines);
+if (o.keep) console.error(`bench: files kept in ${tmp}`);
+else rmSync(tmp, { recursive: true, force: true });
+process.exit(crashed ? 1 : 0);
