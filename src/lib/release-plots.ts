@@ -1,9 +1,15 @@
 /**
  * The release page's plots, built from one detector's published arrays (no physics recomputed;
- * measured centroid offsets are the published centroid minus the line energy, in eV).
+ * measured centroid offsets are the published centroid minus the line energy, in eV). Pure and
+ * browser-safe: the build renders the static SVG from these specs and the page's script builds
+ * the same specs from /data/releases/<id>/site.json when the reader interacts, so the page does not
+ * carry the arrays twice. Series keep every published point; rendering thins them per view.
  */
-import type { DetectorSite } from '../../generators/site-data/types.ts';
-import { lineSeries, pointSeries, roundSig, OKABE_ITO, type PlotSpec, type SeriesSpec } from './plot/index.ts';
+import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
+import { lineSeries as lineSeriesDecimated, pointSeries, roundSig, OKABE_ITO, type PlotSpec, type SeriesSpec } from './plot/index.ts';
+
+/** Every point kept: the spec is never embedded in the page, and rendering thins per view. */
+const lineSeries = (label: string, x: number[], y: (number | null)[], i: number): SeriesSpec => lineSeriesDecimated(label, x, y, i, Infinity);
 
 const W = 640;
 const H = 300;
@@ -29,14 +35,30 @@ export function effectiveAreaPlot(det: DetectorSite, releaseId: string): PlotSpe
   return { id: `ea-${det.id}`, title: `${det.name}: effective area (release ${releaseId})`, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: 'Effective area', unit: 'cm²', scale: 'log', toggle: true, maxDecades: AREA_DECADES }, series };
 }
 
-export function componentsPlot(det: DetectorSite): PlotSpec {
-  const last = det.epochs[det.epochs.length - 1];
+/** Names of the efficiency components whose values differ between the detector's epochs. */
+export function epochDependentComponents(det: DetectorSite): string[] {
+  const first = det.epochs[0];
+  if (!first) return [];
+  const names = new Set<string>();
+  for (const ep of det.epochs.slice(1))
+    for (const c of ep.components) {
+      const c0 = first.components.find((x) => x.name === c.name);
+      if (!c0 || c0.values.length !== c.values.length || c0.values.some((v, k) => v !== c.values[k])) names.add(c.name);
+    }
+  return [...names];
+}
+
+/** One epoch's efficiency and its components (default: the latest epoch); the page offers the others. */
+export function componentsPlot(det: DetectorSite, epochId?: string): PlotSpec {
+  const ep = det.epochs.find((e) => e.id === epochId) ?? det.epochs[det.epochs.length - 1];
   const series: SeriesSpec[] = [];
-  if (last) last.components.forEach((c, i) => series.push(lineSeries(`${c.name} (${c.kind})`, last.energyKeV, c.values, i + 1)));
-  det.epochs.forEach((ep, i) => series.push({ ...lineSeries(`detector efficiency, epoch ${ep.id}`, ep.energyKeV, ep.detectorQE, 0), widthPx: 2.4, dash: i ? '6 3' : undefined, colour: i ? OKABE_ITO.skyBlue : OKABE_ITO.blue }));
+  if (ep) {
+    ep.components.forEach((c, i) => series.push(lineSeries(`${c.name} (${c.kind})`, ep.energyKeV, c.values, i + 1)));
+    series.push({ ...lineSeries('detector efficiency (product of all)', ep.energyKeV, ep.detectorQE, 0), widthPx: 2.4, dash: undefined, colour: OKABE_ITO.blue });
+  }
   return {
     id: `qe-${det.id}`,
-    title: `${det.name}: detector efficiency and its components${last ? ` (components for epoch ${last.id})` : ''}`,
+    title: `${det.name}: detector efficiency and its components${ep ? `, epoch ${ep.id}` : ''}`,
     widthPx: W,
     heightPx: H,
     x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
@@ -117,7 +139,7 @@ export function profilePlot(det: DetectorSite): PlotSpec {
   let peak = 0;
   for (const row of p.rows) for (const v of row) if (v > peak) peak = v;
   const series = p.rows.map((row, i) => ({
-    ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i, 700),
+    ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i),
     step: true,
     hidden: !shown.has(i),
   }));
@@ -130,4 +152,12 @@ export function profilePlot(det: DetectorSite): PlotSpec {
     y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, domain: peak > 0 ? [roundSig(peak / 10 ** PROFILE_DECADES, 2) as number, roundSig(peak * 1.5, 2) as number] : undefined },
     series,
   };
+}
+
+/** Every plot of a release page by figure id, as the build renders them (the client rebuilds these). */
+export function releasePlots(site: ReleaseSite): Map<string, PlotSpec> {
+  const out = new Map<string, PlotSpec>();
+  for (const d of site.detectors)
+    for (const spec of [effectiveAreaPlot(d, site.id), componentsPlot(d), fwhmPlot(d), fwhmResidualPlot(d), centroidPlot(d), centroidResidualPlot(d), profilePlot(d)]) out.set(spec.id, spec);
+  return out;
 }

@@ -32,15 +32,29 @@ export function unpackSpec(packed: unknown): PlotSpec {
   return { ...p, series };
 }
 
-export function figureHtml(spec: PlotSpec, caption = spec.title): string {
+export interface FigureOptions {
+  caption?: string;
+  /**
+   * URL of the data document the client builds this spec from on demand; when set, the spec is
+   * not embedded (the SVG already shows the default view) and the page must pass a loader.
+   */
+  specSrc?: string;
+}
+
+export function figureHtml(spec: PlotSpec, opts: FigureOptions = {}): string {
+  const caption = opts.caption ?? spec.title;
   const visible = spec.series.filter((s) => !s.hidden);
+  const lazy = opts.specSrc !== undefined;
+  const attrs = lazy
+    ? ` data-spec-src="${esc(opts.specSrc!)}"${spec.x.toggle ? ` data-xlog="${spec.x.scale}"` : ''}${spec.y.toggle ? ` data-ylog="${spec.y.scale}"` : ''}`
+    : '';
   return (
-    `<figure class="kplot" id="${esc(spec.id)}">` +
+    `<figure class="kplot" id="${esc(spec.id)}"${attrs}>` +
     `<figcaption>${esc(caption)}</figcaption>` +
     `<div class="kplot-area">${renderPlot(spec).svg}</div>` +
     `<div class="kplot-legend">${legendHtml(visible)}</div>` +
     (spec.note ? `<p class="kplot-note">${esc(spec.note)}</p>` : '') +
-    `<script type="application/json" class="kplot-spec">${jsonForScript(packSpec(spec))}</script>` +
+    (lazy ? '' : `<script type="application/json" class="kplot-spec">${jsonForScript(packSpec(spec))}</script>`) +
     `</figure>`
   );
 }

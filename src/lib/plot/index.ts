@@ -7,6 +7,7 @@ export * from './line.ts';
 export * from './points.ts';
 export * from './legend.ts';
 export * from './decimate.ts';
+export * from './simplify.ts';
 export * from './render.ts';
 export * from './build.ts';
 export * from './colorbar.ts';
