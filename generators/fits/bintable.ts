@@ -54,27 +54,31 @@ export interface EncodedTable {
   heapBytes: number;
 }
 
+function badValue(v: unknown, where: () => string, ctx: FitsContext | undefined, expected: string): never {
+  return fitsFail(ctx, `bad value in column ${where()}`, { value: v, expected });
+}
+
+// Called once per element: no closures inside (each would be an allocation per element).
 function writeElement(view: DataView, at: number, type: ElementType, v: unknown, where: () => string, ctx?: FitsContext): void {
-  const bad = (expected: string): never => fitsFail(ctx, `bad value in column ${where()}`, { value: v, expected });
   switch (type) {
     case 'L':
-      if (typeof v !== 'boolean') bad('true or false');
+      if (typeof v !== 'boolean') badValue(v, where, ctx, 'true or false');
       view.setUint8(at, v ? ASCII_T : ASCII_F);
       return;
     case 'K': {
-      const b = typeof v === 'bigint' ? v : typeof v === 'number' && Number.isSafeInteger(v) ? BigInt(v) : bad('a 64-bit integer');
+      const b = typeof v === 'bigint' ? v : typeof v === 'number' && Number.isSafeInteger(v) ? BigInt(v) : badValue(v, where, ctx, 'a 64-bit integer');
       view.setBigInt64(at, b);
       return;
     }
     case 'E':
     case 'D':
-      if (typeof v !== 'number') bad('a number');
+      if (typeof v !== 'number') badValue(v, where, ctx, 'a number');
       if (type === 'E') view.setFloat32(at, v as number);
       else view.setFloat64(at, v as number);
       return;
     default: {
       const [lo, hi] = INT_RANGE[type]!;
-      if (typeof v !== 'number' || !Number.isInteger(v) || v < lo || v > hi) bad(`an integer in [${lo}, ${hi}]`);
+      if (typeof v !== 'number' || !Number.isInteger(v) || v < lo || v > hi) badValue(v, where, ctx, `an integer in [${lo}, ${hi}]`);
       if (type === 'B') view.setUint8(at, v as number);
       else if (type === 'I') view.setInt16(at, v as number);
       else view.setInt32(at, v as number);

@@ -100,6 +100,15 @@ export function writeRmf(d: RmfData): Uint8Array {
   ]);
 }
 
+/**
+ * The first n (≤ length) values of a cell as a new typed array, converted as Int32Array.from or
+ * Float32Array.from would; typed-array cells are copied without an intermediate plain array
+ * (that detour dominated reading a large matrix).
+ */
+function head<T extends Int32Array | Float32Array>(Ctor: new (src: ArrayLike<number>) => T, cell: ArrayLike<number>, n: number): T {
+  return new Ctor(ArrayBuffer.isView(cell) ? (cell as Float64Array).subarray(0, n) : (Array.prototype.slice.call(cell, 0, n) as number[]));
+}
+
 export interface RmfHeaders {
   primary: FitsHeader;
   matrix: FitsHeader;
@@ -134,11 +143,11 @@ export function readRmf(file: FitsFile): { data: RmfData; headers: RmfHeaders } 
   for (let i = 0; i < energLo.length; i++) {
     // Fixed-width columns hold up to their repeat count; only the first N_GRP groups count.
     const g = Math.max(0, Math.min(Number.isFinite(nGrp[i]) ? nGrp[i] : 0, fChan[i].length, nChan[i].length));
-    const f = Int32Array.from(Array.prototype.slice.call(fChan[i], 0, g) as number[]);
-    const w = Int32Array.from(Array.prototype.slice.call(nChan[i], 0, g) as number[]);
+    const f = head(Int32Array, fChan[i], g);
+    const w = head(Int32Array, nChan[i], g);
     let total = 0;
     for (const x of w) total += Math.max(0, x);
-    const mtx = Float32Array.from(Array.prototype.slice.call(matrix[i], 0, Math.min(total, matrix[i].length)) as number[]);
+    const mtx = head(Float32Array, matrix[i], Math.min(total, matrix[i].length));
     rows.push({ fChan: f, nChan: w, matrix: mtx });
   }
   const fCol = hdu.table!.column('F_CHAN')!;
