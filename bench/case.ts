@@ -9,13 +9,13 @@ import { buildRedistribution, energyGrid } from '../generators/response/index.ts
 import { writeArf, writeRmf } from '../generators/ogip/index.ts';
 import { checkFile } from '../generators/checks/index.ts';
 import { binCentresKeV, efficiencyBreakdown, escapeInputsFor, mirrorAreaAtBinCentres } from '../generators/physics/index.ts';
-import { loadInstrumentFile } from '../generators/content/index.ts';
+import { loadContent } from '../generators/content/index.ts';
 import { ARF_CASE, BENCH_META, BENCH_SPEC, RMF_CASES, channelGridOf, energyGridOf } from './cases.ts';
 import { writeFileSynced } from './io.ts';
 import { Clock, type CaseResult } from './measure.ts';
 
-/** Demo instrument whose mirror and detector stack the ARF case uses (invented, see content/README.md). */
-const DEMO_INSTRUMENT = 'content/instruments/quillon-tarncam/instrument.yaml';
+/** Demo content whose newest release gives the ARF case its mirror and detector stack (invented, see content/README.md). */
+const DEMO_CONTENT = 'content';
 
 function checkCounts(checks: { status: string }[]): Record<string, number> {
   const out: Record<string, number> = {};
@@ -40,14 +40,16 @@ async function runRmf(name: string, tmpDir: string): Promise<CaseResult> {
 }
 
 async function runArf(tmpDir: string): Promise<CaseResult> {
-  const instrument = await loadInstrumentFile(resolve(DEMO_INSTRUMENT));
-  const detector = instrument.detectors[0];
+  const tree = await loadContent(resolve(DEMO_CONTENT));
+  const release = tree.releases[tree.releases.length - 1];
+  const { instrument } = release;
+  const detector = release.detectors[0];
   const path = join(tmpDir, `${ARF_CASE.name}.fits`);
   const clock = new Clock();
   const bins = energyGrid(energyGridOf(ARF_CASE.energies));
   const centres = binCentresKeV(bins.loKeV, bins.hiKeV);
   const mirrorCm2 = mirrorAreaAtBinCentres(instrument.mirror, bins.loKeV, bins.hiKeV);
-  const eff = efficiencyBreakdown(detector.stack, centres, null);
+  const eff = efficiencyBreakdown(detector.stack, centres, detector.epochs[0]?.date ?? null);
   const specrespCm2 = mirrorCm2.map((a, i) => a * eff.detectorQE[i]);
   clock.lap('modelS');
   const bytes = writeArf({ meta: BENCH_META, energLoKeV: bins.loKeV, energHiKeV: bins.hiKeV, specrespCm2 });
