@@ -1,7 +1,8 @@
 /** Compare helpers: expected values worked out by hand in the comments. */
 import { describe, expect, it } from 'vitest';
 import type { ParameterRow } from '../../generators/site-data/types.ts';
-import { defaultPair, difference, onGrid, parameterChanges, ratio, validationDiff } from '../../src/lib/compare/index.ts';
+import { defaultPair, difference, onGrid, pairEpochs, parameterChanges, ratio, validationDiff } from '../../src/lib/compare/index.ts';
+import type { EpochSite } from '../../generators/site-data/types.ts';
 
 describe('onGrid', () => {
   it('returns B unchanged on an equal grid, null outside its range', () => {
@@ -47,5 +48,24 @@ describe('validationDiff and defaultPair', () => {
     expect(defaultPair([{ id: '3', supersedes: '1' }, { id: '2', supersedes: '1' }, { id: '1', supersedes: null }])).toEqual(['1', '3']);
     expect(defaultPair([{ id: '2', supersedes: null }, { id: '1', supersedes: null }])).toEqual(['1', '2']);
     expect(defaultPair([{ id: '1', supersedes: null }])).toBeNull();
+  });
+});
+
+const ep = (id: string, date: string, validFrom: string, validTo: string | null): EpochSite => ({ id, date, validFrom, validTo, energyKeV: [], mirrorCm2: [], components: [], detectorQE: [], effectiveAreaCm2: [] });
+
+describe('pairEpochs', () => {
+  it('pairs each B epoch with the A epoch in force on its reference date', () => {
+    // A: launch valid from 2026-05-12 on (open) → every B epoch falls inside it.
+    const a = [ep('launch', '2026-06-01', '2026-05-12', null)];
+    const b = [ep('e1', '2026-08-01', '2026-05-12', '2026-11-01'), ep('e2', '2027-01-15', '2026-11-01', null)];
+    expect(pairEpochs(a, b).map((p) => [p.b.id, p.a.id, p.how])).toEqual([['e1', 'launch', 'in force'], ['e2', 'launch', 'in force']]);
+  });
+  it('sets a new epoch against the open-ended one it follows, else same id, else nearest date', () => {
+    // A: e1 [2026-05-12, 2026-11-01), e2 [2026-11-01, open). B adds e3 on 2027-07-15 → inside A's e2.
+    const a = [ep('e1', '2026-08-01', '2026-05-12', '2026-11-01'), ep('e2', '2027-01-15', '2026-11-01', null)];
+    const b = [ep('e1', '2026-08-01', '2026-05-12', '2026-11-01'), ep('e3', '2027-07-15', '2027-05-01', null)];
+    expect(pairEpochs(a, b).map((p) => p.a.id)).toEqual(['e1', 'e2']);
+    // Before every A epoch: e0 on 2026-01-01 has no covering A epoch and no same id → nearest is e1.
+    expect(pairEpochs(a, [ep('e0', '2026-01-01', '2026-01-01', '2026-05-12')])[0]).toMatchObject({ how: 'nearest', a: { id: 'e1' } });
   });
 });

@@ -6,6 +6,7 @@ import type { ReleaseSite, ValidationReport } from '../../../generators/site-dat
 import { esc, figureHtml, fmt3, fmt4, lineSeries, type PlotSpec, type SeriesSpec } from '../plot/index.ts';
 import { validationDiff } from './checks.ts';
 import { difference, onGrid, ratio } from './interp.ts';
+import { pairEpochs, pairLabel } from './epochs.ts';
 import { parameterChanges } from './params.ts';
 
 const W = 640;
@@ -28,17 +29,19 @@ export function compareHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport
     }
     const eaR: SeriesSpec[] = [];
     const eaD: SeriesSpec[] = [];
-    da.epochs.forEach((ea, i) => {
-      const eb = db.epochs.find((e) => e.id === ea.id);
-      if (!eb) return;
-      const yb = onGrid(ea.energyKeV, eb.energyKeV, eb.effectiveAreaCm2);
-      eaR.push(lineSeries(`epoch ${ea.id}`, ea.energyKeV, ratio(ea.effectiveAreaCm2, yb), i));
-      eaD.push(lineSeries(`epoch ${ea.id}`, ea.energyKeV, difference(ea.effectiveAreaCm2, yb), i));
+    const pairs = pairEpochs(da.epochs, db.epochs);
+    pairs.forEach((p, i) => {
+      const yb = onGrid(p.a.energyKeV, p.b.energyKeV, p.b.effectiveAreaCm2);
+      eaR.push(lineSeries(pairLabel(p), p.a.energyKeV, ratio(p.a.effectiveAreaCm2, yb), i));
+      eaD.push(lineSeries(pairLabel(p), p.a.energyKeV, difference(p.a.effectiveAreaCm2, yb), i));
     });
-    const missing = da.epochs.filter((e) => !db.epochs.some((x) => x.id === e.id)).map((e) => e.id);
-    const extra = db.epochs.filter((e) => !da.epochs.some((x) => x.id === e.id)).map((e) => e.id);
-    if (missing.length || extra.length)
-      out.push(`<p class="muted">Epochs only in ${esc(a.id)}: ${esc(missing.join(', ') || 'none')}; only in ${esc(b.id)}: ${esc(extra.join(', ') || 'none')}.</p>`);
+    const crossed = pairs.filter((p) => p.a.id !== p.b.id);
+    if (crossed.length)
+      out.push(
+        `<p class="muted">Epochs are paired by observation date: each epoch of ${esc(b.id)} against the epoch of ${esc(a.id)} ${crossed.every((p) => p.how === 'in force') ? 'in force' : 'in force (or nearest)'} on its reference date — ${crossed.map((p) => `${esc(p.b.id)} (${esc(p.b.date)}) vs ${esc(p.a.id)}`).join('; ')}.</p>`,
+      );
+    const unchanged = pairs.filter((p) => p.a.effectiveAreaCm2.length === p.b.effectiveAreaCm2.length && p.a.effectiveAreaCm2.every((v, k) => v === p.b.effectiveAreaCm2[k]) && p.a.energyKeV.every((v, k) => v === p.b.energyKeV[k]));
+    if (unchanged.length) out.push(`<p class="muted">Effective area identical in both releases for ${esc(unchanged.map(pairLabel).join(', '))} (ratio 1, difference 0).</p>`);
     const r = da.resolution;
     const fb = onGrid(r.energyKeV, db.resolution.energyKeV, db.resolution.fwhmEv);
     const cb = onGrid(r.energyKeV, db.resolution.energyKeV, db.resolution.centroidOffsetEv);
