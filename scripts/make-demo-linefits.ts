@@ -23,26 +23,9 @@ const TAIL_SCALE_REL_SCATTER = 0.05;
 /** Smallest tail fraction used in the binomial error, so that a vanishing tail still has a finite error. */
 const TAIL_ERR_FLOOR_FRACTION = 1e-4;
 
-/** mulberry32: a small seeded PRNG (public-domain algorithm), uniform in [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { gaussian, mulberry32 } from './prng.ts';
 
-/** Standard normal deviates by Box–Muller. */
-export function gaussian(uniform: () => number): () => number {
-  return () => {
-    const u = 1 - uniform(); // (0, 1]
-    const v = uniform();
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-  };
-}
+export { mulberry32, gaussian };
 
 export function truthCentroidKeV(d: DetectorTruth, energyKeV: number): number {
   const c = d.centroid;

@@ -22,17 +22,8 @@ export function xraylibMap<T, R = number>(expr: string, items: T[]): R[] {
   return runPythonJson<R[]>('xraylib', code, items);
 }
 
-/** Small seeded PRNG (mulberry32) so random checks are reproducible. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Small seeded PRNG so random checks are reproducible (scripts/prng.ts). */
+export { mulberry32 as seededRandom } from '../../scripts/prng.ts';
 
 export function relErr(a: number, b: number): number {
   return Math.abs(a / b - 1);
