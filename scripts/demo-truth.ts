@@ -35,7 +35,11 @@ export interface DetectorTruth {
   centroid: { gainError: number; offsetEv: number; chargeLossEv: number; chargeLossScaleKeV: number };
   tail: { fractionAtZero: number; fractionScaleKeV: number; tailScaleEv: number };
   shelf: { fraction: number };
-  /** Relative efficiency (measured / model) and its 1σ error; null where no absolute flux is known. */
+  /**
+   * Line efficiency: the measured detection efficiency (events in any channel per photon incident
+   * on the detector) is drawn as value × the true efficiency, with a 1σ error of err × the true
+   * efficiency; null where no absolute flux is known (in flight).
+   */
   efficiency: { value: number; err: number } | null;
 }
 

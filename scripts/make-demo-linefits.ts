@@ -12,6 +12,11 @@ import { readFile, writeFile, mkdir } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { FWHM_PER_SIGMA, fanoLimitFwhmEv, fwhmEv } from '../generators/physics/resolution.ts';
+import { efficiencyBreakdown } from '../generators/physics/efficiency.ts';
+import { escapeInputsFor } from '../generators/physics/escape-inputs.ts';
+import { loadInstrumentFile, stackFromInput } from '../generators/content/index.ts';
+import { buildRedistribution } from '../generators/response/redistribution.ts';
+import type { RedistributionSpec } from '../generators/response/model-types.ts';
 import { DEMO_TRUTH, LINE_ENERGIES_KEV, type DetectorTruth, type ReleaseTruth } from './demo-truth.ts';
 
 const EV_PER_KEV = 1000;
@@ -43,8 +48,42 @@ export function truthTailFraction(d: DetectorTruth, energyKeV: number): number {
 
 const HEADER = 'line,energy_keV,centroid_keV,centroid_err_eV,fwhm_eV,fwhm_err_eV,tail_fraction,tail_fraction_err,tail_scale_eV,shelf_fraction,efficiency,efficiency_err';
 
-/** The CSV text for one detector of one release. */
-export function makeLineFitsCsv(t: ReleaseTruth, detector: string): string {
+/** Half-width of the one-bin energy grid used to take the true detected fraction at a line (keV). */
+const LINE_BIN_HALF_WIDTH_KEV = 0.0005;
+
+/**
+ * True detection efficiency at a line: the instrument's stack (QE) times the fraction of events
+ * the true profile puts in a channel above the threshold, for the demo truth of this detector.
+ */
+export async function trueLineEfficiency(t: ReleaseTruth, detector: string): Promise<(energyKeV: number) => number> {
+  const ins = await loadInstrumentFile(join(ROOT, 'content', 'instruments', 'quillon-tarncam', 'instrument.yaml'));
+  const doc = ins.detectors.find((x) => x.id === detector);
+  if (!doc) throw new Error(`no detector ${detector} in the demo instrument`);
+  const d = t.detectors[detector];
+  const stack = stackFromInput(doc.stack);
+  const spec: RedistributionSpec = {
+    ...doc.redistribution,
+    pairEnergyEv: d.pairEnergyEv,
+    fwhm: { source: 'law', ...d.fwhm },
+    centroid: { source: 'law', ...d.centroid },
+    tail: { source: 'law', ...d.tail },
+    shelf: { source: 'law', ...d.shelf },
+  };
+  const silicon = escapeInputsFor(stack.sensor.material.formula);
+  // Absolute efficiencies belong to ground calibration, before any contamination.
+  if (stack.contamination) throw new Error(`${t.release} ${detector}: the demo gives efficiencies only for a clean (ground) stack`);
+  return (e) => {
+    const qe = efficiencyBreakdown(stack, Float64Array.of(e), null).detectorQE[0];
+    const bins = { loKeV: Float64Array.of(e - LINE_BIN_HALF_WIDTH_KEV), hiKeV: Float64Array.of(e + LINE_BIN_HALF_WIDTH_KEV) };
+    const r = buildRedistribution({ spec, lineFits: [], energy: bins, channels: ins.channels, meta: { telescop: ins.telescope, instrume: ins.instrument, filter: 'NONE', chantype: 'PI', date: '2000-01-01' }, silicon });
+    let detected = 0;
+    for (const v of r.rmf.rows[0].matrix) detected += v;
+    return qe * (detected + r.losses.droppedByCut[0]);
+  };
+}
+
+/** The CSV text for one detector of one release; `efficiencyAt` is the true efficiency (trueLineEfficiency). */
+export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt: (energyKeV: number) => number = () => NaN): string {
   const d = t.detectors[detector];
   if (!d) throw new Error(`no truth for ${detector} in ${t.release}`);
   // One stream per detector, so adding a detector does not change the others.
@@ -67,7 +106,12 @@ export function makeLineFitsCsv(t: ReleaseTruth, detector: string): string {
     const shelf = Math.max(0, d.shelf.fraction + Math.sqrt(d.shelf.fraction / counts) * g());
     const limit = fanoLimitFwhmEv(e, d.pairEnergyEv, d.fwhm.fano);
     if (!(fwhmMeasured > limit)) throw new Error(`${t.release} ${detector} ${line}: FWHM ${fwhmMeasured} eV below the Fano limit ${limit} eV`);
-    const eff = d.efficiency ? [(d.efficiency.value + d.efficiency.err * g()).toFixed(4), d.efficiency.err.toFixed(4)] : ['', ''];
+    let eff = ['', ''];
+    if (d.efficiency) {
+      const trueEff = efficiencyAt(e);
+      if (!Number.isFinite(trueEff)) throw new Error(`${t.release} ${detector} ${line}: no true efficiency given`);
+      eff = [(trueEff * (d.efficiency.value + d.efficiency.err * g())).toFixed(5), (trueEff * d.efficiency.err).toFixed(5)];
+    }
     return [
       line,
       e.toFixed(4),
@@ -100,7 +144,8 @@ async function main(check: boolean): Promise<number> {
   for (const t of DEMO_TRUTH)
     for (const det of Object.keys(t.detectors)) {
       const file = demoLineFitsPath(t.release, det);
-      const text = makeLineFitsCsv(t, det);
+      const efficiencyAt = Object.values(t.detectors).some((d) => d.efficiency) ? await trueLineEfficiency(t, det) : undefined;
+      const text = makeLineFitsCsv(t, det, efficiencyAt);
       if (check) {
         const old = await readFile(file, 'utf8').catch(() => null);
         if (old !== text) {

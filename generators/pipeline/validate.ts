@@ -2,7 +2,8 @@
  * The build's checks of one detector: every product file through the same checks as `kiln check`,
  * the model's probability accounting, and closure against the line fits it was made from.
  */
-import { checkEfficiencyClosure, checkFile, checkLineClosure, makeCheck, fmt } from '../checks/index.ts';
+import { checkEfficiencyClosure, checkFile, checkLineClosure, foldedLineEfficiency, makeCheck, fmt } from '../checks/index.ts';
+import { efficiencyBreakdown } from '../physics/index.ts';
 import { DEFAULT_DROP_BUDGET } from '../response/index.ts';
 import type { Check } from '../site-data/types.ts';
 import type { DetectorJob } from './job.ts';
@@ -11,11 +12,6 @@ import type { DetectorProducts } from './product.ts';
 /** Row probability + reported losses must equal 1 to this (float64 accumulation over a few thousand channels). */
 export const ACCOUNTING_TOLERANCE = 1e-6;
 
-/**
- * Line efficiencies in the content are measured/model ratios (relative efficiency), so the model
- * value they are checked against is 1.
- */
-const MODEL_RELATIVE_EFFICIENCY = 1;
 
 function accountingChecks(built: DetectorProducts, product: string): Check[] {
   const { rmf, losses } = built.redistribution;
@@ -62,10 +58,17 @@ export function validateDetector(job: DetectorJob, built: DetectorProducts): Che
   }
   const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
   checks.push(...accountingChecks(built, rmfId));
-  for (const line of job.detector.lineFits) {
-    checks.push(...checkLineClosure(rmf, line, rmfId, undefined, { binAveraged: true }));
-    const eff = checkEfficiencyClosure(MODEL_RELATIVE_EFFICIENCY, line, rmfId);
+  // Measured line efficiencies are absolute (events in any channel per photon on the detector):
+  // the model folds the stack's QE on the first epoch's date with the matrix row at the line.
+  const firstDate = job.detector.epochs[0].date;
+  const withEff = job.detector.lineFits.filter((l) => l.efficiency !== null);
+  const qe = withEff.length
+    ? efficiencyBreakdown(job.detector.stack, Float64Array.from(withEff, (l) => l.energyKeV), firstDate).detectorQE
+    : new Float64Array(0);
+  for (const line of job.detector.lineFits) checks.push(...checkLineClosure(rmf, line, rmfId, undefined, { binAveraged: true }));
+  withEff.forEach((line, i) => {
+    const eff = checkEfficiencyClosure(qe[i] * foldedLineEfficiency(rmf, line.energyKeV), line, rmfId);
     if (eff) checks.push(eff);
-  }
+  });
   return checks;
 }
