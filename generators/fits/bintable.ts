@@ -3,7 +3,7 @@
  * All numbers big-endian; variable-length arrays live in the heap after the table (§7.3.5).
  */
 import { ELEMENT_BYTES, formatTForm, parseTForm, readColumns, type ColumnInfo, type ElementType, type TForm } from './column.ts';
-import type { CardInput, FitsHeader } from './header.ts';
+import { paddedLength, type CardInput, type FitsHeader } from './header.ts';
 import { fitsFail, type FitsContext } from './errors.ts';
 
 export type NumericArray = Uint8Array | Int16Array | Int32Array | BigInt64Array | Float32Array | Float64Array;
@@ -118,7 +118,8 @@ export function encodeBinTable(columns: ColumnInput[], ctx?: FitsContext): Encod
     }
   });
   const tableBytes = rowBytes * nRows;
-  const data = new Uint8Array(tableBytes + heapBytes);
+  // Room for the data unit's zero padding too, so the HDU writer need not copy the data to pad it.
+  const data = new Uint8Array(paddedLength(tableBytes + heapBytes)).subarray(0, tableBytes + heapBytes);
   const view = new DataView(data.buffer);
   let heapPos = 0;
   for (let r = 0; r < nRows; r++) {

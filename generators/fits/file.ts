@@ -1,7 +1,7 @@
 /** Whole FITS files: write a list of HDUs, read and check every HDU of a byte array. */
 import type { ChecksumStatus } from './checksum.ts';
 import { fitsFail } from './errors.ts';
-import { encodeHdu, readHdu, type FitsHdu, type HduInput } from './hdu.ts';
+import { encodeHduParts, readHdu, type FitsHdu, type HduInput } from './hdu.ts';
 import { BLOCK_BYTES } from './header.ts';
 
 export interface FitsFile {
@@ -22,12 +22,14 @@ export interface ReadFitsOptions {
 
 /** Concatenates the HDUs (primary first); output depends only on the input. */
 export function writeFits(hdus: HduInput[]): Uint8Array {
-  const parts = hdus.map((h, i) => encodeHdu(h, i));
-  const out = new Uint8Array(parts.reduce((s, p) => s + p.length, 0));
+  const parts = hdus.map((h, i) => encodeHduParts(h, i));
+  const out = new Uint8Array(parts.reduce((s, p) => s + p.header.length + p.data.length, 0));
   let at = 0;
   for (const p of parts) {
-    out.set(p, at);
-    at += p.length;
+    out.set(p.header, at);
+    at += p.header.length;
+    out.set(p.data, at);
+    at += p.data.length;
   }
   return out;
 }

@@ -56,22 +56,27 @@ function checkUserCards(cards: CardInput[] | undefined, ctx: FitsContext): CardI
   return cards ?? [];
 }
 
-/** Sets CHECKSUM and DATASUM (placed last) so that the HDU sums to negative zero. */
-function finishWithChecksum(header: FitsHeader, paddedData: Uint8Array): Uint8Array {
+/** Sets CHECKSUM and DATASUM (placed last) so that the HDU sums to negative zero; returns the header bytes. */
+function sealHeader(header: FitsHeader, paddedData: Uint8Array): Uint8Array {
   const dataSum = onesComplementSum(paddedData);
   header.set('CHECKSUM', CHECKSUM_PLACEHOLDER, 'HDU checksum');
   header.set('DATASUM', String(dataSum), 'data unit checksum');
   const hduSum = addSums(onesComplementSum(header.toBytes()), dataSum);
   header.set('CHECKSUM', encodeChecksum(complement(hduSum)), 'HDU checksum');
-  const head = header.toBytes();
-  const out = new Uint8Array(head.length + paddedData.length);
-  out.set(head, 0);
-  out.set(paddedData, head.length);
-  return out;
+  return header.toBytes();
 }
 
-/** Encodes one HDU (header, data, zero padding) with CHECKSUM/DATASUM. */
-export function encodeHdu(input: HduInput, index: number): Uint8Array {
+/** One encoded HDU as its header bytes and its zero-padded data unit. */
+export interface EncodedHduParts {
+  header: Uint8Array;
+  data: Uint8Array;
+}
+
+/**
+ * Encodes one HDU with CHECKSUM/DATASUM, header and padded data kept apart so that a file writer
+ * copies each data unit once (a large matrix is otherwise held in several copies at once).
+ */
+export function encodeHduParts(input: HduInput, index: number): EncodedHduParts {
   const ctx: FitsContext = { hdu: index, hduName: input.kind === 'bintable' ? input.name : undefined };
   const h = new FitsHeader(ctx);
   if (input.kind === 'primary') {
@@ -81,7 +86,8 @@ export function encodeHdu(input: HduInput, index: number): Uint8Array {
     h.set('NAXIS', 0, 'no primary data array');
     h.set('EXTEND', true, 'extensions may follow');
     for (const c of checkUserCards(input.cards, ctx)) h.add(c);
-    return finishWithChecksum(h, new Uint8Array(0));
+    const data = new Uint8Array(0);
+    return { header: sealHeader(h, data), data };
   }
   if (index === 0) fitsFail(ctx, 'the first HDU must be the primary HDU', { expected: "{ kind: 'primary' } first" });
   const table = encodeBinTable(input.columns, ctx);
@@ -91,9 +97,25 @@ export function encodeHdu(input: HduInput, index: number): Uint8Array {
   for (const c of table.cards) h.add(c);
   h.set('EXTNAME', input.name, 'name of this extension');
   for (const c of checkUserCards(input.cards, ctx)) h.add(c);
-  const padded = new Uint8Array(paddedLength(table.data.length));
-  padded.set(table.data, 0);
-  return finishWithChecksum(h, padded);
+  const n = paddedLength(table.data.length);
+  // encodeBinTable leaves room for the padding (zeros) after its data: use that buffer as it is.
+  const inPlace = table.data.byteOffset === 0 && table.data.buffer.byteLength === n;
+  let padded: Uint8Array;
+  if (inPlace) padded = new Uint8Array(table.data.buffer, 0, n);
+  else {
+    padded = new Uint8Array(n);
+    padded.set(table.data, 0);
+  }
+  return { header: sealHeader(h, padded), data: padded };
+}
+
+/** Encodes one HDU (header, data, zero padding) with CHECKSUM/DATASUM. */
+export function encodeHdu(input: HduInput, index: number): Uint8Array {
+  const { header, data } = encodeHduParts(input, index);
+  const out = new Uint8Array(header.length + data.length);
+  out.set(header, 0);
+  out.set(data, header.length);
+  return out;
 }
 
 /** Checks CHECKSUM/DATASUM of one HDU's bytes (header and padded data). */
