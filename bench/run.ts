@@ -4,10 +4,11 @@
  * targets. One JSON line per case, one JSON line per target. Asserts nothing: a missed target is
  * reported, not an error; only a case that crashes makes the exit code non-zero.
  *
- *   npm run bench [-- --only rmf-4096x8192,arf-8192] [--no-site] [--cpu-prof] [--keep]
+ *   npm run bench [-- --only rmf-4096x8192,arf-8192] [--no-site] [--site-dir <checkout>] [--cpu-prof] [--keep]
  *
  * --cpu-prof writes V8 CPU profiles of the model cases into the temp directory (kept).
- * The site case runs `npm run build` in the repository: it rewrites .kiln/out and dist/.
+ * The site case runs `npm run build` in the repository (or in --site-dir, e.g. a clean worktree
+ * of a commit): it rewrites .kiln/out and dist/ there.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -39,10 +40,11 @@ interface Options {
   site: boolean;
   cpuProf: boolean;
   keep: boolean;
+  siteDir: string;
 }
 
 function parseArgs(argv: string[]): Options {
-  const o: Options = { only: new Set(CASE_NAMES), site: true, cpuProf: false, keep: false };
+  const o: Options = { only: new Set(CASE_NAMES), site: true, cpuProf: false, keep: false, siteDir: ROOT };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--only') {
@@ -53,7 +55,8 @@ function parseArgs(argv: string[]): Options {
     } else if (a === '--no-site') o.site = false;
     else if (a === '--cpu-prof') o.cpuProf = o.keep = true;
     else if (a === '--keep') o.keep = true;
-    else fail(`unknown option ${a}; options: --only <cases>, --no-site, --cpu-prof, --keep`);
+    else if (a === '--site-dir') o.siteDir = resolve(argv[++i] ?? fail('--site-dir needs a directory'));
+    else fail(`unknown option ${a}; options: --only <cases>, --no-site, --site-dir <dir>, --cpu-prof, --keep`);
   }
   if (!o.site) o.only.delete(SITE_CASE.name);
   return o;
@@ -116,13 +119,13 @@ function modelCase(name: string, tmp: string, o: Options): Line {
   };
 }
 
-function siteCase(tmp: string): Line {
+function siteCase(tmp: string, siteDir: string): Line {
   const timeFile = join(tmp, 'site.time');
   const haveTime = existsSync(GNU_TIME);
   const cmd = haveTime ? GNU_TIME : 'npm';
   const args = haveTime ? ['-f', '%e %U %S %M', '-o', timeFile, 'npm', 'run', 'build'] : ['run', 'build'];
   const t0 = performance.now();
-  const r = spawnSync(cmd, args, { cwd: ROOT, encoding: 'utf8', maxBuffer: 64 * BYTES_PER_MB });
+  const r = spawnSync(cmd, args, { cwd: siteDir, encoding: 'utf8', maxBuffer: 64 * BYTES_PER_MB });
   const wallS = (performance.now() - t0) / 1000;
   if (r.status !== 0) throw new Error(`npm run build exited with ${r.status ?? r.signal}:\n${r.stdout}\n${r.stderr}`);
   let cpuS: number | null = null;
@@ -132,7 +135,7 @@ function siteCase(tmp: string): Line {
     cpuS = round(user + sys);
     peakRssMB = round(maxKb / 1024, 1);
   }
-  const files = SITE_OUTPUTS.map((d) => join(ROOT, d)).filter(existsSync).flatMap(filesUnder);
+  const files = SITE_OUTPUTS.map((d) => join(siteDir, d)).filter(existsSync).flatMap(filesUnder);
   const floor = floorOf(SITE_CASE.name, files, tmp);
   return {
     case: SITE_CASE.name,
@@ -147,6 +150,7 @@ function siteCase(tmp: string): Line {
     phases: {},
     floorPhases: floor.phases,
     filesWritten: files.length,
+    siteDir,
     note: 'npm run build: kiln build of content/ + Astro site; peakRssMB is the largest single process (GNU time)',
   };
 }
@@ -190,7 +194,7 @@ const lines = new Map<string, Line>();
 let crashed = false;
 for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
   try {
-    const line = name === SITE_CASE.name ? siteCase(tmp) : modelCase(name, tmp, o);
+    const line = name === SITE_CASE.name ? siteCase(tmp, o.siteDir) : modelCase(name, tmp, o);
     lines.set(name, line);
     console.log(JSON.stringify(line));
   } catch (e) {
