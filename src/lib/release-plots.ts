@@ -6,7 +6,10 @@
  * carry the arrays twice. Series keep every published point; rendering thins them per view.
  */
 import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
-import { lineSeries as lineSeriesDecimated, pointSeries, roundSig, OKABE_ITO, type PlotSpec, type SeriesSpec } from './plot/index.ts';
+import { lineSeries as lineSeriesDecimated, pointSeries, roundSig, OKABE_ITO, SERIES_COLOURS, SERIES_DASHES, VIRIDIS_STOPS, type PlotSpec, type SeriesSpec } from './plot/index.ts';
+import { interpolateRgbBasis } from 'd3-interpolate';
+
+const viridis = interpolateRgbBasis([...VIRIDIS_STOPS]);
 
 /** Every point kept: the spec is never embedded in the page, and rendering thins per view. */
 const lineSeries = (label: string, x: number[], y: (number | null)[], i: number): SeriesSpec => lineSeriesDecimated(label, x, y, i, Infinity);
@@ -19,6 +22,8 @@ const EV_PER_KEV = 1000;
 const PROFILE_DECADES = 6;
 /** Effective area shown over four decades below its peak (the soft end falls steeply). */
 const AREA_DECADES = 4;
+/** Fraction of the viridis map used for profile colours: its last ~15 % is too pale on white. */
+const PROFILE_COLOUR_SPAN = 0.85;
 
 /** Common x range of a detector's resolution plots, so main and residual panels line up. */
 function resolutionRange(det: DetectorSite): [number, number] {
@@ -53,8 +58,12 @@ export function componentsPlot(det: DetectorSite, epochId?: string): PlotSpec {
   const ep = det.epochs.find((e) => e.id === epochId) ?? det.epochs[det.epochs.length - 1];
   const series: SeriesSpec[] = [];
   if (ep) {
-    ep.components.forEach((c, i) => series.push(lineSeries(`${c.name} (${c.kind})`, ep.energyKeV, c.values, i + 1)));
-    series.push({ ...lineSeries('detector efficiency (product of all)', ep.energyKeV, ep.detectorQE, 0), widthPx: 2.4, dash: undefined, colour: OKABE_ITO.blue });
+    // Components cycle through the palette without black (kept for the product), each with its own dash.
+    const colours = SERIES_COLOURS.filter((c) => c !== OKABE_ITO.black);
+    ep.components.forEach((c, i) =>
+      series.push({ ...lineSeries(`${c.name} (${c.kind})`, ep.energyKeV, c.values, i), colour: colours[i % colours.length], dash: SERIES_DASHES[(i % (SERIES_DASHES.length - 1)) + 1] || undefined }),
+    );
+    series.push({ ...lineSeries('detector efficiency (product of all)', ep.energyKeV, ep.detectorQE, 0), widthPx: 2.6, dash: undefined, colour: OKABE_ITO.black });
   }
   return {
     id: `qe-${det.id}`,
@@ -141,6 +150,9 @@ export function profilePlot(det: DetectorSite): PlotSpec {
   const series = p.rows.map((row, i) => ({
     ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i),
     step: true,
+    // Colour follows photon energy (viridis, stopped before its pale yellow end for contrast on white).
+    colour: viridis((PROFILE_COLOUR_SPAN * i) / Math.max(1, p.rows.length - 1)),
+    dash: undefined,
     hidden: !shown.has(i),
   }));
   return {

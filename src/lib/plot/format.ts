@@ -19,3 +19,19 @@ export const axisTitle = (label: string, unit: string): string => (unit ? `${lab
 export function esc(s: string): string {
   return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
+
+/** Significant digits of an uncertainty as shown: two (common practice, no source). */
+const UNC_DIGITS = 2;
+
+/**
+ * Value and 1σ uncertainty for tables: the uncertainty to two significant digits and the value to
+ * the same decimal place (common practice, no source); without an uncertainty, four significant digits.
+ */
+export function fmtMeasured(value: number, uncertainty: number | null): { value: string; uncertainty: string } {
+  if (uncertainty === null || !Number.isFinite(uncertainty) || uncertainty <= 0 || !Number.isFinite(value)) return { value: fmt4(value), uncertainty: uncertainty === 0 ? '0' : fmt3(uncertainty) };
+  const decimals = Math.max(0, UNC_DIGITS - 1 - Math.floor(Math.log10(uncertainty)));
+  const big = Math.abs(value) >= 1e6 || Math.abs(uncertainty) < 1e-6;
+  if (big) return { value: fmt4(value), uncertainty: fmt3(uncertainty) };
+  const v = value.toFixed(decimals).replace(/^-/, '−');
+  return { value: v === '−0' || /^−0\.0*$/.test(v) ? v.slice(1) : v, uncertainty: uncertainty.toFixed(decimals) };
+}

@@ -29,3 +29,10 @@ export const SERIES_DASHES: readonly string[] = ['', '6 3', '2 2', '8 3 2 3', '1
 
 export const seriesColour = (i: number): string => SERIES_COLOURS[i % SERIES_COLOURS.length];
 export const seriesDash = (i: number): string => SERIES_DASHES[i % SERIES_DASHES.length];
+
+/**
+ * Viridis (van der Walt & Smith 2015) sampled at nine even stops, as d3-scale-chromatic's
+ * interpolateViridis gives them: enough for colouring a handful of curves by a quantity, without
+ * shipping the full colour-map module to pages that only need line colours.
+ */
+export const VIRIDIS_STOPS: readonly string[] = ['#440154', '#472d7b', '#3b528b', '#2c728e', '#21918c', '#28ae80', '#5ec962', '#addc30', '#fde725'];
