@@ -2,7 +2,7 @@
  * Crash safety: a build killed with SIGKILL mid-way leaves the previous output byte-identical;
  * the next build succeeds and removes the dead build's staging directory.
  */
-import { cpSync, existsSync, readdirSync } from 'node:fs';
+import { cpSync, existsSync, readdirSync, renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { kiln, kilnAsync, stagingLeft, treeDigest, workspace, type Workspace } from './helpers.ts';
@@ -72,5 +72,37 @@ describe('a build killed with SIGKILL', () => {
   it('after its first detector job finished (products being written): previous out intact, next build recovers', async () => {
     const { ws, before, stale } = await killBuildWhen((_w, err) => /release 2\.0\.0 \(candidate\): detector \w+ built/.test(err));
     await expectRecovery(ws, before, stale);
+  });
+
+  /**
+   * A kill between the two renames of the swap (atomic.ts swapInto: target → .<out>.previous,
+   * staging → target) leaves no target and the previous tree beside it. Simulated by doing the
+   * first rename by hand.
+   */
+  it('interrupted between the two renames of the swap: the next build puts the previous tree back or replaces it', () => {
+    const ws = workspace();
+    spaces.push(ws);
+    cpSync(base.out, ws.out, { recursive: true });
+    const before = treeDigest(ws.out);
+    renameSync(ws.out, join(ws.dir, '.out.previous'));
+    const r = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
+    expect(r.status, r.stderr).toBe(0);
+    expect(treeDigest(ws.out)).toEqual(before);
+    expect(stagingLeft(ws.out)).toEqual([]);
+  });
+
+  it('interrupted between the two renames, then a build with bad input: the previous tree is back at the target', () => {
+    const ws = workspace();
+    spaces.push(ws);
+    cpSync(base.out, ws.out, { recursive: true });
+    const before = treeDigest(ws.out);
+    renameSync(ws.out, join(ws.dir, '.out.previous'));
+    ws.replace('instruments/quillon-tarncam/instrument.yaml', 'formula: Si3N4', 'formula: Si3Xx4');
+    const r = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
+    expect(r.status).toBe(2);
+    // "a crash or kill mid-build leaves the previous output intact" (atomic.ts): the site must
+    // not stay without its output because the next build happened to get bad input.
+    expect(existsSync(ws.out)).toBe(true);
+    expect(treeDigest(ws.out)).toEqual(before);
   });
 });

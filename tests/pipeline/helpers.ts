@@ -10,7 +10,11 @@ import { dirname, join, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 export const REPO = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
-export const DEMO_CONTENT = join(REPO, 'content');
+/**
+ * The demo content tree copied by every test: content/ of the working tree, or another tree named
+ * by KILN_TEST_CONTENT (e.g. a `git archive HEAD content` export while others edit content/).
+ */
+export const DEMO_CONTENT = process.env.KILN_TEST_CONTENT ?? join(REPO, 'content');
 export const KILN = join(REPO, 'bin', 'kiln.mjs');
 
 export interface CliResult {
