@@ -4,6 +4,7 @@
  *   <content>/archive/<id>/files/*.gz        the products, byte for byte as published
  *   <content>/archive/<id>/site.json         the site data of the release as published
  *   <content>/archive/<id>/validation.json   its validation report as published
+ *   <content>/archive/<id>/manifest.json     its manifest as published (parameters, fits)
  * Nothing in Kiln rewrites or deletes an archive once written.
  */
 import { existsSync, readFileSync } from 'node:fs';
@@ -23,7 +24,7 @@ export interface SealFile {
 export interface Seal {
   schema: 'kiln/seal/1';
   release: string;
-  /** Release date and status at the time of publishing. */
+  /** Release date. */
   date: string;
   inputsSha256: string;
   inputFiles: Record<string, string>;

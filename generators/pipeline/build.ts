@@ -169,7 +169,11 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
 }
 
 /** Serves a frozen release from its archive into `dir`. */
-function serveArchive(content: ContentTree, r: ResolvedRelease, dir: string): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite } {
+function serveArchive(
+  content: ContentTree,
+  r: ResolvedRelease,
+  dir: string,
+): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
   const seal = readSeal(content.root, r.release.id);
   verifyFrozenInputs(r, seal);
   const bytes = readVerifiedArchive(content.root, seal);
@@ -182,7 +186,8 @@ function serveArchive(content: ContentTree, r: ResolvedRelease, dir: string): { 
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
   writeJson(join(dir, 'site.json'), current);
   writeJson(join(dir, 'validation.json'), report);
-  return { products: site.products, checks: report.checks, site };
+  const manifest = bytes.has('manifest.json') ? (JSON.parse(new TextDecoder().decode(bytes.get('manifest.json')!)) as ReleaseManifest) : null;
+  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
 }
 
 function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSummary[] {
@@ -200,6 +205,8 @@ function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSumm
 
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
   const log = opts.log ?? (() => {});
+  // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
+  recoverInterruptedSwap(opts.outDir);
   const content = await loadContent(opts.contentDir);
   if (opts.publishing !== undefined) {
     const at = content.releases.findIndex((r) => r.release.id === opts.publishing);
@@ -223,7 +230,6 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
     if (frozen) verifyFrozenInputs(r, readSeal(content.root, r.release.id));
   }
 
-  recoverInterruptedSwap(opts.outDir);
   removeStaleStaging(opts.outDir);
   const staging = stagingDir(opts.outDir);
   const pool = new JobPool(opts.workers ?? defaultWorkerCount());
@@ -242,7 +248,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       if (frozen) {
         const served = serveArchive(content, r, dir);
         ({ products, checks } = served);
-        parameters = { rows: served.site.parameters };
+        parameters = served.parameters;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
       } else {
         const jobs = jobsOf(r);

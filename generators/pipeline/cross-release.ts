@@ -9,6 +9,7 @@ import { readArf, readRmf } from '../ogip/index.ts';
 import { readFitsFile } from '../node/index.ts';
 import type { Check, ProductSummary } from '../site-data/types.ts';
 import type { ArfData, RmfData } from '../response/types.ts';
+import { tidyCheck } from './validate.ts';
 
 function rmfAt(dir: string, p: ProductSummary): RmfData {
   return readRmf(readFitsFile(join(dir, p.path))).data;
@@ -35,5 +36,5 @@ export function crossReleaseChecks(olderDir: string, older: ProductSummary[], ol
       if (o) checks.push(...compareArf(arfAt(olderDir, o), arfAt(newerDir, p), p.id, { label: `${label} (${o.epoch} → ${p.epoch})` }));
     }
   }
-  return checks.map((c) => ({ ...c, id: c.id.startsWith('compare.') ? `review.${c.id.slice('compare.'.length)}` : c.id }));
+  return checks.map((c) => tidyCheck({ ...c, id: c.id.startsWith('compare.') ? `review.${c.id.slice('compare.'.length)}` : c.id }));
 }

@@ -66,8 +66,13 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
     rmSync(staged, { recursive: true, force: true });
     mkdirSync(staged, { recursive: true });
     cpSync(join(built, 'files'), join(staged, 'files'), { recursive: true });
-    cpSync(join(built, 'site.json'), join(staged, 'site.json'));
     cpSync(join(built, 'validation.json'), join(staged, 'validation.json'));
+    // The archive records the release as it is from now on: published (a candidate is promoted).
+    const archivedStatus = status === 'candidate' ? 'published' : status;
+    for (const doc of ['site.json', 'manifest.json']) {
+      const value = JSON.parse(readFileSync(join(built, doc), 'utf8')) as { status: string };
+      writeFileSync(join(staged, doc), JSON.stringify({ ...value, status: archivedStatus }) + '\n');
+    }
     const files = listFiles(staged).map((path) => {
       const bytes = readFileSync(join(staged, path));
       return { path, bytes: bytes.length, sha256: sha256Hex(bytes) };

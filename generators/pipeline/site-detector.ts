@@ -24,6 +24,10 @@ const IMAGE_LOG10_FLOOR = -7;
 const PROFILE_ENERGIES_KEV = [0.3, 0.5, 1, 2, 3, 4.5, 6, 8, 10];
 /** Significant digits kept in site JSON for plotted values (well below the plots' resolution). */
 const SITE_DIGITS = 5;
+/** Digits of curves that only feed plots (effective area, efficiencies): 1e-4 relative is far below a pixel. */
+const CURVE_DIGITS = 4;
+/** Digits of tabulated parameters: beyond any stated uncertainty. */
+const PARAMETER_DIGITS = 6;
 
 export function round(x: number, digits = SITE_DIGITS): number {
   if (x === 0 || !Number.isFinite(x)) return x;
@@ -178,10 +182,10 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
     epochs: built.epochs.map((e) => ({
       ...e.site,
       energyKeV: e.site.energyKeV.map((x) => round(x, 6)),
-      mirrorCm2: e.site.mirrorCm2.map((x) => round(x)),
-      components: e.site.components.map((c) => ({ ...c, values: c.values.map((x) => round(x)) })),
-      detectorQE: e.site.detectorQE.map((x) => round(x)),
-      effectiveAreaCm2: e.site.effectiveAreaCm2.map((x) => round(x)),
+      mirrorCm2: e.site.mirrorCm2.map((x) => round(x, CURVE_DIGITS)),
+      components: e.site.components.map((c) => ({ ...c, values: c.values.map((x) => round(x, CURVE_DIGITS)) })),
+      detectorQE: e.site.detectorQE.map((x) => round(x, CURVE_DIGITS)),
+      effectiveAreaCm2: e.site.effectiveAreaCm2.map((x) => round(x, CURVE_DIGITS)),
     })),
     resolution: { energyKeV: curveE.map((e) => round(e)), fwhmEv: curveE.map((e) => round(fwhmAt(e))), centroidOffsetEv: curveE.map((e) => round(shiftAt(e))) },
     lineFits,
@@ -202,7 +206,16 @@ function parameterRows(job: DetectorJob, fwhmFit: FitResult | null, centroidFit:
   const spec = d.redistribution;
   const rows: ParameterRow[] = [];
   const add = (group: string, name: string, symbol: string | null, unit: string, value: number, uncertainty: number | null, source: ParameterRow['source']) =>
-    rows.push({ detector: d.id, group, name, symbol, unit, value, uncertainty, source });
+    rows.push({
+      detector: d.id,
+      group,
+      name,
+      symbol,
+      unit,
+      value: round(value, PARAMETER_DIGITS),
+      uncertainty: uncertainty === null ? null : round(uncertainty, 3),
+      source,
+    });
   const res = 'resolution';
   add(res, 'pair creation energy', 'w', 'eV', spec.pairEnergyEv, null, 'input');
   add(res, `read noise (${spec.fwhm.source === 'law' ? 'law' : 'law shape; widths from line fits'})`, 'N_r', 'e⁻ RMS', spec.fwhm.readNoiseE, null, 'input');

@@ -49,7 +49,20 @@ function accountingChecks(built: DetectorProducts, product: string): Check[] {
   ];
 }
 
+/** Digits kept of a check's measured value in reports (the message keeps its own rounding). */
+const MEASURED_DIGITS = 6;
+
+export function tidyCheck(c: Check): Check {
+  return typeof c.measured === 'number' && Number.isFinite(c.measured) && c.measured !== 0
+    ? { ...c, measured: Number(c.measured.toPrecision(MEASURED_DIGITS)) }
+    : c;
+}
+
 export function validateDetector(job: DetectorJob, built: DetectorProducts): Check[] {
+  return validateDetectorRaw(job, built).map(tidyCheck);
+}
+
+function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[] {
   const checks: Check[] = [];
   const rmf = built.redistribution.rmf;
   for (const f of built.files) {

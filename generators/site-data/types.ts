@@ -187,6 +187,11 @@ export interface DetectorSite {
   /** Model curves on a plotting grid. */
   resolution: { energyKeV: number[]; fwhmEv: number[]; centroidOffsetEv: number[] };
   lineFits: LineFitSite[];
+  /**
+   * χ² of the published model (the release's laws or interpolation, as built) against the line
+   * fits, with dof = number of lines (nothing is fitted here). The fits of the laws to the same
+   * lines, with their own χ² and dof, are in the parameter rows (source "fit").
+   */
   fitQuality: { fwhmChi2: number; fwhmDof: number; centroidChi2: number; centroidDof: number };
   profiles: ProfileSet;
   matrix: MatrixImage;
