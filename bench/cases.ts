@@ -28,6 +28,10 @@ export const RMF_CASES: RmfCase[] = [
 export const ARF_CASE = { kind: 'arf' as const, name: 'arf-8192', energies: 8192 };
 export const SITE_CASE = { kind: 'site' as const, name: 'site-demo' };
 
+/** Validation of a product is its own case, in its own process, reading the written file. */
+export const CHECK_PREFIX = 'check-';
+export const checkCaseOf = (productCase: string): string => `${CHECK_PREFIX}${productCase}`;
+
 export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name];
 
 /**

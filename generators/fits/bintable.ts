@@ -93,8 +93,19 @@ function writeString(bytes: Uint8Array, at: number, width: number, s: unknown, w
   for (let i = 0; i < width; i++) bytes[at + i] = i < s.length ? s.charCodeAt(i) : 0x20;
 }
 
-/** Builds the table and heap of a BINTABLE from columns (all of the same length). */
-export function encodeBinTable(columns: ColumnInput[], ctx?: FitsContext): EncodedTable {
+/** Sizes and header cards of a binary table, computed before any byte is written. */
+export interface BinTablePlan {
+  cards: CardInput[];
+  nRows: number;
+  rowBytes: number;
+  heapBytes: number;
+  /** Table plus heap, unpadded. */
+  dataBytes: number;
+  /** Writes the table and heap into `data` (zero-filled, at least dataBytes long, at its offset 0). */
+  fill(data: Uint8Array): void;
+}
+
+export function planBinTable(columns: ColumnInput[], ctx?: FitsContext): BinTablePlan {
   const nRows = columns.length ? columns[0].data.length : 0;
   const forms: TForm[] = columns.map((c, i) => {
     const f = parseTForm(c.tform, ctx, `TFORM${i + 1}`);
@@ -118,48 +129,6 @@ export function encodeBinTable(columns: ColumnInput[], ctx?: FitsContext): Encod
     }
   });
   const tableBytes = rowBytes * nRows;
-  // Room for the data unit's zero padding too, so the HDU writer need not copy the data to pad it.
-  const data = new Uint8Array(paddedLength(tableBytes + heapBytes)).subarray(0, tableBytes + heapBytes);
-  const view = new DataView(data.buffer);
-  let heapPos = 0;
-  for (let r = 0; r < nRows; r++) {
-    let off = r * rowBytes;
-    columns.forEach((c, j) => {
-      const f = forms[j];
-      const where = () => `${c.name} row ${r + 1}`;
-      const cell = (c.data as ArrayLike<unknown>)[r];
-      if (f.descriptor) {
-        const el = ELEMENT_BYTES[f.type];
-        const heapAt = tableBytes + heapPos;
-        let len: number;
-        if (f.type === 'A') {
-          const s = cell as string;
-          len = typeof s === 'string' ? s.length : -1;
-          writeString(data, heapAt, Math.max(len, 0), s, where, ctx);
-        } else {
-          const arr = cell as ArrayLike<unknown>;
-          if (arr === null || typeof arr !== 'object' || typeof arr.length !== 'number') fitsFail(ctx, `bad value in column ${where()}`, { expected: 'an array for a variable-length column' });
-          len = arr.length;
-          for (let k = 0; k < len; k++) writeElement(view, heapAt + k * el, f.type, arr[k], where, ctx);
-        }
-        view.setInt32(off, len);
-        view.setInt32(off + 4, heapPos);
-        heapPos += len * el;
-      } else if (f.type === 'A') {
-        writeString(data, off, f.repeat, cell, where, ctx);
-      } else if (f.repeat === 1) {
-        writeElement(view, off, f.type, cell, where, ctx);
-      } else {
-        const arr = cell as ArrayLike<unknown>;
-        if (arr === null || typeof arr !== 'object' || arr.length !== f.repeat) {
-          fitsFail(ctx, `bad value in column ${where()}`, { expected: `an array of exactly ${f.repeat} elements (TFORM ${c.tform})` });
-        }
-        const el = ELEMENT_BYTES[f.type];
-        for (let k = 0; k < f.repeat; k++) writeElement(view, off + k * el, f.type, arr[k], where, ctx);
-      }
-      off += f.widthBytes;
-    });
-  }
   const cards: CardInput[] = [
     { keyword: 'NAXIS1', value: rowBytes, comment: 'width of table in bytes' },
     { keyword: 'NAXIS2', value: nRows, comment: 'number of rows in table' },
@@ -176,7 +145,58 @@ export function encodeBinTable(columns: ColumnInput[], ctx?: FitsContext): Encod
     if (c.tlmin !== undefined) cards.push({ keyword: `TLMIN${n}`, value: c.tlmin });
     if (c.tlmax !== undefined) cards.push({ keyword: `TLMAX${n}`, value: c.tlmax });
   });
-  return { cards, data, nRows, rowBytes, heapBytes };
+  const fill = (data: Uint8Array): void => {
+    const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
+    let heapPos = 0;
+    for (let r = 0; r < nRows; r++) {
+      let off = r * rowBytes;
+      columns.forEach((c, j) => {
+        const f = forms[j];
+        const where = () => `${c.name} row ${r + 1}`;
+        const cell = (c.data as ArrayLike<unknown>)[r];
+        if (f.descriptor) {
+          const el = ELEMENT_BYTES[f.type];
+          const heapAt = tableBytes + heapPos;
+          let len: number;
+          if (f.type === 'A') {
+            const s = cell as string;
+            len = typeof s === 'string' ? s.length : -1;
+            writeString(data, heapAt, Math.max(len, 0), s, where, ctx);
+          } else {
+            const arr = cell as ArrayLike<unknown>;
+            if (arr === null || typeof arr !== 'object' || typeof arr.length !== 'number') fitsFail(ctx, `bad value in column ${where()}`, { expected: 'an array for a variable-length column' });
+            len = arr.length;
+            for (let k = 0; k < len; k++) writeElement(view, heapAt + k * el, f.type, arr[k], where, ctx);
+          }
+          view.setInt32(off, len);
+          view.setInt32(off + 4, heapPos);
+          heapPos += len * el;
+        } else if (f.type === 'A') {
+          writeString(data, off, f.repeat, cell, where, ctx);
+        } else if (f.repeat === 1) {
+          writeElement(view, off, f.type, cell, where, ctx);
+        } else {
+          const arr = cell as ArrayLike<unknown>;
+          if (arr === null || typeof arr !== 'object' || arr.length !== f.repeat) {
+            fitsFail(ctx, `bad value in column ${where()}`, { expected: `an array of exactly ${f.repeat} elements (TFORM ${c.tform})` });
+          }
+          const el = ELEMENT_BYTES[f.type];
+          for (let k = 0; k < f.repeat; k++) writeElement(view, off + k * el, f.type, arr[k], where, ctx);
+        }
+        off += f.widthBytes;
+      });
+    }
+  };
+  return { cards, nRows, rowBytes, heapBytes, dataBytes: tableBytes + heapBytes, fill };
+}
+
+/** Builds the table and heap of a BINTABLE from columns (all of the same length). */
+export function encodeBinTable(columns: ColumnInput[], ctx?: FitsContext): EncodedTable {
+  const plan = planBinTable(columns, ctx);
+  // Room for the data unit's zero padding too, so the HDU writer need not copy the data to pad it.
+  const data = new Uint8Array(paddedLength(plan.dataBytes)).subarray(0, plan.dataBytes);
+  plan.fill(data);
+  return { cards: plan.cards, data, nRows: plan.nRows, rowBytes: plan.rowBytes, heapBytes: plan.heapBytes };
 }
 
 export interface BinTable {

@@ -1,7 +1,7 @@
 /** Whole FITS files: write a list of HDUs, read and check every HDU of a byte array. */
 import type { ChecksumStatus } from './checksum.ts';
 import { fitsFail } from './errors.ts';
-import { encodeHduParts, readHdu, type FitsHdu, type HduInput } from './hdu.ts';
+import { planHdu, readHdu, writePlannedHdu, type FitsHdu, type HduInput } from './hdu.ts';
 import { BLOCK_BYTES } from './header.ts';
 
 export interface FitsFile {
@@ -22,15 +22,11 @@ export interface ReadFitsOptions {
 
 /** Concatenates the HDUs (primary first); output depends only on the input. */
 export function writeFits(hdus: HduInput[]): Uint8Array {
-  const parts = hdus.map((h, i) => encodeHduParts(h, i));
-  const out = new Uint8Array(parts.reduce((s, p) => s + p.header.length + p.data.length, 0));
+  // Plan every HDU, allocate the file once, encode each table straight into it.
+  const plans = hdus.map((h, i) => planHdu(h, i));
+  const out = new Uint8Array(plans.reduce((s, p) => s + p.headerBytes + p.dataBytes, 0));
   let at = 0;
-  for (const p of parts) {
-    out.set(p.header, at);
-    at += p.header.length;
-    out.set(p.data, at);
-    at += p.data.length;
-  }
+  for (const p of plans) at = writePlannedHdu(p, out, at);
   return out;
 }
 

@@ -2,7 +2,7 @@
  * Header-data units: the mandatory keywords (FITS Standard 4.0 §4.4.1, §7.3.1), the data-unit
  * size they imply (§4.4.1.1, §7.3.2), and checksums on every HDU written.
  */
-import { decodeBinTable, encodeBinTable, type BinTable, type ColumnInput } from './bintable.ts';
+import { decodeBinTable, planBinTable, type BinTable, type ColumnInput } from './bintable.ts';
 import { CHECKSUM_PLACEHOLDER, addSums, complement, encodeChecksum, NEGATIVE_ZERO, onesComplementSum, type ChecksumStatus } from './checksum.ts';
 import { fitsFail, type FitsContext } from './errors.ts';
 import { BLOCK_BYTES, FitsHeader, paddedLength, type CardInput } from './header.ts';
@@ -73,12 +73,25 @@ export interface EncodedHduParts {
 }
 
 /**
- * Encodes one HDU with CHECKSUM/DATASUM, header and padded data kept apart so that a file writer
- * copies each data unit once (a large matrix is otherwise held in several copies at once).
+ * One HDU planned before any data byte is written: its header (all cards but the checksum
+ * values), the exact sizes, and a function that fills a zero-filled data unit. Lets a file writer
+ * allocate the whole file once and encode every table straight into it, so a large matrix is
+ * held once in its in-memory form and once as bytes, never more.
  */
-export function encodeHduParts(input: HduInput, index: number): EncodedHduParts {
+export interface HduPlan {
+  header: FitsHeader;
+  /** Header bytes including CHECKSUM/DATASUM and END, padded to whole blocks. */
+  headerBytes: number;
+  /** Data unit bytes, padded to whole blocks. */
+  dataBytes: number;
+  fill(data: Uint8Array): void;
+}
+
+export function planHdu(input: HduInput, index: number): HduPlan {
   const ctx: FitsContext = { hdu: index, hduName: input.kind === 'bintable' ? input.name : undefined };
   const h = new FitsHeader(ctx);
+  let dataBytes = 0;
+  let fill: (data: Uint8Array) => void = () => {};
   if (input.kind === 'primary') {
     if (index !== 0) fitsFail(ctx, 'a primary HDU can only come first', { expected: 'BINTABLE extensions after the primary HDU' });
     h.set('SIMPLE', true, 'conforms to FITS standard');
@@ -86,27 +99,40 @@ export function encodeHduParts(input: HduInput, index: number): EncodedHduParts 
     h.set('NAXIS', 0, 'no primary data array');
     h.set('EXTEND', true, 'extensions may follow');
     for (const c of checkUserCards(input.cards, ctx)) h.add(c);
-    const data = new Uint8Array(0);
-    return { header: sealHeader(h, data), data };
+  } else {
+    if (index === 0) fitsFail(ctx, 'the first HDU must be the primary HDU', { expected: "{ kind: 'primary' } first" });
+    const table = planBinTable(input.columns, ctx);
+    h.set('XTENSION', 'BINTABLE', 'binary table extension');
+    h.set('BITPIX', 8, '8-bit bytes');
+    h.set('NAXIS', 2, '2-dimensional binary table');
+    for (const c of table.cards) h.add(c);
+    h.set('EXTNAME', input.name, 'name of this extension');
+    for (const c of checkUserCards(input.cards, ctx)) h.add(c);
+    dataBytes = paddedLength(table.dataBytes);
+    fill = table.fill;
   }
-  if (index === 0) fitsFail(ctx, 'the first HDU must be the primary HDU', { expected: "{ kind: 'primary' } first" });
-  const table = encodeBinTable(input.columns, ctx);
-  h.set('XTENSION', 'BINTABLE', 'binary table extension');
-  h.set('BITPIX', 8, '8-bit bytes');
-  h.set('NAXIS', 2, '2-dimensional binary table');
-  for (const c of table.cards) h.add(c);
-  h.set('EXTNAME', input.name, 'name of this extension');
-  for (const c of checkUserCards(input.cards, ctx)) h.add(c);
-  const n = paddedLength(table.data.length);
-  // encodeBinTable leaves room for the padding (zeros) after its data: use that buffer as it is.
-  const inPlace = table.data.byteOffset === 0 && table.data.buffer.byteLength === n;
-  let padded: Uint8Array;
-  if (inPlace) padded = new Uint8Array(table.data.buffer, 0, n);
-  else {
-    padded = new Uint8Array(n);
-    padded.set(table.data, 0);
-  }
-  return { header: sealHeader(h, padded), data: padded };
+  // The checksum cards take their final places now; sealing only changes their values.
+  h.set('CHECKSUM', CHECKSUM_PLACEHOLDER, 'HDU checksum');
+  h.set('DATASUM', '0', 'data unit checksum');
+  return { header: h, headerBytes: h.toBytes().length, dataBytes, fill };
+}
+
+/** Writes a planned HDU into `out` at `at` (out zero-filled); returns the offset after it. */
+export function writePlannedHdu(plan: HduPlan, out: Uint8Array, at: number): number {
+  const data = out.subarray(at + plan.headerBytes, at + plan.headerBytes + plan.dataBytes);
+  plan.fill(data);
+  const header = sealHeader(plan.header, data);
+  if (header.length !== plan.headerBytes) throw new Error(`FITS writer: header of ${header.length} bytes, planned ${plan.headerBytes}`);
+  out.set(header, at);
+  return at + plan.headerBytes + plan.dataBytes;
+}
+
+/** Encodes one HDU with CHECKSUM/DATASUM, header and padded data kept apart. */
+export function encodeHduParts(input: HduInput, index: number): EncodedHduParts {
+  const plan = planHdu(input, index);
+  const out = new Uint8Array(plan.headerBytes + plan.dataBytes);
+  writePlannedHdu(plan, out, 0);
+  return { header: out.subarray(0, plan.headerBytes), data: out.subarray(plan.headerBytes) };
 }
 
 /** Encodes one HDU (header, data, zero padding) with CHECKSUM/DATASUM. */

@@ -105,7 +105,13 @@ export function writeRmf(d: RmfData): Uint8Array {
  * Float32Array.from would; typed-array cells are copied without an intermediate plain array
  * (that detour dominated reading a large matrix).
  */
-function head<T extends Int32Array | Float32Array>(Ctor: new (src: ArrayLike<number>) => T, cell: ArrayLike<number>, n: number): T {
+/**
+ * The first n values of a decoded cell as Ctor. A cell already of that type is returned as a view
+ * (no copy: the rows then share memory with the file's decoded table, which halves the memory of
+ * reading a large matrix); other types are converted.
+ */
+function head<T extends Int32Array | Float32Array>(Ctor: (new (src: ArrayLike<number>) => T) & { prototype: T }, cell: ArrayLike<number>, n: number): T {
+  if (cell instanceof Ctor) return (cell as T).subarray(0, n) as T;
   return new Ctor(ArrayBuffer.isView(cell) ? (cell as Float64Array).subarray(0, n) : (Array.prototype.slice.call(cell, 0, n) as number[]));
 }
 
