@@ -9,6 +9,9 @@ export interface FinderHit {
   warning: string | null;
 }
 
+/** Order of the kinds within a release: the matrix (or combined response) first, then the ARF. */
+const KIND_ORDER = ['rsp', 'rmf', 'arf'];
+
 /** ISO dates (YYYY-MM-DD) compare correctly as strings; longer timestamps are cut to the date. */
 const day = (s: string) => s.slice(0, 10);
 
@@ -32,8 +35,8 @@ export function findFiles(index: ReleaseIndex, detector: string, dateIso: string
                 : null,
         });
   }
-  // Status preference, then newest release date first, then product kind.
+  // Status preference, then newest release date first, then the matrix before the area file.
   return hits.sort(
-    (a, b) => statusRank(a.release.status) - statusRank(b.release.status) || b.release.date.localeCompare(a.release.date) || a.product.kind.localeCompare(b.product.kind),
+    (a, b) => statusRank(a.release.status) - statusRank(b.release.status) || b.release.date.localeCompare(a.release.date) || KIND_ORDER.indexOf(a.product.kind) - KIND_ORDER.indexOf(b.product.kind),
   );
 }

@@ -24,6 +24,8 @@ const PROFILE_DECADES = 6;
 const AREA_DECADES = 4;
 /** Fraction of the viridis map used for profile colours: its last ~15 % is too pale on white. */
 const PROFILE_COLOUR_SPAN = 0.85;
+/** Room right of the last channel above the display floor, as a fraction of the shown range. */
+const PROFILE_X_MARGIN = 0.04;
 
 /** Common x range of a detector's resolution plots, so main and residual panels line up. */
 function resolutionRange(det: DetectorSite): [number, number] {
@@ -58,10 +60,12 @@ export function componentsPlot(det: DetectorSite, epochId?: string): PlotSpec {
   const ep = det.epochs.find((e) => e.id === epochId) ?? det.epochs[det.epochs.length - 1];
   const series: SeriesSpec[] = [];
   if (ep) {
-    // Components cycle through the palette without black (kept for the product), each with its own dash.
+    // Components cycle through the palette without black (kept for the product), each with its own
+    // dash; past the sixth the dash shifts by one so no two components share colour and dash.
     const colours = SERIES_COLOURS.filter((c) => c !== OKABE_ITO.black);
+    const dashes = SERIES_DASHES.filter((d) => d !== '');
     ep.components.forEach((c, i) =>
-      series.push({ ...lineSeries(`${c.name} (${c.kind})`, ep.energyKeV, c.values, i), colour: colours[i % colours.length], dash: SERIES_DASHES[(i % (SERIES_DASHES.length - 1)) + 1] || undefined }),
+      series.push({ ...lineSeries(`${c.name} (${c.kind})`, ep.energyKeV, c.values, i), colour: colours[i % colours.length], dash: dashes[(i + Math.floor(i / colours.length)) % dashes.length] }),
     );
     series.push({ ...lineSeries('detector efficiency (product of all)', ep.energyKeV, ep.detectorQE, 0), widthPx: 2.6, dash: undefined, colour: OKABE_ITO.black });
   }
@@ -142,11 +146,34 @@ export function defaultProfileIndices(n: number): number[] {
   return [...new Set([0, Math.floor((n - 1) / 2), n - 1])].filter((i) => i >= 0 && i < n);
 }
 
+/**
+ * Default channel range of the profile plot: from the lowest channel any row reaches (the event
+ * threshold cuts the rest) to a little above the highest channel any row reaches above the display
+ * floor. The channel grid usually runs well past the highest photon energy; zoom out shows it all.
+ */
+export function profileRange(p: DetectorSite['profiles'], floor: number): [number, number] | undefined {
+  const ch = p.channelEnergyKeV;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const row of p.rows)
+    row.forEach((v, c) => {
+      if (v > 0 && c < lo) lo = c;
+      if (v >= floor && c > hi) hi = c;
+    });
+  if (!Number.isFinite(lo) || !Number.isFinite(hi) || hi <= lo) return undefined;
+  const halfBin = (ch[Math.min(lo + 1, ch.length - 1)] - ch[lo]) / 2;
+  const span = ch[hi] - ch[lo];
+  return [roundSig(Math.max(0, ch[lo] - halfBin), 4) as number, roundSig(ch[hi] + PROFILE_X_MARGIN * span, 4) as number];
+}
+
 export function profilePlot(det: DetectorSite): PlotSpec {
   const p = det.profiles;
   const shown = new Set(defaultProfileIndices(p.energiesKeV.length));
   let peak = 0;
   for (const row of p.rows) for (const v of row) if (v > peak) peak = v;
+  const floor = peak / 10 ** PROFILE_DECADES;
+  const xRange = profileRange(p, floor);
+  const lastCh = p.channelEnergyKeV[p.channelEnergyKeV.length - 1];
   const series = p.rows.map((row, i) => ({
     ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i),
     step: true,
@@ -160,9 +187,10 @@ export function profilePlot(det: DetectorSite): PlotSpec {
     title: `${det.name}: line profiles (probability per channel)`,
     widthPx: W,
     heightPx: H,
-    x: { label: 'Channel energy', unit: 'keV', scale: 'linear', toggle: true },
-    y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, domain: peak > 0 ? [roundSig(peak / 10 ** PROFILE_DECADES, 2) as number, roundSig(peak * 1.5, 2) as number] : undefined },
+    x: { label: 'Channel energy', unit: 'keV', scale: 'linear', toggle: true, domain: xRange },
+    y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, domain: peak > 0 ? [roundSig(floor, 2) as number, roundSig(peak * 1.5, 2) as number] : undefined },
     series,
+    note: xRange && lastCh > xRange[1] ? `Channels ${roundSig(xRange[0], 3)}–${roundSig(xRange[1], 3)} keV shown, where the profiles lie; the channel grid runs to ${roundSig(lastCh, 4)} keV (zoom out to see it).` : undefined,
   };
 }
 

@@ -50,7 +50,7 @@ export function initCompare(): void {
       initPlots(body!);
       shown = `${a}|${b}`;
       status!.innerHTML = '';
-      status!.append(`Showing B = ${b} against A = ${a}.${a === b ? ' (Same release on both sides: all ratios are 1.)' : ''}`);
+      status!.append(`Showing B = ${b} against A = ${a}.${a === b ? ' (Same release on both sides: every ratio is 1 and every difference 0.)' : ''}`);
     } catch (e) {
       status!.textContent = `Could not load the documents: ${(e as Error).message}`;
     }

@@ -34,14 +34,19 @@ export function initFinder(): void {
       return;
     }
     const best = hits[0].release;
+    const detName = det.selectedOptions[0]?.textContent?.split(' — ')[0] ?? det.value;
+    const link = (h: (typeof hits)[number], dl = true) => `<a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}"${dl ? ' download' : ''}>${esc(fileName(h.product.path))}</a>`;
     const rows = hits.map(
       (h) =>
-        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td><span class="st st-${h.release.status}">${h.release.status}</span></td><td>${h.product.kind.toUpperCase()}</td><td>${esc(h.product.epoch)}</td><td>${esc(validity(h.product.validFrom, h.product.validTo))}</td><td><a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}" download>${esc(fileName(h.product.path))}</a></td><td class="num">${formatBytes(h.product.bytes)}</td><td><code class="hash">${esc(h.product.sha256)}</code></td><td>${h.warning ? `<span class="st st-warn">warning</span> ${esc(h.warning)}` : ''}</td></tr>`,
+        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td><span class="st st-${h.release.status}">${h.release.status}</span></td><td>${h.product.kind.toUpperCase()}</td><td>${esc(h.product.epoch)}</td><td class="nowrap">${esc(validity(h.product.validFrom, h.product.validTo))}</td><td class="nowrap">${link(h)}</td><td class="num">${formatBytes(h.product.bytes)}</td><td><code class="hash">${esc(h.product.sha256)}</code></td><td>${h.warning ? `<span class="st st-warn">warning</span> ${esc(h.warning)}` : ''}</td></tr>`,
     );
+    const bestFiles = hits.filter((h) => h.release.id === best.id);
     const bestWarn = hits[0].warning ? `<p class="callout danger">${esc(hits[0].warning)} No published or candidate release covers this date.</p>` : '';
+    const nRel = new Set(hits.map((h) => h.release.id)).size;
     out.innerHTML =
-      `<h2>Files for ${esc(det.value)} on ${esc(date.value)}</h2>${bestWarn}` +
-      `<p>Recommended: release <strong>${esc(best.id)}</strong> (${esc(best.status)}). ${hits.length} file(s) in ${new Set(hits.map((h) => h.release.id)).size} release(s).</p>` +
+      `<h2>Files for ${esc(detName)} (${esc(det.value)}) on ${esc(date.value)}</h2>${bestWarn}` +
+      `<p class="callout info" id="finder-best">Use release <a href="/releases/${esc(best.id)}/"><strong>${esc(best.id)}</strong></a> (${esc(best.status)}): ${bestFiles.map((h) => `${h.product.kind.toUpperCase()} ${link(h)}`).join(' and ')}.</p>` +
+      `<p>${hits.length} file${hits.length === 1 ? '' : 's'} in ${nRel} release${nRel === 1 ? '' : 's'} cover this date; the recommended ones are highlighted.</p>` +
       `<div class="table-wrap"><table class="data" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
   };
   form.addEventListener('submit', (e) => {

@@ -2,12 +2,30 @@
 import type { Check, ReleaseSite } from '../../generators/site-data/types.ts';
 import { analyseBytes, binOf, maybeGunzip, rmfRow, secondOpinion, type Analysis } from '../lib/inspect/index.ts';
 import { onGrid, ratio } from '../lib/compare/interp.ts';
-import { esc, figureHtml, fmt3, fmt4, lineSeries, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
+import { decimate, esc, figureHtml, fmt3, fmt4, lineSeries, MAX_LINE_POINTS, roundSig, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
 import { initPlots } from './plots.ts';
+import { defaultProfileIndices, profileRange } from '../lib/release-plots.ts';
 
 const ORDER = ['fail', 'warn', 'review', 'pass'];
 const W = 640;
 const H = 280;
+const EV_PER_KEV = 1000;
+/** Matrix rows drawn without a release to compare with: at these fractions of the file's energy grid. */
+const FILE_ROW_FRACTIONS = [0.25, 0.5, 0.75];
+/** Points per drawn row: the channel grid (~1000) thinned for display, peaks kept. */
+const PROFILE_POINTS = 700;
+/** Log-probability axes of matrix rows show six decades below the peak, as on the release pages. */
+const PROFILE_DECADES = 6;
+/** The site documents round curves to four significant digits (generators/pipeline/site-detector.ts). */
+const SITE_CURVE_DIGITS = 4;
+/** Digits kept for a ratio series (the default four would show 1e-4 steps). */
+const RATIO_DIGITS = 6;
+
+/** A ratio curve kept to RATIO_DIGITS (lineSeries rounds to four), thinned like the other curves. */
+function preciseSeries(label: string, x: number[], y: (number | null)[]): SeriesSpec {
+  const d = decimate(x, [y], MAX_LINE_POINTS);
+  return { ...lineSeries(label, [], [], 0), x: d.x.map((v) => roundSig(v, 6) as number), y: d.ys[0].map((v) => roundSig(v, RATIO_DIGITS)) };
+}
 
 function checksRows(checks: Check[]): string {
   const v = (x: number | string | null) => (x === null ? '—' : typeof x === 'number' ? fmt4(x) : esc(x));
@@ -23,7 +41,7 @@ function checksTable(checks: Check[]): string {
   const passed = sorted.filter((c) => c.status === 'pass');
   return (
     `<p id="inspect-counts">${n('fail')} fail · ${n('warn')} warn · ${n('review')} to review · ${n('pass')} pass</p>` +
-    `<div class="table-wrap"><table class="data" id="inspect-checks">${head}<tbody>${checksRows(open)}</tbody></table></div>` +
+    (open.length ? `<div class="table-wrap"><table class="data" id="inspect-checks">${head}<tbody>${checksRows(open)}</tbody></table></div>` : '<p>No failures, warnings or items to review.</p>') +
     (passed.length ? `<details><summary>${passed.length} passed checks</summary><div class="table-wrap"><table class="data" id="inspect-passed">${head}<tbody>${checksRows(passed)}</tbody></table></div></details>` : '')
   );
 }
@@ -32,6 +50,21 @@ async function release(id: string): Promise<ReleaseSite> {
   const r = await fetch(`/data/releases/${encodeURIComponent(id)}/site.json`);
   if (!r.ok) throw new Error(`release ${id}: HTTP ${r.status}`);
   return r.json();
+}
+
+/** One line about an RMF's grids and row sums, read from the file. */
+function rmfSummary(a: Analysis): string {
+  const d = a.rmf;
+  if (!d) return '';
+  let minSum = Infinity;
+  let maxSum = -Infinity;
+  for (let i = 0; i < d.rows.length; i++) {
+    let s = 0;
+    for (const v of d.rows[i].matrix) s += v;
+    minSum = Math.min(minSum, s);
+    maxSum = Math.max(maxSum, s);
+  }
+  return `<p id="inspect-summary">${d.energLoKeV.length} energy bins (${fmt4(d.energLoKeV[0])}–${fmt4(d.energHiKeV[d.energHiKeV.length - 1])} keV), ${d.detchans} channels (${fmt4(d.ebounds.eMinKeV[0])}–${fmt4(d.ebounds.eMaxKeV[d.ebounds.eMaxKeV.length - 1])} keV), row sums ${fmt4(minSum)}–${fmt4(maxSum)}, HDUCLAS3 ${esc(d.hduclas3)}.</p>`;
 }
 
 async function plots(a: Analysis, against: string): Promise<string> {
@@ -50,29 +83,52 @@ async function plots(a: Analysis, against: string): Promise<string> {
     out.push(figureHtml(spec));
     if (ep) {
       const r = ratio(onGrid(e, e, Array.from(d.specrespCm2)), onGrid(e, ep.energyKeV, ep.effectiveAreaCm2));
-      out.push(figureHtml({ id: 'inspect-arf-ratio', title: `Ratio release ${relId} / file`, widthPx: W, heightPx: 200, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: 'Ratio', unit: '', scale: 'linear', toggle: true }, yRef: 1, series: [lineSeries('release / file', e, r, 0)] }));
+      out.push(
+        figureHtml({
+          id: 'inspect-arf-ratio',
+          title: `Effective area ratio: release ${relId} ${det!.id} ${ep.id} / this file`,
+          widthPx: W,
+          heightPx: 200,
+          x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+          y: { label: 'Ratio release / file', unit: '', scale: 'linear', toggle: true },
+          yRef: 1,
+          series: [preciseSeries(`release ${relId} / file`, e, r)],
+          note: `The release curve comes from its site document, rounded to ${SITE_CURVE_DIGITS} significant digits: departures from 1 below about ${fmt3(0.5 * 10 ** (1 - SITE_CURVE_DIGITS))} are that rounding.`,
+        }),
+      );
     }
   }
   if (a.rmf) {
     const d = a.rmf;
     const ch = Array.from(d.ebounds.eMinKeV, (lo, i) => (lo + d.ebounds.eMaxKeV[i]) / 2);
-    const energies = det?.profiles.energiesKeV ?? [0.25, 0.5, 0.75].map((f) => d.energLoKeV[Math.floor(f * (d.energLoKeV.length - 1))]);
+    // Three rows (lowest, middle, highest of the release's profile energies, else of the file's
+    // grid): the file's row solid, the release's dashed in the same colour.
+    const picks = det ? defaultProfileIndices(det.profiles.energiesKeV.length) : [];
+    const energies = det ? picks.map((k) => det.profiles.energiesKeV[k]) : FILE_ROW_FRACTIONS.map((f) => d.energLoKeV[Math.floor(f * (d.energLoKeV.length - 1))]);
     const series: SeriesSpec[] = [];
+    const fileRows: number[][] = [];
     energies.forEach((eKeV, k) => {
       const i = binOf(d.energLoKeV, d.energHiKeV, eKeV);
-      series.push(lineSeries(`file, ${fmt4((d.energLoKeV[i] + d.energHiKeV[i]) / 2)} keV`, ch, Array.from(rmfRow(d, i), (v) => (v > 0 ? v : null)), k, 700));
-      if (det) series.push({ ...lineSeries(`release ${relId}, ${fmt4(eKeV)} keV`, det.profiles.channelEnergyKeV, det.profiles.rows[k].map((v) => (v > 0 ? v : null)), k, 700), dash: '5 3', widthPx: 1 });
+      const row = Array.from(rmfRow(d, i));
+      fileRows.push(row);
+      series.push({ ...lineSeries(`file, bin at ${fmt4((d.energLoKeV[i] + d.energHiKeV[i]) / 2)} keV`, ch, row.map((v) => (v > 0 ? v : null)), k, PROFILE_POINTS), dash: undefined });
+      if (det) series.push({ ...lineSeries(`release ${relId}, ${fmt4(eKeV)} keV`, det.profiles.channelEnergyKeV, det.profiles.rows[picks[k]].map((v) => (v > 0 ? v : null)), k, PROFILE_POINTS), dash: '5 3', widthPx: 1.2 });
     });
-    out.push(figureHtml({ id: 'inspect-rmf', title: 'Redistribution: rows of the matrix', widthPx: W, heightPx: H, x: { label: 'Channel energy', unit: 'keV', scale: 'linear', toggle: true }, y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, maxDecades: 6 }, series }));
-    let minSum = Infinity;
-    let maxSum = -Infinity;
-    for (let i = 0; i < d.rows.length; i++) {
-      let s = 0;
-      for (const v of d.rows[i].matrix) s += v;
-      minSum = Math.min(minSum, s);
-      maxSum = Math.max(maxSum, s);
-    }
-    out.unshift(`<p>${d.energLoKeV.length} energy bins (${fmt4(d.energLoKeV[0])}–${fmt4(d.energHiKeV[d.energHiKeV.length - 1])} keV), ${d.detchans} channels, row sums ${fmt4(minSum)}–${fmt4(maxSum)}, HDUCLAS3 ${esc(d.hduclas3)}.</p>`);
+    let peak = 0;
+    for (const row of fileRows) for (const v of row) peak = Math.max(peak, v);
+    const xRange = profileRange({ channelEnergyKeV: ch, energiesKeV: energies, rows: fileRows }, peak / 10 ** PROFILE_DECADES);
+    out.push(
+      figureHtml({
+        id: 'inspect-rmf',
+        title: det ? `Rows of the matrix: this file (solid) and release ${relId} ${det.id} (dashed)` : 'Rows of the matrix',
+        widthPx: W,
+        heightPx: H,
+        x: { label: 'Channel energy', unit: 'keV', scale: 'linear', toggle: true, domain: xRange },
+        y: { label: 'Probability per channel', unit: '', scale: 'log', toggle: true, maxDecades: PROFILE_DECADES },
+        series,
+        note: det ? `The file's row is the energy bin containing each release profile energy, so the two can differ by up to one bin (${fmt3(((d.energHiKeV[0] - d.energLoKeV[0]) * EV_PER_KEV))} eV wide at the low end).` : undefined,
+      }),
+    );
   }
   if (against && !det) out.push(`<p class="muted">The chosen release product was not found in its site document.</p>`);
   return out.join('');
@@ -88,9 +144,11 @@ async function handle(file: File, against: string, out: HTMLElement) {
     return;
   }
   const a = analyseBytes(bytes, file.name);
-  const parts: string[] = [`<h2>${esc(file.name)} <span class="muted">(${a.kind.toUpperCase()}, ${bytes.length} bytes uncompressed)</span></h2>`];
+  const gz = bytes.length !== file.size;
+  const kind = a.kind === 'unknown' ? 'kind unknown' : a.kind.toUpperCase();
+  const parts: string[] = [`<h2>${esc(file.name)} <span class="muted">(${kind}, ${bytes.length} bytes${gz ? ` after gunzip, ${file.size} compressed` : ''})</span></h2>`];
   if (a.error) parts.push(`<div class="callout danger" id="inspect-error"><strong>Not a readable FITS product.</strong> ${esc(a.error)}</div>`);
-  if (a.hdus.length) parts.push(`<p>HDUs (Kiln reader): ${a.hdus.map((h) => `${h.index}: ${esc(h.name || 'PRIMARY')}${h.rows ? ` (${h.rows} rows)` : ''}`).join(' · ')}</p>`);
+  if (a.hdus.length) parts.push(rmfSummary(a), `<p>HDUs (Kiln reader): ${a.hdus.map((h) => `${h.index}: ${esc(h.name || 'PRIMARY')}${h.rows ? ` (${h.rows} rows)` : ''}`).join(' · ')}</p>`);
   if (!a.error) {
     try {
       parts.push('<h3>Plots</h3>', await plots(a, against));

@@ -23,3 +23,31 @@ export function validationDiff(a: ValidationReport, b: ValidationReport): CheckD
   for (const cb of b.checks) if (!ma.has(key(cb))) out.push({ id: cb.id, product: cb.product, title: cb.title, a: null, b: cb });
   return out;
 }
+
+export interface OneSidedProduct {
+  product: string | null;
+  checks: Check[];
+}
+
+/**
+ * The same differences, with the checks of a product that exists in one release only folded into
+ * one entry per product (a new epoch's ARF brings some twenty checks, all "absent" on the other side).
+ */
+export function splitValidationDiff(a: ValidationReport, b: ValidationReport): { both: CheckDiff[]; onlyA: OneSidedProduct[]; onlyB: OneSidedProduct[] } {
+  const productsA = new Set(a.checks.map((c) => c.product));
+  const productsB = new Set(b.checks.map((c) => c.product));
+  const both: CheckDiff[] = [];
+  const onlyA = new Map<string | null, Check[]>();
+  const onlyB = new Map<string | null, Check[]>();
+  const add = (m: Map<string | null, Check[]>, c: Check) => m.set(c.product, [...(m.get(c.product) ?? []), c]);
+  for (const d of validationDiff(a, b)) {
+    if (d.a && !d.b && !productsB.has(d.product)) add(onlyA, d.a);
+    else if (d.b && !d.a && !productsA.has(d.product)) add(onlyB, d.b);
+    else both.push(d);
+  }
+  // A check whose result changed matters more than one whose measured value moved.
+  const flipped = (d: CheckDiff) => Number(!!d.a && !!d.b && d.a.status !== d.b.status);
+  both.sort((x, y) => flipped(y) - flipped(x));
+  const list = (m: Map<string | null, Check[]>) => [...m].map(([product, checks]) => ({ product, checks }));
+  return { both, onlyA: list(onlyA), onlyB: list(onlyB) };
+}

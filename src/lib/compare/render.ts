@@ -1,25 +1,41 @@
 /**
  * The compare page's body as an HTML string: used at build time for the default pair and in the
- * browser when the reader picks another pair. Only ratios and differences of published numbers.
+ * browser when the reader picks another pair. Only ratios and differences of published numbers:
+ * effective area as a ratio B / A and a difference; FWHM and centroid as differences in eV (a
+ * ratio of centroids would hide a 10 eV shift in a number like 0.998).
  */
-import type { ReleaseSite, ValidationReport } from '../../../generators/site-data/types.ts';
-import { esc, figureHtml, fmt3, fmt4, lineSeries, type PlotSpec, type SeriesSpec } from '../plot/index.ts';
-import { validationDiff } from './checks.ts';
+import type { ParameterRow, ReleaseSite, ValidationReport } from '../../../generators/site-data/types.ts';
+import { decimate, esc, figureHtml, fmt3, fmtMeasured, lineSeries, MAX_LINE_POINTS, roundSig, type PlotSpec, type SeriesSpec } from '../plot/index.ts';
+import { splitValidationDiff } from './checks.ts';
 import { difference, onGrid, ratio } from './interp.ts';
 import { pairEpochs, pairLabel } from './epochs.ts';
-import { parameterChanges } from './params.ts';
+import { parameterChanges, type ParameterChange } from './params.ts';
 
 const W = 640;
 const H = 230;
-const EV_PER_KEV = 1000;
+/** Digits kept for ratios and differences: the published curves carry four significant digits. */
+const DIFF_DIGITS = 6;
 
-function pairPlot(id: string, title: string, yLabel: string, yUnit: string, series: SeriesSpec[], yRef: number, yScale: 'linear' | 'log' = 'linear'): PlotSpec {
-  return { id, title, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: yLabel, unit: yUnit, scale: yScale, toggle: true }, yRef, series };
+const same = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, k) => v === y[k]);
+
+/** "A = 1.1.0", "B = 2.0.0": every title and header says which release is which. */
+const tagA = (a: ReleaseSite) => `A = ${a.id}`;
+const tagB = (b: ReleaseSite) => `B = ${b.id}`;
+
+/** Differences (yRef 0) change sign, so only ratio plots offer a log y axis. */
+function pairPlot(id: string, title: string, yLabel: string, yUnit: string, series: SeriesSpec[], yRef: number, note?: string): PlotSpec {
+  return { id, title, widthPx: W, heightPx: H, x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true }, y: { label: yLabel, unit: yUnit, scale: 'linear', toggle: yRef > 0 }, yRef, series, note };
 }
+
+/** lineSeries keeps 4 digits: enough for a curve, too coarse for a ratio that differs from 1 at 1e-4. */
+const precise = (label: string, x: number[], y: (number | null)[], i: number): SeriesSpec => {
+  const d = decimate(x, [y], MAX_LINE_POINTS);
+  return { ...lineSeries(label, [], [], i), x: d.x.map((v) => roundSig(v, 5) as number), y: d.ys[0].map((v) => roundSig(v, DIFF_DIGITS)) };
+};
 
 export function compareHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport, vb: ValidationReport): string {
   const out: string[] = [];
-  const lbl = `${b.id} vs ${a.id}`;
+  const AB = `${tagB(b)} against ${tagA(a)}`;
   for (const da of a.detectors) {
     const db = b.detectors.find((d) => d.id === da.id);
     out.push(`<section class="cmp-det"><h2 id="cmp-${esc(da.id)}">${esc(da.name)} <span class="muted">(${esc(da.kind)})</span></h2>`);
@@ -32,51 +48,107 @@ export function compareHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport
     const pairs = pairEpochs(da.epochs, db.epochs);
     pairs.forEach((p, i) => {
       const yb = onGrid(p.a.energyKeV, p.b.energyKeV, p.b.effectiveAreaCm2);
-      eaR.push(lineSeries(pairLabel(p), p.a.energyKeV, ratio(p.a.effectiveAreaCm2, yb), i));
-      eaD.push(lineSeries(pairLabel(p), p.a.energyKeV, difference(p.a.effectiveAreaCm2, yb), i));
+      eaR.push(precise(pairLabel(p), p.a.energyKeV, ratio(p.a.effectiveAreaCm2, yb), i));
+      eaD.push(precise(pairLabel(p), p.a.energyKeV, difference(p.a.effectiveAreaCm2, yb), i));
     });
     const crossed = pairs.filter((p) => p.a.id !== p.b.id);
     if (crossed.length)
       out.push(
-        `<p class="muted">Epochs are paired by observation date: each epoch of ${esc(b.id)} against the epoch of ${esc(a.id)} ${crossed.every((p) => p.how === 'in force') ? 'in force' : 'in force (or nearest)'} on its reference date — ${crossed.map((p) => `${esc(p.b.id)} (${esc(p.b.date)}) vs ${esc(p.a.id)}`).join('; ')}.</p>`,
+        `<p class="muted">Epochs are paired by observation date: each epoch of B (${esc(b.id)}) against the epoch of A (${esc(a.id)}) ${crossed.every((p) => p.how === 'in force') ? 'in force' : 'in force (or nearest)'} on its reference date — ${crossed.map((p) => `${esc(p.b.id)} (${esc(p.b.date)}) vs ${esc(p.a.id)}`).join('; ')}.</p>`,
       );
-    const unchanged = pairs.filter((p) => p.a.effectiveAreaCm2.length === p.b.effectiveAreaCm2.length && p.a.effectiveAreaCm2.every((v, k) => v === p.b.effectiveAreaCm2[k]) && p.a.energyKeV.every((v, k) => v === p.b.energyKeV[k]));
-    if (unchanged.length) out.push(`<p class="muted">Effective area identical in both releases for ${esc(unchanged.map(pairLabel).join(', '))} (ratio 1, difference 0).</p>`);
+    const unchanged = pairs.filter((p) => same(p.a.effectiveAreaCm2, p.b.effectiveAreaCm2) && same(p.a.energyKeV, p.b.energyKeV));
+    const eaNote = (what: string) =>
+      !unchanged.length
+        ? undefined
+        : unchanged.length === pairs.length
+          ? `Identical in A and B for every epoch: all curves lie on the dashed line (${what}).`
+          : `Identical in A and B for ${unchanged.map(pairLabel).join(', ')}: those curves lie on the dashed line (${what}).`;
     const r = da.resolution;
-    const fb = onGrid(r.energyKeV, db.resolution.energyKeV, db.resolution.fwhmEv);
-    const cb = onGrid(r.energyKeV, db.resolution.energyKeV, db.resolution.centroidOffsetEv);
-    const centA = r.energyKeV.map((e, i) => e * EV_PER_KEV + r.centroidOffsetEv[i]);
-    const centB = r.energyKeV.map((e, i) => (cb[i] === null ? null : e * EV_PER_KEV + (cb[i] as number)));
+    const rb = db.resolution;
+    const fb = onGrid(r.energyKeV, rb.energyKeV, rb.fwhmEv);
+    const cb = onGrid(r.energyKeV, rb.energyKeV, rb.centroidOffsetEv);
+    const sameGrid = same(r.energyKeV, rb.energyKeV);
+    const flat = (what: string) => `Identical model ${what} in A and B: the difference is 0 eV at every energy (flat line).`;
     const id = (s: string) => `cmp-${s}-${da.id}`;
-    out.push('<div class="plot-grid">');
-    out.push(figureHtml(pairPlot(id('ea-r'), `Effective area ratio ${b.id} / ${a.id}`, 'Ratio', '', eaR, 1)));
-    out.push(figureHtml(pairPlot(id('ea-d'), `Effective area difference ${b.id} − ${a.id}`, 'Difference', 'cm²', eaD, 0)));
-    out.push(figureHtml(pairPlot(id('fw-r'), `FWHM ratio ${b.id} / ${a.id}`, 'Ratio', '', [lineSeries('model FWHM', r.energyKeV, ratio(r.fwhmEv, fb), 0)], 1)));
-    out.push(figureHtml(pairPlot(id('fw-d'), `FWHM difference ${b.id} − ${a.id}`, 'Difference', 'eV', [lineSeries('model FWHM', r.energyKeV, difference(r.fwhmEv, fb), 0)], 0)));
-    out.push(figureHtml(pairPlot(id('ce-r'), `Centroid energy ratio ${b.id} / ${a.id}`, 'Ratio', '', [lineSeries('model centroid', r.energyKeV, ratio(centA, centB), 0)], 1)));
-    out.push(figureHtml(pairPlot(id('ce-d'), `Centroid difference ${b.id} − ${a.id}`, 'Difference', 'eV', [lineSeries('model centroid', r.energyKeV, difference(r.centroidOffsetEv, cb), 0)], 0)));
+    out.push(`<h3>Effective area <span class="muted">(${esc(AB)})</span></h3><div class="plot-grid">`);
+    out.push(figureHtml(pairPlot(id('ea-r'), `${da.name}: effective area ratio B / A (${b.id} / ${a.id})`, 'Ratio B / A', '', eaR, 1, eaNote('ratio 1'))));
+    out.push(figureHtml(pairPlot(id('ea-d'), `${da.name}: effective area difference B − A (${b.id} − ${a.id})`, 'B − A', 'cm²', eaD, 0, eaNote('difference 0 cm²'))));
+    out.push('</div>');
+    out.push(`<h3>Resolution and energy scale <span class="muted">(model curves, ${esc(AB)})</span></h3><div class="plot-grid">`);
+    out.push(
+      figureHtml(
+        pairPlot(id('fw-d'), `${da.name}: FWHM difference B − A (${b.id} − ${a.id})`, 'FWHM B − A', 'eV', [precise('model FWHM, B − A', r.energyKeV, difference(r.fwhmEv, fb), 0)], 0, sameGrid && same(r.fwhmEv, rb.fwhmEv) ? flat('FWHM') : undefined),
+      ),
+    );
+    out.push(
+      figureHtml(
+        pairPlot(
+          id('ce-d'),
+          `${da.name}: centroid difference B − A (${b.id} − ${a.id})`,
+          'Centroid B − A',
+          'eV',
+          [precise('model centroid, B − A', r.energyKeV, difference(r.centroidOffsetEv, cb), 0)],
+          0,
+          sameGrid && same(r.centroidOffsetEv, rb.centroidOffsetEv) ? flat('centroid') : 'Difference of the published centroid offsets (centroid − line energy) at the same photon energy.',
+        ),
+      ),
+    );
     out.push('</div></section>');
   }
+  out.push(parametersHtml(a, b));
+  out.push(validationHtml(a, b, va, vb));
+  return out.join('');
+}
 
+function parameterRows(rows: ParameterChange[]): string {
+  const v = (p: ParameterRow | null) => {
+    if (!p) return '<em>absent</em>';
+    const m = fmtMeasured(p.value, p.uncertainty);
+    return p.uncertainty !== null ? `${m.value} ± ${m.uncertainty}` : m.value;
+  };
+  return rows
+    .map(
+      (p) =>
+        `<tr class="${p.changed ? 'changed' : 'same'}"><td>${esc(p.detector ?? 'all')}</td><td>${esc(p.group)}</td><td>${esc(p.name)}</td><td class="num">${v(p.a)}</td><td class="num">${v(p.b)}</td><td class="num">${p.delta === null ? '—' : fmt3(p.delta)}</td><td class="num">${p.deltaSigma === null ? '—' : fmt3(p.deltaSigma)}</td><td>${esc(p.unit)}</td></tr>`,
+    )
+    .join('');
+}
+
+function parametersHtml(a: ReleaseSite, b: ReleaseSite): string {
   const pc = parameterChanges(a.parameters, b.parameters);
-  const nChanged = pc.filter((p) => p.changed).length;
-  out.push(`<section><h2 id="cmp-params">Parameter changes <span class="muted">(${nChanged} of ${pc.length} differ; ${esc(lbl)})</span></h2>`);
-  out.push(`<div class="table-wrap"><table class="data"><thead><tr><th>Detector</th><th>Group</th><th>Parameter</th><th class="num">${esc(a.id)}</th><th class="num">${esc(b.id)}</th><th class="num">Δ</th><th class="num">Δ/σ</th><th>Unit</th></tr></thead><tbody>`);
-  const v = (p: { value: number; uncertainty: number | null } | null) => (p ? `${fmt4(p.value)}${p.uncertainty !== null ? ` ± ${fmt3(p.uncertainty)}` : ''}` : '<em>absent</em>');
-  for (const p of pc)
-    out.push(
-      `<tr class="${p.changed ? 'changed' : 'same'}"><td>${esc(p.detector ?? 'all')}</td><td>${esc(p.group)}</td><td>${esc(p.name)}</td><td class="num">${v(p.a)}</td><td class="num">${v(p.b)}</td><td class="num">${p.delta === null ? '—' : fmt3(p.delta)}</td><td class="num">${p.deltaSigma === null ? '—' : fmt3(p.deltaSigma)}</td><td>${esc(p.unit)}</td></tr>`,
-    );
-  out.push('</tbody></table></div></section>');
+  const changed = pc.filter((p) => p.changed);
+  const kept = pc.filter((p) => !p.changed);
+  const head = `<thead><tr><th>Detector</th><th>Group</th><th>Parameter</th><th class="num">A = ${esc(a.id)}</th><th class="num">B = ${esc(b.id)}</th><th class="num">Δ = B − A</th><th class="num" title="Δ over both 1σ uncertainties added in quadrature">Δ / σ</th><th>Unit</th></tr></thead>`;
+  const out: string[] = [`<section><h2 id="cmp-params">Parameter changes <span class="muted">(${changed.length} of ${pc.length} differ)</span></h2>`];
+  out.push('<p class="muted">Values ± 1σ. Δ / σ divides the change by both uncertainties added in quadrature (when both releases give one).</p>');
+  if (changed.length) out.push(`<div class="table-wrap"><table class="data" id="cmp-params-changed">${head}<tbody>${parameterRows(changed)}</tbody></table></div>`);
+  else out.push('<p>No parameter differs.</p>');
+  if (kept.length) out.push(`<details><summary>${kept.length} unchanged parameters</summary><div class="table-wrap"><table class="data">${head}<tbody>${parameterRows(kept)}</tbody></table></div></details>`);
+  out.push('</section>');
+  return out.join('');
+}
 
-  const vd = validationDiff(va, vb);
-  out.push(`<section><h2 id="cmp-checks">Validation differences <span class="muted">(${vd.length})</span></h2>`);
-  if (!vd.length) out.push('<p>Both releases have the same checks with the same results.</p>');
-  else {
-    out.push(`<div class="table-wrap"><table class="data"><thead><tr><th>Check</th><th>Product</th><th>${esc(a.id)}</th><th>${esc(b.id)}</th></tr></thead><tbody>`);
-    const cell = (c: (typeof vd)[number]['a']) =>
-      c ? `<span class="st st-${c.status}">${c.status}</span> ${esc(c.measured === null ? '' : String(typeof c.measured === 'number' ? fmt4(c.measured) : c.measured))}${c.unit ? ` ${esc(c.unit)}` : ''}` : '<em>absent</em>';
-    for (const d of vd) out.push(`<tr><td>${esc(d.title)} <code>${esc(d.id)}</code></td><td>${esc(d.product ?? 'release')}</td><td>${cell(d.a)}</td><td>${cell(d.b)}</td></tr>`);
+function validationHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport, vb: ValidationReport): string {
+  const { both, onlyA, onlyB } = splitValidationDiff(va, vb);
+  const n = both.length + onlyA.reduce((s, g) => s + g.checks.length, 0) + onlyB.reduce((s, g) => s + g.checks.length, 0);
+  const out: string[] = [`<section><h2 id="cmp-checks">Validation differences <span class="muted">(${n} checks)</span></h2>`];
+  if (!n) out.push('<p>Both releases have the same checks with the same results.</p>');
+  const tally = (checks: { status: string }[]) =>
+    ['fail', 'warn', 'review', 'pass']
+      .map((s) => [s, checks.filter((c) => c.status === s).length] as const)
+      .filter(([, k]) => k)
+      .map(([s, k]) => `${k} ${s}`)
+      .join(', ');
+  const groups = (side: string, rel: string, gs: typeof onlyA) =>
+    gs.length
+      ? `<p>Only in ${side} = ${esc(rel)}: ${gs.map((g) => `<strong>${esc(g.product ?? 'release-level checks')}</strong> (${g.checks.length} checks: ${tally(g.checks)})`).join('; ')}.</p>`
+      : '';
+  out.push(groups('A', a.id, onlyA), groups('B', b.id, onlyB));
+  if (both.length) {
+    out.push(`<div class="table-wrap"><table class="data" id="cmp-checks-table"><thead><tr><th>Check</th><th>Product</th><th>A = ${esc(a.id)}</th><th>B = ${esc(b.id)}</th></tr></thead><tbody>`);
+    const cell = (c: (typeof both)[number]['a']) =>
+      c ? `<span class="st st-${c.status}">${c.status}</span> ${esc(c.measured === null ? '' : typeof c.measured === 'number' ? fmtMeasured(c.measured, null).value : c.measured)}${c.unit ? ` ${esc(c.unit)}` : ''}` : '<em>absent</em>';
+    for (const d of both) out.push(`<tr><td>${esc(d.title)} <code>${esc(d.id)}</code></td><td class="nowrap">${esc(d.product ?? 'release')}</td><td>${cell(d.a)}</td><td>${cell(d.b)}</td></tr>`);
     out.push('</tbody></table></div>');
   }
   out.push('</section>');
