@@ -166,7 +166,11 @@ export function planBinTable(columns: ColumnInput[], ctx?: FitsContext): BinTabl
             const arr = cell as ArrayLike<unknown>;
             if (arr === null || typeof arr !== 'object' || typeof arr.length !== 'number') fitsFail(ctx, `bad value in column ${where()}`, { expected: 'an array for a variable-length column' });
             len = arr.length;
-            for (let k = 0; k < len; k++) writeElement(view, heapAt + k * el, f.type, arr[k], where, ctx);
+            // Typed arrays of the column's own type need no per-element validation (matrix rows).
+            if (f.type === 'E' && arr instanceof Float32Array) for (let k = 0; k < len; k++) view.setFloat32(heapAt + 4 * k, arr[k]);
+            else if (f.type === 'J' && arr instanceof Int32Array) for (let k = 0; k < len; k++) view.setInt32(heapAt + 4 * k, arr[k]);
+            else if (f.type === 'D' && arr instanceof Float64Array) for (let k = 0; k < len; k++) view.setFloat64(heapAt + 8 * k, arr[k]);
+            else for (let k = 0; k < len; k++) writeElement(view, heapAt + k * el, f.type, arr[k], where, ctx);
           }
           view.setInt32(off, len);
           view.setInt32(off + 4, heapPos);

@@ -31,7 +31,9 @@ export interface ProfileParams {
 export type ProfileComponent =
   | { kind: 'gaussian'; role: 'core' | 'escape' | 'fluorescence'; fraction: number; centroidKeV: number; sigmaKeV: number }
   | { kind: 'tail'; fraction: number; centroidKeV: number; sigmaKeV: number; scaleKeV: number }
-  | { kind: 'shelf'; fraction: number; lowKeV: number; highKeV: number; sigmaKeV: number };
+  | { kind: 'shelf'; fraction: number; lowKeV: number; highKeV: number; sigmaKeV: number }
+  /** Core and tail of one line together (same centroid and σ): one Φ per point serves both. */
+  | { kind: 'peak'; fraction: number; centroidKeV: number; sigmaKeV: number; scaleKeV: number; tailShare: number };
 
 /** Gaussian window half-width in σ beyond which a component's CDF is taken as exactly 0 or 1 (Φ(−8) ≈ 6e-16). */
 export const WINDOW_SIGMAS = 8;
@@ -68,6 +70,9 @@ export function emgLowTailPdf(x: number, c: number, s: number, tau: number): num
 
 /** ψ(z) = ∫_{−∞}^{z} Φ(t) dt = z·Φ(z) + φ(z), stable for both signs. */
 function psi(z: number): number {
+  // ψ(−z) < φ(z)/z² < 1e-16 beyond the Gaussian window: ψ(z) = z and ψ(−z) = 0 to double precision.
+  if (z >= WINDOW_SIGMAS) return z;
+  if (z <= -WINDOW_SIGMAS) return 0;
   if (z > 0) return z + psi(-z);
   // z ≤ 0: Φ(z) = ½·erfcx(−z/√2)·exp(−z²/2)
   const g = Math.exp(-0.5 * z * z);
@@ -97,6 +102,7 @@ export function componentWindow(c: ProfileComponent): [number, number] {
     case 'gaussian':
       return [c.centroidKeV - WINDOW_SIGMAS * c.sigmaKeV, c.centroidKeV + WINDOW_SIGMAS * c.sigmaKeV];
     case 'tail':
+    case 'peak':
       return [c.centroidKeV - TAIL_EFOLDINGS * c.scaleKeV - WINDOW_SIGMAS * c.sigmaKeV, c.centroidKeV + WINDOW_SIGMAS * c.sigmaKeV];
     case 'shelf':
       return [c.lowKeV - WINDOW_SIGMAS * c.sigmaKeV, c.highKeV + WINDOW_SIGMAS * c.sigmaKeV];
@@ -134,7 +140,44 @@ export function componentCdf(c: ProfileComponent): (x: number) => number {
       const { lowKeV, highKeV, sigmaKeV } = c;
       return (x) => (x <= wlo ? 0 : x >= whi ? 1 : shelfCdf(x, lowKeV, highKeV, sigmaKeV));
     }
+    case 'peak': {
+      // (1 − a)·Φ(u/σ) + a·(Φ(u/σ) + emgTerm) = Φ(u/σ) + a·emgTerm, a the tail's share.
+      const mu = c.centroidKeV;
+      const s = c.sigmaKeV;
+      const tau = c.scaleKeV;
+      const a = c.tailShare;
+      const uFast = -s * (WINDOW_SIGMAS + s / tau);
+      const shift = (0.5 * s * s) / (tau * tau);
+      return (x) => {
+        if (x <= wlo) return 0;
+        if (x >= whi) return 1;
+        const u = x - mu;
+        if (u < uFast) return a * Math.exp(u / tau + shift);
+        return normalCdf(u / s) + a * emgTerm(u, s, tau);
+      };
+    }
   }
+}
+
+/**
+ * The same mixture with the core and the tail of the line merged into one 'peak' component
+ * (their CDFs share Φ(u/σ)): the matrix builder evaluates fewer special functions per channel.
+ */
+export function mergeCoreAndTail(components: readonly ProfileComponent[]): ProfileComponent[] {
+  const core = components.find((c) => c.kind === 'gaussian' && c.role === 'core');
+  const tail = components.find((c) => c.kind === 'tail');
+  if (!core || core.kind !== 'gaussian' || !tail || tail.kind !== 'tail') return [...components];
+  if (core.centroidKeV !== tail.centroidKeV || core.sigmaKeV !== tail.sigmaKeV) return [...components];
+  const fraction = core.fraction + tail.fraction;
+  const peak: ProfileComponent = {
+    kind: 'peak',
+    fraction,
+    centroidKeV: tail.centroidKeV,
+    sigmaKeV: tail.sigmaKeV,
+    scaleKeV: tail.scaleKeV,
+    tailShare: tail.fraction / fraction,
+  };
+  return [peak, ...components.filter((c) => c !== core && c !== tail)];
 }
 
 export function componentPdf(c: ProfileComponent, x: number): number {
@@ -145,6 +188,8 @@ export function componentPdf(c: ProfileComponent, x: number): number {
       return emgLowTailPdf(x, c.centroidKeV, c.sigmaKeV, c.scaleKeV);
     case 'shelf':
       return shelfPdf(x, c.lowKeV, c.highKeV, c.sigmaKeV);
+    case 'peak':
+      return (1 - c.tailShare) * gaussianPdf(x, c.centroidKeV, c.sigmaKeV) + c.tailShare * emgLowTailPdf(x, c.centroidKeV, c.sigmaKeV, c.scaleKeV);
   }
 }
 

@@ -12,7 +12,7 @@
 import type { ResponseMeta, RmfData, RmfRow } from './types.ts';
 import type { ChannelGrid, EnergyGridSpec, LineFit, RedistributionSpec } from './model-types.ts';
 import type { EscapeInputs } from '../physics/escape.ts';
-import { componentCdf, componentWindow, profileComponents, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
+import { componentCdf, componentWindow, mergeCoreAndTail, profileComponents, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
 import { buildParamsAt, type ParamsAt } from './params.ts';
 import { channelBoundsKeV, checkEnergyBins, energyGrid, type EnergyBins } from './grid.ts';
 import { eboundsFromChannels } from './ebounds.ts';
@@ -148,7 +148,7 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
         const pe = paramsAt(e[k] - silicon.kAlphaKeV);
         ctx.escape = { centroidKeV: pe.centroidKeV, sigmaKeV: pe.sigmaKeV };
       }
-      for (const c of profileComponents(p, ctx, e[k])) addComponent(prob, rc, c, w[k] * c.fraction, acc);
+      for (const c of mergeCoreAndTail(profileComponents(p, ctx, e[k]))) addComponent(prob, rc, c, w[k] * c.fraction, acc);
     }
     const { row, dropped } = compressRow(prob, cut, channels.firstChannel);
     rows[i] = row;
