@@ -1,7 +1,7 @@
 /** Compare helpers: expected values worked out by hand in the comments. */
 import { describe, expect, it } from 'vitest';
 import type { ParameterRow } from '../../generators/site-data/types.ts';
-import { defaultPair, difference, onGrid, pairEpochs, parameterChanges, ratio, validationDiff } from '../../src/lib/compare/index.ts';
+import { defaultPair, difference, onGrid, pairEpochs, parameterChanges, ratio, splitValidationDiff, validationDiff } from '../../src/lib/compare/index.ts';
 import type { EpochSite } from '../../generators/site-data/types.ts';
 
 describe('onGrid', () => {
@@ -67,5 +67,27 @@ describe('pairEpochs', () => {
     expect(pairEpochs(a, b).map((p) => p.a.id)).toEqual(['e1', 'e2']);
     // Before every A epoch: e0 on 2026-01-01 has no covering A epoch and no same id → nearest is e1.
     expect(pairEpochs(a, [ep('e0', '2026-01-01', '2026-01-01', '2026-05-12')])[0]).toMatchObject({ how: 'nearest', a: { id: 'e1' } });
+  });
+});
+
+describe('splitValidationDiff', () => {
+  const c = (id: string, product: string | null, status: 'pass' | 'fail' | 'review', measured: number) => ({ id, title: id, product, status, measured, tolerance: 1, unit: null, message: '' });
+  it('folds the checks of a product present on one side only, puts flipped results first', () => {
+    // A has products p and gone; B has p and new. On p: x moves (pass → pass), y flips (pass → fail).
+    const d = splitValidationDiff(
+      { schema: 'kiln/validation/1', release: 'a', checks: [c('x', 'p', 'pass', 1), c('y', 'p', 'pass', 1), c('k', 'gone', 'pass', 1)] },
+      { schema: 'kiln/validation/1', release: 'b', checks: [c('x', 'p', 'pass', 2), c('y', 'p', 'fail', 1), c('k', 'new', 'pass', 1), c('m', 'new', 'review', 1)] },
+    );
+    expect(d.both.map((x) => x.id)).toEqual(['y', 'x']);
+    expect(d.onlyA).toEqual([{ product: 'gone', checks: [expect.objectContaining({ id: 'k' })] }]);
+    expect(d.onlyB.map((g) => [g.product, g.checks.map((x) => x.id)])).toEqual([['new', ['k', 'm']]]);
+  });
+  it('keeps a check missing from a product that both releases have in the table', () => {
+    const d = splitValidationDiff(
+      { schema: 'kiln/validation/1', release: 'a', checks: [c('x', 'p', 'pass', 1), c('z', 'p', 'pass', 1)] },
+      { schema: 'kiln/validation/1', release: 'b', checks: [c('x', 'p', 'pass', 1)] },
+    );
+    expect(d.both.map((x) => [x.id, x.b])).toEqual([['z', null]]);
+    expect(d.onlyA).toEqual([]);
   });
 });
