@@ -15,6 +15,8 @@ const W = 640;
 const H = 230;
 /** Digits kept for ratios and differences: the published curves carry four significant digits. */
 const DIFF_DIGITS = 6;
+/** The site documents round curves to four significant digits (generators/pipeline/site-detector.ts). */
+const SITE_CURVE_DIGITS = 4;
 
 const same = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, k) => v === y[k]);
 
@@ -72,7 +74,8 @@ export function compareHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport
     const id = (s: string) => `cmp-${s}-${da.id}`;
     out.push(`<h3>Effective area <span class="muted">(${esc(AB)})</span></h3><div class="plot-grid">`);
     out.push(figureHtml(pairPlot(id('ea-r'), `${da.name}: effective area ratio B / A (${b.id} / ${a.id})`, 'Ratio B / A', '', eaR, 1, eaNote('ratio 1'))));
-    out.push(figureHtml(pairPlot(id('ea-d'), `${da.name}: effective area difference B − A (${b.id} − ${a.id})`, 'B − A', 'cm²', eaD, 0, eaNote('difference 0 cm²'))));
+    const rounding = `The published curves carry ${SITE_CURVE_DIGITS} significant digits: wiggles below about ${fmt3(0.5 * 10 ** (1 - SITE_CURVE_DIGITS) * 100)} % of the area are that rounding.`;
+    out.push(figureHtml(pairPlot(id('ea-d'), `${da.name}: effective area difference B − A (${b.id} − ${a.id})`, 'B − A', 'cm²', eaD, 0, [eaNote('difference 0 cm²'), rounding].filter(Boolean).join(' '))));
     out.push('</div>');
     out.push(`<h3>Resolution and energy scale <span class="muted">(model curves, ${esc(AB)})</span></h3><div class="plot-grid">`);
     out.push(
