@@ -67,9 +67,16 @@ function profiles(rmf: RmfData, lineEnergies: number[]): ProfileSet {
 }
 
 /** Block-averaged log10 probability image of the matrix. */
+/** The image's channel axis stops this far beyond the highest photon energy (room for the resolution). */
+const IMAGE_CHANNEL_MARGIN = 1.05;
+
 function matrixImage(rmf: RmfData): MatrixImage {
   const nE = rmf.rows.length;
-  const nC = rmf.detchans;
+  // Channels far above the highest photon energy hold nothing: leave them out of the picture.
+  const eTop = rmf.energHiKeV[nE - 1] * IMAGE_CHANNEL_MARGIN;
+  let nC = 0;
+  while (nC < rmf.detchans && rmf.ebounds.eMinKeV[nC] < eTop) nC++;
+  nC = Math.max(1, nC);
   const rowsOut = Math.min(IMAGE_ROWS, nE);
   const colsOut = Math.min(IMAGE_COLUMNS, nC);
   const sum = new Float64Array(rowsOut * colsOut);
@@ -81,6 +88,7 @@ function matrixImage(rmf: RmfData): MatrixImage {
     for (let g = 0; g < row.fChan.length; g++) {
       for (let j = 0; j < row.nChan[g]; j++, k++) {
         const c = row.fChan[g] - rmf.firstChannel + j;
+        if (c >= nC) continue;
         const col = Math.min(colsOut - 1, Math.floor((c * colsOut) / nC));
         sum[r * colsOut + col] += row.matrix[k];
       }

@@ -172,7 +172,11 @@ export interface ProfileSet {
 export interface MatrixImage {
   /** Release-relative path of a PNG rendered by the build (log colour scale), or null. */
   path: string | null;
-  /** Downsampled log10 probability grid, [energyIndex][channelIndex], -Infinity encoded as null. */
+  /**
+   * Downsampled log10 probability grid, [energyIndex][channelIndex], -Infinity encoded as null.
+   * Rows are blocks of equally many energy bins (evenly spaced in energy for a linear grid);
+   * columns blocks of equally many channels, up to just above the highest photon energy.
+   */
   log10: (number | null)[][];
   energyKeV: [number, number];
   channelEnergyKeV: [number, number];
