@@ -12,7 +12,7 @@
 import type { ResponseMeta, RmfData, RmfRow } from './types.ts';
 import type { ChannelGrid, EnergyGridSpec, LineFit, RedistributionSpec } from './model-types.ts';
 import type { EscapeInputs } from '../physics/escape.ts';
-import { componentCdf, componentWindow, mergeCoreAndTail, profileComponents, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
+import { componentCdf, componentWindow, mergeCoreAndTail, profileComponents, WINDOW_SIGMAS, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
 import { buildParamsAt, type ParamsAt } from './params.ts';
 import { channelBoundsKeV, checkEnergyBins, energyGrid, type EnergyBins } from './grid.ts';
 import { eboundsFromChannels } from './ebounds.ts';
@@ -87,6 +87,23 @@ function addComponent(prob: Float64Array, rc: RowContext, comp: ProfileComponent
   const ja = Math.max(0, Math.floor((xa - b0) / widthKeV) - 1);
   const jb = Math.min(n - 1, Math.floor((xb - b0) / widthKeV) + 1);
   let prev = G(bounds[ja] > thr ? bounds[ja] : thr);
+  if (comp.kind === 'shelf') {
+    // The shelf spans most of the row; in its flat middle its CDF is (x − low)/width (the same
+    // expression shelfCdf uses there), evaluated inline rather than through the closure.
+    const lo = comp.lowKeV;
+    const width = comp.highKeV - comp.lowKeV;
+    const linLo = lo + WINDOW_SIGMAS * comp.sigmaKeV;
+    const linHi = comp.highKeV - WINDOW_SIGMAS * comp.sigmaKeV;
+    const exact = width > 1e-9 * comp.sigmaKeV;
+    for (let j = ja; j <= jb; j++) {
+      const x = bounds[j + 1];
+      const xe = x > thr ? x : thr;
+      const next = exact && xe >= linLo && xe <= linHi ? (xe - lo) / width : G(xe);
+      prob[j] += mass * (next - prev);
+      prev = next;
+    }
+    return;
+  }
   for (let j = ja; j <= jb; j++) {
     const x = bounds[j + 1];
     const next = G(x > thr ? x : thr);
