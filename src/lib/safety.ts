@@ -1,5 +1,5 @@
 /**
- * Ground calibration uses radioactive sources and high-voltage X-ray generators; pages that talk
+ * Ground calibration uses radioactive sources and high-voltage X-ray generators; pages that write
  * about them carry the usual cautions. This decides when text mentions lab sources.
  */
 const LAB_SOURCE = /ground[- ]calibration|radioactiv|x-ray (generator|tube)|\b(55|⁵⁵)\s?fe\b|fluorescence target|lab(oratory)? source|source handling/i;
