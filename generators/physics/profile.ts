@@ -110,6 +110,23 @@ export function componentWindow(c: ProfileComponent): [number, number] {
 }
 
 /**
+ * Φ(u/σ) + a·(EMG tail term), clamped to 0/1 outside [wlo, whi]: the tail's CDF (a = 1) and that
+ * of a core and tail merged (a = the tail's share).
+ */
+function emgMixtureCdf(mu: number, s: number, tau: number, a: number, wlo: number, whi: number): (x: number) => number {
+  // below this u the Gaussian parts are 0 and 1 to double precision: F = a·exp(u/τ + σ²/2τ²)
+  const uFast = -s * (WINDOW_SIGMAS + s / tau);
+  const shift = (0.5 * s * s) / (tau * tau);
+  return (x) => {
+    if (x <= wlo) return 0;
+    if (x >= whi) return 1;
+    const u = x - mu;
+    if (u < uFast) return a * Math.exp(u / tau + shift);
+    return normalCdf(u / s) + a * emgTerm(u, s, tau);
+  };
+}
+
+/**
  * A fast unit-mass CDF of one component, exact inside its window up to ~1e-15, clamped to 0/1
  * outside it; clamped so that sums over channels telescope exactly.
  */
@@ -121,41 +138,15 @@ export function componentCdf(c: ProfileComponent): (x: number) => number {
       const k = 1 / (c.sigmaKeV * SQRT2);
       return (x) => (x <= wlo ? 0 : x >= whi ? 1 : 0.5 * erfc((mu - x) * k));
     }
-    case 'tail': {
-      const mu = c.centroidKeV;
-      const s = c.sigmaKeV;
-      const tau = c.scaleKeV;
-      // below this u the Gaussian parts are 0 and 1 to double precision: F = exp(u/τ + σ²/2τ²)
-      const uFast = -s * (WINDOW_SIGMAS + s / tau);
-      const shift = (0.5 * s * s) / (tau * tau);
-      return (x) => {
-        if (x <= wlo) return 0;
-        if (x >= whi) return 1;
-        const u = x - mu;
-        if (u < uFast) return Math.exp(u / tau + shift);
-        return normalCdf(u / s) + emgTerm(u, s, tau);
-      };
-    }
+    case 'tail':
+      return emgMixtureCdf(c.centroidKeV, c.sigmaKeV, c.scaleKeV, 1, wlo, whi);
     case 'shelf': {
       const { lowKeV, highKeV, sigmaKeV } = c;
       return (x) => (x <= wlo ? 0 : x >= whi ? 1 : shelfCdf(x, lowKeV, highKeV, sigmaKeV));
     }
-    case 'peak': {
+    case 'peak':
       // (1 − a)·Φ(u/σ) + a·(Φ(u/σ) + emgTerm) = Φ(u/σ) + a·emgTerm, a the tail's share.
-      const mu = c.centroidKeV;
-      const s = c.sigmaKeV;
-      const tau = c.scaleKeV;
-      const a = c.tailShare;
-      const uFast = -s * (WINDOW_SIGMAS + s / tau);
-      const shift = (0.5 * s * s) / (tau * tau);
-      return (x) => {
-        if (x <= wlo) return 0;
-        if (x >= whi) return 1;
-        const u = x - mu;
-        if (u < uFast) return a * Math.exp(u / tau + shift);
-        return normalCdf(u / s) + a * emgTerm(u, s, tau);
-      };
-    }
+      return emgMixtureCdf(c.centroidKeV, c.sigmaKeV, c.scaleKeV, c.tailShare, wlo, whi);
   }
 }
 
