@@ -1,0 +1,70 @@
+/**
+ * Architecture rules of the project (DEVELOPERS.md): the core of generators/ is browser-safe (no
+ * Node built-ins, so the site and, later, an observer's browser can run it), and nothing in
+ * generators/ imports Astro. Checked by bundling each core entry for the browser with esbuild:
+ * any Node built-in or Astro import makes the bundle fail.
+ */
+import { describe, expect, it } from 'vitest';
+import { build } from 'esbuild';
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join, relative } from 'node:path';
+
+const ROOT = join(import.meta.dirname, '..', '..');
+/** Entry points that must run in a browser (what the inspect page and future in-browser builds use). */
+const BROWSER_SAFE = [
+  'generators/fits/index.ts',
+  'generators/ogip/index.ts',
+  'generators/physics/index.ts',
+  'generators/response/index.ts',
+  'generators/fit/index.ts',
+  'generators/checks/index.ts',
+  'generators/compare/index.ts',
+  'generators/content/schema.ts',
+  'generators/pipeline/product.ts',
+  'generators/pipeline/site-detector.ts',
+  'generators/pipeline/validate.ts',
+];
+
+async function bundleForBrowser(entry: string): Promise<{ errors: string[]; inputs: string[] }> {
+  try {
+    const r = await build({
+      entryPoints: [join(ROOT, entry)],
+      bundle: true,
+      write: false,
+      platform: 'browser',
+      format: 'esm',
+      metafile: true,
+      logLevel: 'silent',
+    });
+    return { errors: [], inputs: Object.keys(r.metafile!.inputs) };
+  } catch (e) {
+    const errs = (e as { errors?: { text: string }[] }).errors ?? [{ text: String(e) }];
+    return { errors: errs.map((x) => x.text), inputs: [] };
+  }
+}
+
+function filesUnder(dir: string): string[] {
+  return readdirSync(dir).flatMap((n) => {
+    const p = join(dir, n);
+    return statSync(p).isDirectory() ? filesUnder(p) : p.endsWith('.ts') || p.endsWith('.mjs') ? [p] : [];
+  });
+}
+
+describe('layering', () => {
+  for (const entry of BROWSER_SAFE)
+    it(`${entry} bundles for the browser without Node built-ins`, async () => {
+      const r = await bundleForBrowser(entry);
+      expect(r.errors, r.errors.join('\n')).toEqual([]);
+      expect(r.inputs.filter((i) => i.startsWith('node:'))).toEqual([]);
+    }, 60_000);
+
+  it('the checker itself works: a module importing node:fs does not bundle for the browser', async () => {
+    const r = await bundleForBrowser('generators/node/fits-file.ts');
+    expect(r.errors.length).toBeGreaterThan(0);
+  }, 60_000);
+
+  it('nothing in generators/ imports Astro', () => {
+    const offenders = filesUnder(join(ROOT, 'generators')).filter((f) => /from\s+['"](astro|astro:[^'"]*|@astrojs\/[^'"]*)['"]/.test(readFileSync(f, 'utf8')));
+    expect(offenders.map((f) => relative(ROOT, f))).toEqual([]);
+  });
+});
