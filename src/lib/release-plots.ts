@@ -166,6 +166,28 @@ export function profileRange(p: DetectorSite['profiles'], floor: number): [numbe
   return [roundSig(Math.max(0, ch[lo] - halfBin), 4) as number, roundSig(ch[hi] + PROFILE_X_MARGIN * span, 4) as number];
 }
 
+/**
+ * Colour of a profile at energyKeV among the published profile energies (ascending): viridis by
+ * position in that list, stopped before its pale yellow end for contrast on white. Energies between
+ * two published ones interpolate linearly; outside, the end colours.
+ */
+export function profileColour(energiesKeV: number[], energyKeV: number): string {
+  const n = energiesKeV.length;
+  let pos = 0;
+  if (n > 1) {
+    if (energyKeV >= energiesKeV[n - 1]) pos = n - 1;
+    else if (energyKeV > energiesKeV[0]) {
+      let k = 0;
+      while (energiesKeV[k + 1] <= energyKeV) k++;
+      pos = k + (energyKeV - energiesKeV[k]) / (energiesKeV[k + 1] - energiesKeV[k]);
+    }
+  }
+  return viridis((PROFILE_COLOUR_SPAN * pos) / Math.max(1, n - 1));
+}
+
+/** Dash of the rows the reader adds from the published RMF, so they stand apart from the profiles of site.json. */
+export const PICKED_PROFILE_DASH = '6 2';
+
 export function profilePlot(det: DetectorSite): PlotSpec {
   const p = det.profiles;
   const shown = new Set(defaultProfileIndices(p.energiesKeV.length));
@@ -177,8 +199,7 @@ export function profilePlot(det: DetectorSite): PlotSpec {
   const series = p.rows.map((row, i) => ({
     ...lineSeries(`${roundSig(p.energiesKeV[i], 4)} keV`, p.channelEnergyKeV, row.map((v) => (v > 0 ? v : null)), i),
     step: true,
-    // Colour follows photon energy (viridis, stopped before its pale yellow end for contrast on white).
-    colour: viridis((PROFILE_COLOUR_SPAN * i) / Math.max(1, p.rows.length - 1)),
+    colour: profileColour(p.energiesKeV, p.energiesKeV[i]),
     dash: undefined,
     hidden: !shown.has(i),
   }));

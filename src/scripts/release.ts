@@ -4,9 +4,16 @@
  * validation filter and copy buttons.
  */
 import type { ReleaseSite } from '../../generators/site-data/types.ts';
-import { componentsPlot, releasePlots } from '../lib/release-plots.ts';
-import type { PlotSpec } from '../lib/plot/index.ts';
+import type { RmfData } from '../../generators/response/types.ts';
+import { componentsPlot, PICKED_PROFILE_DASH, profileColour, releasePlots } from '../lib/release-plots.ts';
+import { esc, fmt4, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
+import { formatBytes } from '../lib/downloads.ts';
 import { initPlots, loadNow, replacePlot, updatePlot } from './plots.ts';
+
+/** The FITS reader loads only when a reader adds an energy: a separate chunk, not part of the page. */
+const rowReader = () => import('../lib/published-row/index.ts');
+/** Published RMFs already read, by URL (each is fetched at most once per page). */
+const rmfs = new Map<string, Promise<RmfData>>();
 
 const docs = new Map<string, Promise<{ site: ReleaseSite; specs: Map<string, PlotSpec> }>>();
 
@@ -35,10 +42,13 @@ export function initReleasePlots(root: Document): void {
     const warm = () => void loadNow(fig);
     pick.addEventListener('pointerenter', warm, { once: true });
     pick.addEventListener('focusin', warm, { once: true });
-    pick.addEventListener('change', () => {
-      const on = new Set([...pick.querySelectorAll<HTMLInputElement>('input:checked')].map((i) => Number(i.value)));
+    pick.addEventListener('change', (ev) => {
+      if (!(ev.target as HTMLElement).matches('input[type=checkbox]')) return;
+      const on = new Set([...pick.querySelectorAll<HTMLInputElement>('input[type=checkbox]:checked')].map((i) => Number(i.value)));
       void updatePlot(fig, (spec) => spec.series.forEach((s, i) => (s.hidden = !on.has(i))));
     });
+    const form = pick.querySelector<HTMLFormElement>('form.profile-add');
+    if (form) initProfileAdd(form, fig, pick.querySelector<HTMLElement>('.checks-inline')!);
   });
   root.querySelectorAll<HTMLElement>('.qe-box').forEach((box) => {
     const fig = root.getElementById(box.dataset.plot ?? '');
@@ -53,6 +63,92 @@ export function initReleasePlots(root: Document): void {
       const det = site.detectors.find((d) => d.id === box.dataset.det);
       if (det) replacePlot(fig, componentsPlot(det, sel.value));
     });
+  });
+}
+
+/**
+ * "Add any energy": the row of the energy bin containing it, read from the release's own RMF
+ * (fetched once, same origin, gunzipped and parsed here), drawn beside the published profiles.
+ */
+function initProfileAdd(form: HTMLFormElement, fig: HTMLElement, checks: HTMLElement): void {
+  const input = form.querySelector<HTMLInputElement>('input[name=energyKeV]')!;
+  const button = form.querySelector<HTMLButtonElement>('button')!;
+  const status = form.querySelector<HTMLOutputElement>('output')!;
+  const det = form.dataset.det ?? '';
+  const say = (html: string, error = false) => {
+    status.innerHTML = html;
+    status.classList.toggle('error', error);
+  };
+  form.addEventListener('submit', async (ev) => {
+    ev.preventDefault();
+    const energyKeV = input.valueAsNumber;
+    if (!Number.isFinite(energyKeV) || energyKeV <= 0) return say('Enter a photon energy in keV, e.g. 3.21.', true);
+    button.disabled = true;
+    form.setAttribute('aria-busy', 'true');
+    try {
+      const { site } = await siteDoc(fig.dataset.specSrc!);
+      const mod = await rowReader();
+      const product = mod.rmfProductOf(site.products, det);
+      if (!product) return say(`This release publishes no RMF for detector ${esc(det)}.`, true);
+      const url = mod.productUrl(site.id, product);
+      const fname = product.path.replace(/^.*\//, '');
+      let rmf = rmfs.get(url);
+      if (!rmf) {
+        say(`Reading the published RMF, ${formatBytes(product.bytes)}…`);
+        rmf = mod.fetchPublishedRmf(url);
+        rmfs.set(url, rmf);
+        rmf.catch(() => rmfs.delete(url)); // a failed read may be retried
+      }
+      let data: RmfData;
+      try {
+        data = await rmf;
+      } catch (e) {
+        return say(`Could not read the published RMF: ${esc((e as Error).message)}.`, true);
+      }
+      const [gridLo, gridHi] = mod.energyGridKeV(data);
+      const bin = mod.binContaining(data, energyKeV);
+      if (bin < 0) return say(`${fmt4(energyKeV)} keV is outside the matrix energy grid of ${esc(fname)}: choose ${fmt4(gridLo)}–${fmt4(gridHi)} keV.`, true);
+      const row = mod.rowAtEnergy(data, energyKeV);
+      const binText = mod.binRangeText(row.binLoKeV, row.binHiKeV);
+      const old = checks.querySelector<HTMLInputElement>(`input[data-bin="${bin}"]`);
+      if (old) {
+        if (!old.checked) {
+          old.checked = true;
+          old.dispatchEvent(new Event('change', { bubbles: true }));
+        }
+        return say(`The bin ${binText} keV is already drawn.`);
+      }
+      const energies = site.detectors.find((d) => d.id === det)?.profiles.energiesKeV ?? [];
+      const label = `E = ${fmt4(energyKeV)} keV (bin ${binText} keV)`;
+      const series: SeriesSpec = {
+        label,
+        kind: 'line',
+        step: true,
+        colour: profileColour(energies, energyKeV),
+        dash: PICKED_PROFILE_DASH,
+        // Every channel at full precision: the plot shows the file's row, not a rounded copy.
+        x: row.channelEnergyKeV,
+        y: row.probability.map((v) => (v > 0 ? v : null)),
+      };
+      let index = -1;
+      await updatePlot(fig, (spec) => {
+        index = spec.series.push(series) - 1;
+      });
+      if (index < 0) return say('The plot could not be loaded.', true);
+      const box = document.createElement('label');
+      box.className = 'picked';
+      box.innerHTML = `<input type="checkbox" value="${index}" data-bin="${bin}" data-energy-kev="${energyKeV}" checked> ${esc(fmt4(energyKeV))} <span class="muted">(bin ${esc(binText)})</span>`;
+      checks.append(box);
+      const csv = URL.createObjectURL(new Blob([mod.rowCsv(row, `${fname}, MATRIX row ${bin + 1}, energy bin ${binText} keV`)], { type: 'text/csv' }));
+      const csvName = `${det}-row-${bin + 1}.csv`;
+      say(`Drawn: row ${bin + 1} of ${esc(fname)}, bin ${esc(binText)} keV. <a class="row-csv" href="${csv}" download="${esc(csvName)}">Row values (CSV)</a>`);
+      input.select();
+    } catch (e) {
+      say(`Could not add the profile: ${esc((e as Error).message)}.`, true);
+    } finally {
+      button.disabled = false;
+      form.removeAttribute('aria-busy');
+    }
   });
 }
 

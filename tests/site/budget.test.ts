@@ -2,6 +2,11 @@
  * Byte budget of the built site (a size check, not a timing): every release page's HTML plus the
  * CSS and JavaScript it loads must stay within 300 KB before compression. Downloads and the matrix
  * images are excluded. Uses dist/ as built by `npm run build` (from KILN_OUT, default .kiln/out).
+ * Counted: what the page loads by itself (static imports, transitively). Not counted: chunks behind
+ * a dynamic import(), which load only on demand — on release pages the published-RMF reader
+ * (src/lib/published-row, with the FITS and OGIP readers) loads only when the reader adds a
+ * profile energy. The test checks that such chunks really are outside the page's static graph and
+ * reports their size.
  */
 import { describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
@@ -33,6 +38,27 @@ export function pageAssets(htmlFile: string): string[] {
   return [...seen];
 }
 
+/** Chunks a page's static JS names in a dynamic import("./x.js"): loaded only on demand. */
+export function onDemandChunks(staticAssets: string[]): string[] {
+  const out = new Set<string>();
+  for (const f of staticAssets.filter((a) => a.endsWith('.js')))
+    for (const m of readFileSync(f, 'utf8').matchAll(/import\(\s*["'](\.{1,2}\/[^"']+\.js)["']\s*\)/g)) out.add(resolve(dirname(f), m[1]));
+  return [...out];
+}
+
+/** Static closure of one JS file (the file and what it imports statically). */
+function jsClosure(file: string): string[] {
+  const seen = new Set<string>();
+  const todo = [file];
+  while (todo.length) {
+    const f = todo.pop()!;
+    if (seen.has(f) || !existsSync(f)) continue;
+    seen.add(f);
+    for (const m of readFileSync(f, 'utf8').matchAll(/(?:^|[;\s])import\s*(?:[^'"()]*?from\s*)?["'](\.{1,2}\/[^"']+)["']/g)) todo.push(resolve(dirname(f), m[1]));
+  }
+  return [...seen];
+}
+
 describe('site byte budget', () => {
   it('dist/ exists', () => {
     if (!existsSync(join(DIST, 'index.html'))) throw new Error('dist/ is missing: run npm run build first');
@@ -49,5 +75,17 @@ describe('site byte budget', () => {
       const total = [page, ...assets].reduce((s, f) => s + statSync(f).size, 0);
       console.log(`release ${id}: ${statSync(page).size} B HTML + ${total - statSync(page).size} B CSS/JS = ${total} B`);
       expect(total).toBeLessThanOrEqual(RELEASE_PAGE_BUDGET_BYTES);
+    });
+  for (const id of ids)
+    it(`release ${id}: the published-RMF reader is an on-demand chunk, outside the counted bytes`, () => {
+      const assets = pageAssets(join(relDir, id, 'index.html'));
+      const lazy = onDemandChunks(assets).filter((f) => /published-row/.test(f));
+      expect(lazy.length, 'a dynamic import of the published-row chunk').toBe(1);
+      const extra = jsClosure(lazy[0]).filter((f) => !assets.includes(f));
+      // The chunk and its own imports (the FITS/OGIP readers) are not loaded with the page.
+      expect(extra).toContain(lazy[0]);
+      expect(extra.length).toBeGreaterThan(1);
+      const bytes = extra.reduce((s, f) => s + statSync(f).size, 0);
+      console.log(`release ${id}: on demand (add a profile energy) ${extra.length} chunks, ${bytes} B`);
     });
 });
