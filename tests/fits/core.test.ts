@@ -72,6 +72,7 @@ describe('cards (FITS Standard 4.0 §4.1-4.2)', () => {
   it('FitsFormatError is a KilnInputError (the CLI maps it to exit 2)', () => {
     try {
       parseCard('bad     = 1'.padEnd(80), { fileName: 'x.fits', hdu: 1 }, 7, 3040);
+      expect.unreachable();
     } catch (e) {
       expect(e).toBeInstanceOf(KilnInputError);
       expect((e as KilnInputError).oneLine()).toMatch(/^x\.fits: HDU 1, card 7, byte 3040: bad keyword syntax/);

@@ -53,7 +53,9 @@ describe('monotone cubic interpolation (Fritsch–Carlson 1980)', () => {
     expect(() => monotoneCubic([0, 1, 1], [0, 1, 2], 'lineFits.energyKeV')).toThrow(KilnInputError);
     try {
       monotoneCubic([0, 2, 1], [0, 1, 2], 'lineFits.energyKeV');
+      expect.unreachable();
     } catch (e) {
+      expect(e).toBeInstanceOf(KilnInputError);
       expect((e as KilnInputError).where.field).toBe('lineFits.energyKeV[2]');
       expect((e as KilnInputError).where.value).toBe(1);
     }

@@ -20,7 +20,10 @@ function law(readNoiseE: number, fano: number, npix: number, sigma0Ev = 0): Reso
 
 describe('resolution law', () => {
   it('FWHM/σ is 2√(2 ln 2) ≈ 2.3548 (PRIMER §3)', () => {
-    expect(FWHM_PER_SIGMA).toBeCloseTo(2.3548, 4);
+    expect(FWHM_PER_SIGMA).toBeCloseTo(2.3548, 4); // the primer's rounded value
+    // the definition itself (mathematics, no source): half maximum of exp(−x²/2) at x = √(2 ln 2)
+    expect(Math.abs(FWHM_PER_SIGMA - Math.sqrt(8 * Math.log(2)))).toBeLessThan(1e-15);
+    expect(Math.exp(-0.5 * (FWHM_PER_SIGMA / 2) ** 2)).toBeCloseTo(0.5, 15);
   });
 
   it('Fano-limited FWHM at Mn Kα for w = 3.65 eV, F = 0.115 is ≈117 eV (PRIMER §3; tol 1 eV)', () => {

@@ -22,6 +22,8 @@ const lines = [
 
 describe('profile parameters from laws or line fits', () => {
   it('laws: FWHM law, energy scale with charge loss, tail law, shelf constant', () => {
+    // Expected values are the laws as stated in model-types.ts, evaluated by hand at E = 1 keV:
+    // centroid = E·(1 + g) + offset − loss·exp(−E/scale), tail fraction = f0·exp(−E/scale).
     const spec = gaussianOnlySpec({
       centroid: { source: 'law', gainError: 0.01, offsetEv: 5, chargeLossEv: 20, chargeLossScaleKeV: 0.5 },
       tail: { source: 'law', fractionAtZero: 0.3, fractionScaleKeV: 1, tailScaleEv: 30 },

@@ -54,7 +54,7 @@ function accountingError(r: RedistributionResult): { worst: number; maxDropped: 
 }
 
 describe('redistribution matrix: probability accounting', () => {
-  it('every row: Σ elements + threshold + outside + dropped = 1 within 1e-6, with every component (brief requirement)', () => {
+  it('every row: Σ elements + threshold + outside + dropped = 1 within 1e-6, with every component (requirement stated in DEVELOPERS.md, matrix build)', () => {
     for (const energy of [
       { minKeV: 0.05, maxKeV: 14, bins: 700, spacing: 'log' as const }, // extends past the channel range: outside losses
       { minKeV: 0.1, maxKeV: 12, bins: 40, spacing: 'linear' as const }, // coarse: bins averaged over sub-samples
@@ -62,7 +62,7 @@ describe('redistribution matrix: probability accounting', () => {
       const r = buildRedistribution({ spec: fullSpec(), lineFits: [], energy, channels: CHANNELS, meta: META, silicon: TOY_SILICON });
       const { worst, maxDropped } = accountingError(r);
       expect(worst).toBeLessThan(1e-6);
-      // compression drop below 1e-5 of the row (brief requirement)
+      // compression drop below 1e-5 of the row (requirement stated in DEVELOPERS.md, matrix build)
       expect(maxDropped).toBeLessThan(1e-5);
       expect(r.rmf.loThres).toBeGreaterThan(0);
       // rows above the channel range are mostly outside
