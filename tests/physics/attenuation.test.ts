@@ -17,13 +17,15 @@ const SI_DENSITY_GCM3 = 2.329; // PRIMER §3
 const UM_PER_CM = 1e4;
 
 describe('silicon μ/ρ against the NIST X-ray mass attenuation tables (Hubbell & Seltzer)', () => {
-  // Values from PRIMER §3, written down from memory (~1 %); 3 % tolerance covers the memory doubt
-  // plus the difference between NIST's and xraylib's underlying photoabsorption data.
+  // Values from PRIMER §3, written down from memory (~1 %). 1.5 % covers that doubt plus the
+  // NIST-vs-xraylib data difference, which away from the edge is well under 1 % here (the table
+  // agrees with these values to < 0.1 %); 3 % would let a 2 % slip in the data pass unnoticed.
   const NIST_MEMORY: [number, number][] = [
     [1, 1570], [2, 2777], [3, 978], [5, 245], [6, 147], [8, 64.7], [10, 33.9],
   ];
-  it.each(NIST_MEMORY)('at %s keV ≈ %s cm²/g (within 3 %%)', (e, nist) => {
-    expect(relErr(massAttenuationCm2g('Si', e, 'total'), nist)).toBeLessThan(0.03);
+  const NIST_TOL = 0.015;
+  it.each(NIST_MEMORY)('at %s keV ≈ %s cm²/g (within 1.5 %%)', (e, nist) => {
+    expect(relErr(massAttenuationCm2g('Si', e, 'total'), nist)).toBeLessThan(NIST_TOL);
   });
 });
 
