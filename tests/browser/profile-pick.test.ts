@@ -161,6 +161,7 @@ describe('release page: profile at any energy, from the published RMF', () => {
     expect(Math.abs(Number(m[1]) - lo) / lo).toBeLessThan(5e-4);
     expect(Math.abs(Number(m[2]) - hi) / hi).toBeLessThan(5e-4);
     expect(await box.locator('path.series').count()).toBe(n0);
+    await box.locator('fieldset').screenshot({ path: `${SHOTS}/profile-pick-outside.png` });
     expect(problems).toEqual([]);
     await page.close();
   });
