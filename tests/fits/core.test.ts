@@ -3,7 +3,7 @@
  * parser; checksums per the FITS checksum convention and astropy's implementation; writer
  * determinism; gzip reading.
  */
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
@@ -178,11 +178,22 @@ describe('writer and file layer', () => {
   });
 
   it('writes atomically: the target holds old or new bytes, never a part', () => {
-    const p = join(tmp, 'atomic.fits');
+    const dir = join(tmp, 'atomic');
+    mkdirSync(dir);
+    const p = join(dir, 'atomic.fits');
     writeFileAtomic(p, Uint8Array.of(1, 2, 3));
     writeFileAtomic(p, writeFits(ALL_TYPES_HDUS));
     expect(readFitsFile(p).hdus).toHaveLength(2);
+    expect(readdirSync(dir)).toEqual(['atomic.fits']); // no temporary file left beside it
     expect(() => writeFileAtomic(join(tmp, 'no-such-dir', 'x.fits'), Uint8Array.of(1))).toThrow();
+    // A write whose final rename fails (the target is a non-empty directory) leaves the target as it
+    // was and no temporary file behind.
+    const blocked = join(dir, 'blocked.fits');
+    mkdirSync(blocked);
+    writeFileSync(join(blocked, 'keep'), 'x');
+    expect(() => writeFileAtomic(blocked, writeFits(ALL_TYPES_HDUS))).toThrow();
+    expect(readdirSync(blocked)).toEqual(['keep']);
+    expect(readdirSync(dir).sort()).toEqual(['atomic.fits', 'blocked.fits']);
   });
 
   it('reports rather than throws on checksum mismatch when asked', () => {
