@@ -15,6 +15,8 @@ const CHANNEL_WIDTH_EV = 100;
 const ENERGY_BINS = 100;
 /** KILN_SCALE_EPOCHS overrides the epoch count for a manual larger run (products = 2 × epochs + 2). */
 const EPOCHS = Number(process.env.KILN_SCALE_EPOCHS ?? 400);
+// A bad override (empty, 0, text) would otherwise shrink the test to nothing and still pass.
+if (!Number.isInteger(EPOCHS) || EPOCHS < 1) throw new Error(`KILN_SCALE_EPOCHS must be a whole number ≥ 1 (got ${JSON.stringify(process.env.KILN_SCALE_EPOCHS)})`);
 const EPOCH_DAYS = 7;
 const START = Date.UTC(2026, 4, 12); // 2026-05-12, the demo instrument's first validity date
 const DETECTORS = ['fi0', 'bi1'];
