@@ -32,6 +32,15 @@ describe('resolution law', () => {
     expect(fwhmEv(MN_KA_KEV, law(0, 0.115, 1))).toBeCloseTo(fanoLimitFwhmEv(MN_KA_KEV, W, 0.115), 10);
   });
 
+  it('follows the primer law σ² = (w·N_r)²·n_pix + F·w·E (+ constant σ₀²), FWHM = 2.3548·σ (PRIMER §3)', () => {
+    // n_pix constant here (the primer's law has no energy dependence of n_pix); 2.354820045 = 2√(2 ln 2).
+    const primer = (eKeV: number, nr: number, f: number, npix: number, s0: number) =>
+      2.354820045 * Math.sqrt((W * nr) ** 2 * npix + f * W * eKeV * 1000 + s0 * s0);
+    // 1e-9 relative: the 10-digit constant above is the only rounding.
+    for (const [e, nr, f, npix, s0] of [[0.277, 3, 0.115, 4, 0], [1.487, 5.5, 0.12, 2, 7], [5.899, 2, 0.118, 3, 15], [12, 10, 0.1, 1, 0]])
+      expect(Math.abs(fwhmEv(e, law(nr, f, npix, s0)) / primer(e, nr, f, npix, s0) - 1), `${e} keV`).toBeLessThan(1e-9);
+  });
+
   it('a 6 keV photon frees about 1,600 electrons in silicon (common practice, no source; 1,550–1,700)', () => {
     const n = electronsFreed(6, W);
     expect(n).toBeGreaterThan(1550);
