@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { arfDiffTable, parameterDiffs, rmfDiffTable } from '../../generators/compare/index.ts';
@@ -105,7 +105,10 @@ describe('kiln compare (command)', () => {
 
   it('two releases of the demo build: every detector paired, parameters listed', () => {
     const out = join(dir, 'out');
-    execFileSync('node', ['bin/kiln.mjs', 'build', '--out', out, '--quiet'], { encoding: 'utf8' });
+    // A private copy of the demo content, so edits to content/ elsewhere cannot move this test.
+    const content = join(dir, 'content');
+    cpSync(join(import.meta.dirname, '..', '..', 'content'), content, { recursive: true });
+    execFileSync('node', ['bin/kiln.mjs', 'build', '--content', content, '--out', out, '--quiet'], { encoding: 'utf8' });
     expect(existsSync(join(out, 'index.json'))).toBe(true);
     const r = run('1.1.0', '2.0.0', '--out', out, '--json');
     expect([0, 1]).toContain(r.status);
