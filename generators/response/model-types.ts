@@ -18,7 +18,11 @@ export interface LineFit {
   tailScaleEv: number;
   /** Fraction of events in the flat shelf down to the lowest channel. */
   shelfFraction: number;
-  /** Measured detection efficiency relative to the model stack (or absolute QE), with error. */
+  /**
+   * Measured detection efficiency: events in any channel above the threshold per photon incident
+   * on the detector (no mirror), with its 1σ error; null where no absolute flux is known. The build
+   * checks it against the stack's QE × the matrix row's detected fraction.
+   */
   efficiency: number | null;
   efficiencyErr: number | null;
 }
