@@ -14,3 +14,21 @@ export function formatBytes(n: number): string {
   if (n < KIB * KIB) return `${(n / KIB).toFixed(1)} KiB`;
   return `${(n / KIB / KIB).toFixed(2)} MiB`;
 }
+
+const escAttr = (s: string): string => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+
+/**
+ * Table cell content for a file's SHA-256: the full value stays in the element (select-and-copy,
+ * find in page, print show all of it) and in its title; the stylesheet shortens it on screen with
+ * an ellipsis (it unfolds on focus); the copy button appears where scripts run.
+ */
+export function shaCellHtml(sha256: string, path: string): string {
+  const sha = escAttr(sha256);
+  return (
+    `<div class="sha-cell"><code class="hash hash-short" tabindex="0" title="${sha}">${sha}</code>` +
+    `<button type="button" class="copy" data-copy="${sha}" aria-label="Copy SHA-256 of ${escAttr(fileName(path))}" hidden>copy</button></div>`
+  );
+}
+
+/** A file name as HTML with line-break opportunities after "_" (narrow tables wrap between parts). */
+export const breakableNameHtml = (name: string): string => escAttr(name).replace(/_/g, '_<wbr>');

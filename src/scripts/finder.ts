@@ -2,7 +2,8 @@
 import type { ReleaseIndex } from '../../generators/site-data/types.ts';
 import { findFiles } from '../lib/finder.ts';
 import { esc } from '../lib/plot/format.ts';
-import { fileName, formatBytes } from '../lib/downloads.ts';
+import { breakableNameHtml, fileName, formatBytes, shaCellHtml } from '../lib/downloads.ts';
+import { initCopyButtons } from './copy.ts';
 import { validity } from '../lib/status.ts';
 
 const ISO_DATE = /^\d{4}-\d{2}-\d{2}$/;
@@ -35,10 +36,10 @@ export function initFinder(): void {
     }
     const best = hits[0].release;
     const detName = det.selectedOptions[0]?.textContent?.split(' — ')[0] ?? det.value;
-    const link = (h: (typeof hits)[number], dl = true) => `<a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}"${dl ? ' download' : ''}>${esc(fileName(h.product.path))}</a>`;
+    const link = (h: (typeof hits)[number], dl = true) => `<a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}"${dl ? ' download' : ''}>${breakableNameHtml(fileName(h.product.path))}</a>`;
     const rows = hits.map(
       (h) =>
-        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td><span class="st st-${h.release.status}">${h.release.status}</span></td><td>${h.product.kind.toUpperCase()}</td><td>${esc(h.product.epoch)}</td><td class="nowrap">${esc(validity(h.product.validFrom, h.product.validTo))}</td><td class="nowrap">${link(h)}</td><td class="num">${formatBytes(h.product.bytes)}</td><td><code class="hash">${esc(h.product.sha256)}</code></td><td>${h.warning ? `<span class="st st-warn">warning</span> ${esc(h.warning)}` : ''}</td></tr>`,
+        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td data-label="Release"><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td data-label="Status"><span class="st st-${h.release.status}">${h.release.status}</span></td><td data-label="Kind">${h.product.kind.toUpperCase()}</td><td data-label="Epoch">${esc(h.product.epoch)}</td><td data-label="Valid for observations" class="nowrap">${esc(validity(h.product.validFrom, h.product.validTo))}</td><td data-label="File" class="nowrap file">${link(h)}</td><td data-label="Size" class="num">${formatBytes(h.product.bytes)}</td><td data-label="SHA-256">${shaCellHtml(h.product.sha256, h.product.path)}</td><td data-label="Note"${h.warning ? '' : ' class="empty"'}>${h.warning ? `<span><span class="st st-warn">warning</span> ${esc(h.warning)}</span>` : ''}</td></tr>`,
     );
     const bestFiles = hits.filter((h) => h.release.id === best.id);
     const bestWarn = hits[0].warning ? `<p class="callout danger">${esc(hits[0].warning)} No published or candidate release covers this date.</p>` : '';
@@ -47,7 +48,8 @@ export function initFinder(): void {
       `<h2>Files for ${esc(detName)} (${esc(det.value)}) on ${esc(date.value)}</h2>${bestWarn}` +
       `<p class="callout info" id="finder-best">Use release <a href="/releases/${esc(best.id)}/"><strong>${esc(best.id)}</strong></a> (${esc(best.status)}): ${bestFiles.map((h) => `${h.product.kind.toUpperCase()} ${link(h)}`).join(' and ')}.</p>` +
       `<p>${hits.length} file${hits.length === 1 ? '' : 's'} in ${nRel} release${nRel === 1 ? '' : 's'} cover this date; the recommended ones are highlighted.</p>` +
-      `<div class="table-wrap"><table class="data" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+      `<div class="table-wrap"><table class="data stack" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+    initCopyButtons(out);
   };
   form.addEventListener('submit', (e) => {
     e.preventDefault();

@@ -9,6 +9,7 @@ import { componentsPlot, PICKED_PROFILE_DASH, profileColour, releasePlots } from
 import { esc, fmt4, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
 import { formatBytes } from '../lib/downloads.ts';
 import { initPlots, loadNow, replacePlot, updatePlot } from './plots.ts';
+import { initCopyButtons as initCopyButtonsIn } from './copy.ts';
 
 /** The FITS reader loads only when a reader adds an energy: a separate chunk, not part of the page. */
 const rowReader = () => import('../lib/published-row/index.ts');
@@ -183,19 +184,7 @@ export function initCheckFilter(root: Document): void {
   status.addEventListener('change', apply);
 }
 
+/** Kept here for the page script; the implementation lives in copy.ts (shared with the finder). */
 export function initCopyButtons(root: Document): void {
-  root.querySelectorAll<HTMLButtonElement>('button.copy').forEach((b) => {
-    b.hidden = false;
-    b.addEventListener('click', async () => {
-      const text = b.dataset.copy ?? root.getElementById(b.dataset.copyFrom ?? '')?.textContent ?? '';
-      const label = b.textContent;
-      try {
-        await navigator.clipboard.writeText(text);
-        b.textContent = 'copied';
-      } catch {
-        b.textContent = 'select and copy manually';
-      }
-      setTimeout(() => (b.textContent = label), 1500);
-    });
-  });
+  initCopyButtonsIn(root, root);
 }
