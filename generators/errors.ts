@@ -34,12 +34,15 @@ export class KilnInputError extends Error {
   }
 }
 
+/** Longest bad value quoted in a message: room for a file size and a full SHA-256 digest. */
+const MAX_VALUE_CHARS = 120;
+
 function formatValue(v: unknown): string {
-  if (typeof v === 'string') return JSON.stringify(v.length > 60 ? v.slice(0, 57) + '...' : v);
+  if (typeof v === 'string') return JSON.stringify(v.length > MAX_VALUE_CHARS ? v.slice(0, MAX_VALUE_CHARS - 3) + '...' : v);
   if (typeof v === 'number' || typeof v === 'boolean' || v === null) return String(v);
   try {
     const s = JSON.stringify(v);
-    return s.length > 60 ? s.slice(0, 57) + '...' : s;
+    return s.length > MAX_VALUE_CHARS ? s.slice(0, MAX_VALUE_CHARS - 3) + '...' : s;
   } catch {
     return String(v);
   }

@@ -51,7 +51,7 @@ export function formatCompareText(r: CompareReport): string {
   if (r.parameters.length) {
     out.push('', 'parameter changes (A → B):');
     for (const d of r.parameters)
-      out.push(`  ${d.detector ?? '-'}  ${d.group}: ${d.name}: ${sig(d.a)} → ${sig(d.b)} ${d.unit}${d.diff !== null ? ` (Δ ${sig(d.diff)}${d.sigmas !== null ? `, ${d.sigmas.toFixed(1)}σ` : ''})` : ''}`);
+      out.push(`  ${d.detector ?? '-'}  ${d.group}: ${d.name}: ${sig(d.a)} → ${sig(d.b)}${d.unit ? ' ' + d.unit : ''}${d.diff !== null ? ` (Δ ${sig(d.diff)}${d.sigmas !== null ? `, ${d.sigmas.toFixed(1)}σ` : ''})` : ''}`);
   }
   if (r.unmatched.length) out.push('', `only on one side: ${r.unmatched.join(', ')}`);
   const n = r.pairs.reduce((s, p) => s + p.checks.filter((c) => c.status !== 'pass').length, 0);

@@ -216,18 +216,22 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
   }
   const isFrozen = (r: ResolvedRelease) =>
     r.release.id !== opts.publishing && (FROZEN_STATUSES.has(r.release.status) || (r.release.status === 'withdrawn' && hasArchive(content.root, r.release.id)));
-  // Check every frozen release before any work: a tampered archive stops the build at once.
+  // Check every frozen release before any work: changed inputs or a missing or altered archived
+  // byte stop the build at once, before anything is built or written.
   for (const r of content.releases) {
     if (r.release.id === opts.publishing) continue;
-    const frozen = FROZEN_STATUSES.has(r.release.status);
-    if (frozen && !hasArchive(content.root, r.release.id))
+    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
       throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
         file: r.release.file,
         field: 'status',
         value: r.release.status,
         expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
       });
-    if (frozen) verifyFrozenInputs(r, readSeal(content.root, r.release.id));
+    if (isFrozen(r)) {
+      const seal = readSeal(content.root, r.release.id);
+      verifyFrozenInputs(r, seal);
+      readVerifiedArchive(content.root, seal);
+    }
   }
 
   removeStaleStaging(opts.outDir);

@@ -53,7 +53,7 @@ describe(`download tables at ${NARROW_PX} px`, () => {
       const page = await open(`/releases/${r.id}/`, NARROW_PX);
       expect(await overflow(page, '#download-table')).toBeLessThanOrEqual(ROUNDING_PX);
       const cells = await page.$$eval('#download-table code.hash', (cs) => cs.map((c) => c.textContent));
-      const copies = await page.$$eval('#download-table button.copy', (bs) => bs.filter((b) => !b.hidden).map((b) => b.getAttribute('data-copy')));
+      const copies = await page.$$eval('#download-table button.copy', (bs) => (bs as HTMLElement[]).filter((b) => !b.hidden).map((b) => b.getAttribute('data-copy')));
       const expected = manifest.files.map((f) => f.sha256);
       expect(cells).toEqual(expected);
       expect(copies).toEqual(expected);
