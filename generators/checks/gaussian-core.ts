@@ -6,11 +6,12 @@
  * Processing Magazine 28(5), 2011, from memory). Channel contents are integrals over each channel,
  * which widen the apparent variance by Δ²/12 (Sheppard's correction, common practice); we remove it.
  */
+import { FWHM_PER_SIGMA } from '../physics/resolution.ts';
 import type { RmfData } from '../response/types.ts';
 import { bracket, denseRow } from './interpolate.ts';
 
-/** FWHM = 2·sqrt(2 ln 2)·σ for a Gaussian. */
-export const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
+/** FWHM = 2·sqrt(2 ln 2)·σ for a Gaussian (one definition, in physics/resolution.ts). */
+export { FWHM_PER_SIGMA };
 /**
  * Channels whose density is at least this fraction of the peak form the core: ±1.8σ of a Gaussian,
  * enough points for the fit and little of a low-energy tail (Kiln's choice, no source).

@@ -1,4 +1,5 @@
 /** Reading products at an arbitrary energy: bracketing rows and linear interpolation between bin centres. */
+import { expandRow } from '../response/compress.ts';
 import type { ArfData, RmfData } from '../response/types.ts';
 
 export interface Bracket {
@@ -37,14 +38,5 @@ export function arfAt(arf: ArfData, energyKeV: number): number {
 
 /** Row i of the matrix as a dense array over channels (index = channel − firstChannel). */
 export function denseRow(rmf: RmfData, i: number): Float64Array {
-  const out = new Float64Array(rmf.detchans);
-  const r = rmf.rows[i];
-  let k = 0;
-  for (let g = 0; g < r.fChan.length; g++) {
-    for (let c = 0; c < r.nChan[g]; c++, k++) {
-      const idx = r.fChan[g] - rmf.firstChannel + c;
-      if (idx >= 0 && idx < out.length) out[idx] += r.matrix[k];
-    }
-  }
-  return out;
+  return expandRow(rmf.rows[i], rmf.detchans, rmf.firstChannel);
 }

@@ -5,9 +5,8 @@
  * INSTRUME, FILTER.
  */
 import { columnUnits, requiredColumns } from './columns.ts';
-import { findHdu } from './find-hdu.ts';
+import { extensionPresent } from './find-hdu.ts';
 import { keywordOneOf, keywordPresent, keywordVersion, type KeywordTarget } from './keywords.ts';
-import { makeCheck } from './make-check.ts';
 import type { Check, FileView } from './types.ts';
 
 export const ARF_COLUMNS = ['ENERG_LO', 'ENERG_HI', 'SPECRESP'] as const;
@@ -16,17 +15,8 @@ const ARF_HDUVERS = ['1.1.0'];
 const ARF_HDUVERS_TOLERATED = /^1\.\d+\.\d+$/;
 
 export function checkArfStructure(view: FileView, product: string | null): Check[] {
-  const hdu = findHdu(view.hdus, 'SPECRESP');
-  const out: Check[] = [
-    makeCheck(hdu ? 'pass' : 'fail', {
-      id: 'arf.ext.specresp',
-      title: 'SPECRESP extension present',
-      product,
-      measured: hdu ? hdu.name : null,
-      tolerance: 'SPECRESP',
-      message: hdu ? `found SPECRESP (HDU ${hdu.index})` : `${view.fileName} has no SPECRESP extension`,
-    }),
-  ];
+  const { hdu, check } = extensionPresent(view, 'arf.ext.specresp', 'SPECRESP extension present', ['SPECRESP'], product);
+  const out: Check[] = [check];
   if (!hdu) return out;
   const t: KeywordTarget = { idPrefix: 'arf.specresp', hdu, product };
   out.push(requiredColumns('arf.specresp', hdu, ARF_COLUMNS, product));

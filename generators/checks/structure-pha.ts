@@ -7,7 +7,7 @@
  * ('none' allowed), POISSERR (when F, a STAT_ERR column is required), CHANTYPE, DETCHANS.
  */
 import { findColumn, requiredColumns } from './columns.ts';
-import { findHdu } from './find-hdu.ts';
+import { extensionPresent } from './find-hdu.ts';
 import { keywordNumber, keywordOneOf, keywordPresent, keywordVersion, type KeywordTarget } from './keywords.ts';
 import { makeCheck } from './make-check.ts';
 import type { Check, FileView, HduView } from './types.ts';
@@ -16,17 +16,8 @@ const PHA_HDUVERS = ['1.2.1'];
 const PHA_HDUVERS_TOLERATED = /^1\.[0-2]\.\d+$/;
 
 export function checkPhaStructure(view: FileView, product: string | null): Check[] {
-  const hdu = findHdu(view.hdus, 'SPECTRUM');
-  const out: Check[] = [
-    makeCheck(hdu ? 'pass' : 'fail', {
-      id: 'pha.ext.spectrum',
-      title: 'SPECTRUM extension present',
-      product,
-      measured: hdu ? hdu.name : null,
-      tolerance: 'SPECTRUM',
-      message: hdu ? `found SPECTRUM (HDU ${hdu.index})` : `${view.fileName} has no SPECTRUM extension`,
-    }),
-  ];
+  const { hdu, check } = extensionPresent(view, 'pha.ext.spectrum', 'SPECTRUM extension present', ['SPECTRUM'], product);
+  const out: Check[] = [check];
   if (!hdu) return out;
   const t: KeywordTarget = { idPrefix: 'pha.spectrum', hdu, product };
   const hasCounts = !!findColumn(hdu, 'COUNTS');

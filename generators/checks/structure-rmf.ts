@@ -10,7 +10,7 @@
  *    HDUVERS='1.2.0', CHANTYPE and DETCHANS matching the matrix.
  */
 import { columnUnits, findColumn, requiredColumns } from './columns.ts';
-import { findHdu } from './find-hdu.ts';
+import { extensionPresent } from './find-hdu.ts';
 import { keywordNumber, keywordOneOf, keywordPresent, keywordVersion, type KeywordTarget } from './keywords.ts';
 import { makeCheck } from './make-check.ts';
 import type { Check, FileView } from './types.ts';
@@ -29,27 +29,11 @@ const EBOUNDS_HDUVERS_TOLERATED = /^1\.[0-3]\.\d+$/;
 const isPositiveInteger = (x: number) => Number.isInteger(x) && x > 0;
 
 export function checkRmfStructure(view: FileView, product: string | null): Check[] {
-  const out: Check[] = [];
-  const matrix = findHdu(view.hdus, ...RMF_MATRIX_EXTNAMES);
-  const ebounds = findHdu(view.hdus, 'EBOUNDS');
-  out.push(
-    makeCheck(matrix ? 'pass' : 'fail', {
-      id: 'rmf.ext.matrix',
-      title: 'matrix extension present',
-      product,
-      measured: matrix ? matrix.name : null,
-      tolerance: RMF_MATRIX_EXTNAMES.join(' | '),
-      message: matrix ? `found ${matrix.name} (HDU ${matrix.index})` : `${view.fileName} has no MATRIX or SPECRESP MATRIX extension`,
-    }),
-    makeCheck(ebounds ? 'pass' : 'fail', {
-      id: 'rmf.ext.ebounds',
-      title: 'EBOUNDS extension present',
-      product,
-      measured: ebounds ? ebounds.name : null,
-      tolerance: 'EBOUNDS',
-      message: ebounds ? `found EBOUNDS (HDU ${ebounds.index})` : `${view.fileName} has no EBOUNDS extension`,
-    }),
-  );
+  const m = extensionPresent(view, 'rmf.ext.matrix', 'matrix extension present', RMF_MATRIX_EXTNAMES, product);
+  const e = extensionPresent(view, 'rmf.ext.ebounds', 'EBOUNDS extension present', ['EBOUNDS'], product);
+  const matrix = m.hdu;
+  const ebounds = e.hdu;
+  const out: Check[] = [m.check, e.check];
 
   if (matrix) {
     const t: KeywordTarget = { idPrefix: 'rmf.matrix', hdu: matrix, product };

@@ -125,9 +125,8 @@ interface ReleaseWork {
   products: ProductSummary[];
 }
 
-function releaseSummary(w: ReleaseWork): ReleaseSummary {
-  const rel = w.r.release;
-  const c = w.outcome.checks;
+/** The fields every document about a release starts with. */
+function releaseHead(rel: ResolvedRelease['release']): Pick<ReleaseSummary, 'id' | 'instrument' | 'title' | 'date' | 'status' | 'validFrom' | 'validTo' | 'supersedes'> {
   return {
     id: rel.id,
     instrument: rel.instrument,
@@ -137,6 +136,13 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
     validFrom: rel.validFrom,
     validTo: rel.validTo,
     supersedes: rel.supersedes,
+  };
+}
+
+function releaseSummary(w: ReleaseWork): ReleaseSummary {
+  const c = w.outcome.checks;
+  return {
+    ...releaseHead(w.r.release),
     checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
     products: w.products,
   };
@@ -269,14 +275,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
         const site: ReleaseSite = {
           schema: 'kiln/release-site/1',
-          id: rel.id,
-          instrument: rel.instrument,
-          title: rel.title,
-          date: rel.date,
-          status: rel.status,
-          validFrom: rel.validFrom,
-          validTo: rel.validTo,
-          supersedes: rel.supersedes,
+          ...releaseHead(rel),
           notesMarkdown: rel.notesMarkdown,
           parameters: results.flatMap((x) => x.parameters),
           detectors: results.map((x) => x.site),

@@ -9,7 +9,8 @@ import { arfDiffTable, parameterDiffs, rmfDiffTable, type ComparedPair, type Com
 import { KilnInputError } from '../errors.ts';
 import { readFitsFile } from '../node/index.ts';
 import { identifyProduct, readArf, readRmf } from '../ogip/index.ts';
-import type { ProductSummary, ReleaseSite } from '../site-data/types.ts';
+import type { ReleaseSite } from '../site-data/types.ts';
+import { arfValidOn } from './validity.ts';
 
 function readSite(outDir: string, id: string): ReleaseSite {
   const file = join(outDir, 'releases', id, 'site.json');
@@ -18,10 +19,6 @@ function readSite(outDir: string, id: string): ReleaseSite {
   return JSON.parse(readFileSync(file, 'utf8')) as ReleaseSite;
 }
 
-function arfValidOn(list: ProductSummary[], detector: string, date: string): ProductSummary | undefined {
-  const arfs = list.filter((p) => p.kind === 'arf' && p.detector === detector).sort((x, y) => x.validFrom.localeCompare(y.validFrom));
-  return arfs.find((p) => p.validFrom <= date && (p.validTo === null || date < p.validTo)) ?? arfs[arfs.length - 1];
-}
 
 export function compareReleases(outDir: string, idA: string, idB: string): CompareReport {
   const A = readSite(outDir, idA);

@@ -10,6 +10,7 @@ import { readFitsFile } from '../node/index.ts';
 import type { Check, ProductSummary } from '../site-data/types.ts';
 import type { ArfData, RmfData } from '../response/types.ts';
 import { tidyCheck } from './validate.ts';
+import { arfValidOn } from './validity.ts';
 
 function rmfAt(dir: string, p: ProductSummary): RmfData {
   return readRmf(readFitsFile(join(dir, p.path))).data;
@@ -18,11 +19,6 @@ function arfAt(dir: string, p: ProductSummary): ArfData {
   return readArf(readFitsFile(join(dir, p.path))).data;
 }
 
-/** The older release's ARF of the detector valid on `date`, else its latest. */
-function olderArfFor(older: ProductSummary[], detector: string, date: string): ProductSummary | undefined {
-  const arfs = older.filter((p) => p.kind === 'arf' && p.detector === detector).sort((a, b) => a.validFrom.localeCompare(b.validFrom));
-  return arfs.find((p) => p.validFrom <= date && (p.validTo === null || date < p.validTo)) ?? arfs[arfs.length - 1];
-}
 
 export function crossReleaseChecks(olderDir: string, older: ProductSummary[], olderId: string, newerDir: string, newer: ProductSummary[], newerId: string): Check[] {
   const checks: Check[] = [];
@@ -32,7 +28,7 @@ export function crossReleaseChecks(olderDir: string, older: ProductSummary[], ol
       const o = older.find((q) => q.kind === 'rmf' && q.detector === p.detector);
       if (o) checks.push(...compareRmf(rmfAt(olderDir, o), rmfAt(newerDir, p), p.id, { label }));
     } else if (p.kind === 'arf') {
-      const o = olderArfFor(older, p.detector, p.validFrom);
+      const o = arfValidOn(older, p.detector, p.validFrom);
       if (o) checks.push(...compareArf(arfAt(olderDir, o), arfAt(newerDir, p), p.id, { label: `${label} (${o.epoch} → ${p.epoch})` }));
     }
   }

@@ -4,7 +4,7 @@
  */
 import { FWHM_PER_SIGMA } from '../physics/resolution.ts';
 import { escapeInputsFor } from '../physics/escape-inputs.ts';
-import { buildParamsAt, expandRow } from '../response/index.ts';
+import { binIndexOf, buildParamsAt, expandRow } from '../response/index.ts';
 import { fitCentroidLaw, fitFwhmLaw, type FitResult } from '../fit/index.ts';
 import { isInputError } from '../errors.ts';
 import type { RmfData } from '../response/types.ts';
@@ -40,25 +40,13 @@ function logSpace(lo: number, hi: number, n: number): number[] {
   return Array.from({ length: n }, (_, i) => Math.exp(a + ((b - a) * i) / (n - 1)));
 }
 
-/** Index of the energy bin containing e (clamped). */
-function binOf(rmf: RmfData, e: number): number {
-  const lo = rmf.energLoKeV;
-  let a = 0;
-  let b = lo.length - 1;
-  while (a < b) {
-    const m = (a + b + 1) >> 1;
-    if (lo[m] <= e) a = m;
-    else b = m - 1;
-  }
-  return a;
-}
 
 function profiles(rmf: RmfData, lineEnergies: number[]): ProfileSet {
   const emin = rmf.energLoKeV[0];
   const emax = rmf.energHiKeV[rmf.energHiKeV.length - 1];
   const wanted = [...new Set([...PROFILE_ENERGIES_KEV, ...lineEnergies].filter((e) => e >= emin && e < emax))].sort((a, b) => a - b);
   const eb = rmf.ebounds;
-  const rows = wanted.map((e) => Array.from(expandRow(rmf.rows[binOf(rmf, e)], rmf.detchans, rmf.firstChannel), (v) => round(v, 4)));
+  const rows = wanted.map((e) => Array.from(expandRow(rmf.rows[binIndexOf(rmf.energLoKeV, rmf.energHiKeV, e)], rmf.detchans, rmf.firstChannel), (v) => round(v, 4)));
   return {
     channelEnergyKeV: Array.from(eb.eMinKeV, (lo, i) => round(0.5 * (lo + eb.eMaxKeV[i]), 6)),
     energiesKeV: wanted.map((e) => round(e, 6)),

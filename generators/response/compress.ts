@@ -61,13 +61,19 @@ export function compressRow(prob: Float64Array, cut: number, firstChannel: numbe
   return { row: { fChan, nChan, matrix }, dropped };
 }
 
-/** The dense row (index 0 = firstChannel) from its grouped form. */
+/**
+ * The dense row (index 0 = firstChannel) from its grouped form. Tolerant of rows read from files
+ * Kiln did not write: elements outside the channel range are left out, overlapping groups add.
+ */
 export function expandRow(row: RmfRow, detchans: number, firstChannel: number): Float64Array {
   const out = new Float64Array(detchans);
   let k = 0;
   for (let g = 0; g < row.fChan.length; g++) {
     const start = row.fChan[g] - firstChannel;
-    for (let i = 0; i < row.nChan[g]; i++) out[start + i] = row.matrix[k++];
+    for (let i = 0; i < row.nChan[g]; i++, k++) {
+      const idx = start + i;
+      if (idx >= 0 && idx < detchans) out[idx] += row.matrix[k];
+    }
   }
   return out;
 }

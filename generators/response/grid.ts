@@ -67,3 +67,20 @@ export function channelBoundsKeV(g: ChannelGrid, field = 'channels', file?: stri
   for (let j = 0; j <= g.count; j++) b[j] = (g.originEv + j * g.widthEv) / EV_PER_KEV;
   return b;
 }
+
+/**
+ * Index of the bin with lo ≤ E < hi of a contiguous increasing grid (the top edge belongs to the
+ * last bin), or −1 outside it. Binary search.
+ */
+export function binIndexOf(loKeV: ArrayLike<number>, hiKeV: ArrayLike<number>, energyKeV: number): number {
+  const n = loKeV.length;
+  if (!(n > 0) || !Number.isFinite(energyKeV) || energyKeV < loKeV[0] || energyKeV > hiKeV[n - 1]) return -1;
+  let a = 0;
+  let b = n - 1;
+  while (a < b) {
+    const m = (a + b + 1) >> 1;
+    if (loKeV[m] <= energyKeV) a = m;
+    else b = m - 1;
+  }
+  return energyKeV < hiKeV[a] || a === n - 1 ? a : -1;
+}

@@ -4,12 +4,12 @@
  * media no interactive control is rendered. Expected hashes come from the release manifests.
  * "Controls do not print" and "tables fit the screen" are common practice, no source.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { ReleaseIndex, ReleaseManifest } from '../../generators/site-data/types.ts';
-import { DIST, requireDist, serveDist } from './support/server.ts';
-import { launch } from './support/browser.ts';
+import { DIST, requireDist } from './support/server.ts';
+import { siteSession } from './support/browser.ts';
 
 /** The narrow desktop width the tables must fit. */
 const NARROW_PX = 800;
@@ -23,21 +23,12 @@ const det = index.instruments[0].detectors[0].id;
 const firstProduct = index.releases.flatMap((r) => r.products).find((p) => p.detector === det)!;
 const finderPath = `/finder/?detector=${det}&date=${firstProduct.validFrom}`;
 
-let server: Awaited<ReturnType<typeof serveDist>>;
-let browser: Awaited<ReturnType<typeof launch>>;
-beforeAll(async () => {
-  server = await serveDist();
-  browser = await launch();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
+const site = siteSession();
 
 async function open(path: string, width: number) {
-  const page = await browser.context.newPage();
+  const page = await site.context.newPage();
   await page.setViewportSize({ width, height: 900 });
-  await page.goto(server.url + path, { waitUntil: 'networkidle' });
+  await page.goto(site.url + path, { waitUntil: 'networkidle' });
   return page;
 }
 const overflow = (page: Awaited<ReturnType<typeof open>>, sel: string) =>

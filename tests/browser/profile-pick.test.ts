@@ -5,17 +5,16 @@
  * the rule of the OGIP memo CAL/GEN/92-002: N_GRP groups of N_CHAN channels from F_CHAN, TLMIN of
  * F_CHAN being the first channel), and the bin is the one with ENERG_LO ≤ E < ENERG_HI (same memo).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import type { BrowserContext, Page } from 'playwright-core';
 import type { ReleaseIndex, ReleaseSite } from '../../generators/site-data/types.ts';
 import type { RmfData } from '../../generators/response/types.ts';
 import { readFits } from '../../generators/fits/index.ts';
 import { readRmf } from '../../generators/ogip/index.ts';
-import { DIST, requireDist, serveDist } from './support/server.ts';
-import { launch, watch } from './support/browser.ts';
+import { DIST, requireDist } from './support/server.ts';
+import { siteSession } from './support/browser.ts';
 
 const SHOTS = '/tmp/shots';
 /** An energy between published profile energies (none of the demo releases lists it). */
@@ -50,29 +49,11 @@ function nodeRow(d: RmfData, energyKeV: number): { bin: number; lo: number; hi: 
 const rmf = readRmf(readFits(gunzipSync(readFileSync(join(DIST, rmfPath))), { fileName: rmfName })).data;
 const expected = nodeRow(rmf, PICK_KEV);
 
-let server: Awaited<ReturnType<typeof serveDist>>;
-let browser: Awaited<ReturnType<typeof launch>>;
-let context: BrowserContext;
+mkdirSync(SHOTS, { recursive: true });
+const session = siteSession();
+const open = () => session.open(`/releases/${id}/`);
 
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  server = await serveDist();
-  browser = await launch();
-  context = browser.context;
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function open(): Promise<{ page: Page; problems: string[] }> {
-  const page = await context.newPage();
-  const { problems } = watch(page, server.url);
-  await page.goto(`${server.url}/releases/${id}/`, { waitUntil: 'networkidle' });
-  return { page, problems };
-}
-
-const rmfRequests = () => server.requests.filter((r) => r === rmfPath).length;
+const rmfRequests = () => session.server.requests.filter((r) => r === rmfPath).length;
 
 describe('release page: profile at any energy, from the published RMF', () => {
   it('the chosen energy is not one of the published profile energies', () => {
@@ -167,9 +148,9 @@ describe('release page: profile at any energy, from the published RMF', () => {
   });
 
   it('a failed fetch of the RMF gets a message', async () => {
-    const page = await context.newPage();
+    const page = await session.context.newPage();
     await page.route(`**${rmfPath}`, (route) => route.fulfill({ status: 503, body: 'unavailable' }));
-    await page.goto(`${server.url}/releases/${id}/`, { waitUntil: 'networkidle' });
+    await page.goto(`${session.url}/releases/${id}/`, { waitUntil: 'networkidle' });
     const box = page.locator('.profiles').first();
     const status = box.locator('output.profile-status');
     await box.getByRole('spinbutton', { name: /any energy/ }).fill(String(PICK_KEV));

@@ -3,15 +3,14 @@
  * dist/ by a tiny local server. dist/ must come from `npm run build` (KILN_OUT, default .kiln/out).
  * Checksums are verified with node:crypto's SHA-256 (FIPS 180-4) against the release manifests.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import type { BrowserContext, Page } from 'playwright-core';
 import type { ReleaseIndex, ReleaseManifest } from '../../generators/site-data/types.ts';
-import { DIST, requireDist, serveDist } from './support/server.ts';
-import { launch, watch } from './support/browser.ts';
+import { DIST, requireDist } from './support/server.ts';
+import { launch, siteSession } from './support/browser.ts';
 
 const SHOTS = '/tmp/shots';
 /**
@@ -26,27 +25,9 @@ const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8'))
 const releaseIds = index.releases.map((r) => r.id);
 const PAGES = ['/', '/compare/', '/finder/', '/inspect/', '/about/', ...releaseIds.map((id) => `/releases/${id}/`)];
 
-let server: Awaited<ReturnType<typeof serveDist>>;
-let browser: Awaited<ReturnType<typeof launch>>;
-let context: BrowserContext;
-
-beforeAll(async () => {
-  mkdirSync(SHOTS, { recursive: true });
-  server = await serveDist();
-  browser = await launch();
-  context = browser.context;
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function open(path: string): Promise<{ page: Page; problems: string[] }> {
-  const page = await context.newPage();
-  const { problems } = watch(page, server.url);
-  await page.goto(server.url + path, { waitUntil: 'networkidle' });
-  return { page, problems };
-}
+mkdirSync(SHOTS, { recursive: true });
+const site = siteSession();
+const open = (path: string) => site.open(path);
 
 /** Vertices of a path: move/line commands and the H/V legs of step curves. */
 const pointCount = (d: string) => (d.match(/[MLHV]/g) ?? []).length;
@@ -79,7 +60,7 @@ describe('release page', () => {
     const imgs = await page.$$eval('figure.matrix-fig image', (is) => is.map((i) => i.getAttribute('href')));
     expect(imgs.length).toBeGreaterThan(0);
     for (const src of imgs) {
-      const r = await page.request.get(server.url + src);
+      const r = await page.request.get(site.url + src);
       expect(r.status()).toBe(200);
       expect([...(await r.body()).subarray(0, 4)]).toEqual([137, 80, 78, 71]);
     }
@@ -148,13 +129,13 @@ describe('downloads', () => {
       for (const f of manifest.files) {
         const link = links.find((l) => l.href === `/releases/${id}/${f.path}`);
         expect(link, f.path).toBeDefined();
-        const r = await page.request.get(server.url + link!.href);
+        const r = await page.request.get(site.url + link!.href);
         expect(r.status()).toBe(200);
         const body = await r.body();
         expect(body.length).toBe(f.bytes);
         expect(createHash('sha256').update(body).digest('hex')).toBe(f.sha256);
       }
-      const sums = await (await page.request.get(`${server.url}/releases/${id}/files/SHA256SUMS.txt`)).text();
+      const sums = await (await page.request.get(`${site.url}/releases/${id}/files/SHA256SUMS.txt`)).text();
       for (const f of manifest.files) expect(sums).toContain(`${f.sha256}  ${f.path.replace(/^files\//, '')}`);
       await page.close();
     });
@@ -177,7 +158,7 @@ describe('compare page', () => {
     expect(u.searchParams.get('b')).toBe(a0);
     await page.screenshot({ path: `${SHOTS}/compare-swapped.png`, fullPage: true });
     // The shared URL reproduces the choice.
-    const again = await context.newPage();
+    const again = await site.context.newPage();
     await again.goto(page.url(), { waitUntil: 'networkidle' });
     await expect.poll(() => again.textContent('#compare-status')).toContain(`B = ${a0} against A = ${b0}`);
     expect(await again.locator('#compare-body path.series').first().getAttribute('d')).toBe(await first());
@@ -259,7 +240,7 @@ describe('without JavaScript', () => {
     try {
       for (const path of [`/releases/${releaseIds[0]}/`, '/compare/']) {
         const page = await nojs.context.newPage();
-        await page.goto(server.url + path, { waitUntil: 'networkidle' });
+        await page.goto(site.url + path, { waitUntil: 'networkidle' });
         const ds = await page.$$eval('path.series:not(.points)', (ps) => ps.map((p) => p.getAttribute('d') ?? ''));
         expect(ds.length).toBeGreaterThan(0);
         expect(ds.filter((d) => pointCount(d) >= MIN_LINE_POINTS).length).toBeGreaterThan(0);

@@ -2,6 +2,8 @@
  * One row of a published RMF at a photon energy the reader chose: the energy bin containing it,
  * the row expanded to every channel, and the channel energies (EBOUNDS centres). Pure.
  */
+import { expandRow } from '../../../generators/response/compress.ts';
+import { binIndexOf } from '../../../generators/response/grid.ts';
 import type { RmfData } from '../../../generators/response/types.ts';
 
 export interface PublishedRow {
@@ -25,18 +27,7 @@ export function energyGridKeV(d: RmfData): [number, number] {
  * or -1 outside the grid. Bins are contiguous and increasing in an OGIP RMF: binary search.
  */
 export function binContaining(d: RmfData, energyKeV: number): number {
-  const lo = d.energLoKeV;
-  const hi = d.energHiKeV;
-  const n = lo.length;
-  if (!(n > 0) || !Number.isFinite(energyKeV) || energyKeV < lo[0] || energyKeV > hi[n - 1]) return -1;
-  let a = 0;
-  let b = n - 1;
-  while (a < b) {
-    const m = (a + b + 1) >> 1;
-    if (lo[m] <= energyKeV) a = m;
-    else b = m - 1;
-  }
-  return energyKeV < hi[a] || a === n - 1 ? a : -1;
+  return binIndexOf(d.energLoKeV, d.energHiKeV, energyKeV);
 }
 
 /** The row at energyKeV; throws an Error naming the grid range when the energy lies outside it. */
@@ -46,14 +37,7 @@ export function rowAtEnergy(d: RmfData, energyKeV: number): PublishedRow {
     const [a, b] = energyGridKeV(d);
     throw new RangeError(`${energyKeV} keV is outside the matrix energy grid, ${a}–${b} keV`);
   }
-  const probability = new Array<number>(d.detchans).fill(0);
-  const row = d.rows[bin];
-  let k = 0;
-  for (let g = 0; g < row.fChan.length; g++)
-    for (let c = 0; c < row.nChan[g]; c++, k++) {
-      const ch = row.fChan[g] + c - d.firstChannel;
-      if (ch >= 0 && ch < d.detchans) probability[ch] = row.matrix[k];
-    }
+  const probability = Array.from(expandRow(d.rows[bin], d.detchans, d.firstChannel));
   const channelEnergyKeV = Array.from(d.ebounds.eMinKeV, (e, i) => (e + d.ebounds.eMaxKeV[i]) / 2);
   return { bin, binLoKeV: d.energLoKeV[bin], binHiKeV: d.energHiKeV[bin], channelEnergyKeV, probability };
 }

@@ -1,5 +1,7 @@
 /** Headless Debian chromium through playwright-core (never a downloaded browser). */
+import { afterAll, beforeAll } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { serveDist } from './server.ts';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -43,4 +45,46 @@ export function watch(page: Page, origin: string): { problems: string[] } {
     if (!u.startsWith(origin) && !u.startsWith('data:') && !u.startsWith('blob:')) problems.push(`off-site request: ${u}`);
   });
   return { problems };
+}
+
+/**
+ * The served dist/ and one browser for a test file, started before its tests and closed after
+ * them (registers the vitest hooks). `open` loads a page and watches it for problems.
+ */
+export function siteSession(): {
+  readonly url: string;
+  readonly context: BrowserContext;
+  readonly server: Awaited<ReturnType<typeof serveDist>>;
+  open(path: string): Promise<{ page: Page; problems: string[] }>;
+} {
+  let server: Awaited<ReturnType<typeof serveDist>> | undefined;
+  let browser: Awaited<ReturnType<typeof launch>> | undefined;
+  beforeAll(async () => {
+    server = await serveDist();
+    browser = await launch();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+  const session = {
+    get url() {
+      return session.server.url;
+    },
+    get context() {
+      if (!browser) throw new Error('browser not started (use inside tests)');
+      return browser.context;
+    },
+    get server() {
+      if (!server) throw new Error('server not started (use inside tests)');
+      return server;
+    },
+    async open(path: string) {
+      const page = await session.context.newPage();
+      const { problems } = watch(page, session.url);
+      await page.goto(session.url + path, { waitUntil: 'networkidle' });
+      return { page, problems };
+    },
+  };
+  return session;
 }
