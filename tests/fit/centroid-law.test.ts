@@ -1,3 +1,8 @@
+/**
+ * Energy-scale fit against statistics, not our own numbers: seeded synthetic centroids from a
+ * known truth give pulls ~ N(0, 1) (least-squares theory, common practice, no source); the
+ * covariance equals 2·H⁻¹ from a finite-difference Hessian of χ².
+ */
 import { describe, expect, it } from 'vitest';
 import { fitCentroidLaw, centroidShiftEv, toCentroidLaw } from '../../generators/fit/centroid-law.ts';
 import { KilnInputError } from '../../generators/errors.ts';

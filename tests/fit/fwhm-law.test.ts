@@ -1,3 +1,8 @@
+/**
+ * FWHM-law fit against statistics, not our own numbers: synthetic lines drawn from a known truth
+ * with seeded Gaussian noise must give pulls ~ N(0, 1) and χ² ~ dof (least-squares theory, common
+ * practice, no source); the covariance must equal 2·H⁻¹ from a finite-difference Hessian of χ².
+ */
 import { describe, expect, it } from 'vitest';
 import { fitFwhmLaw, fwhmModelEv } from '../../generators/fit/fwhm-law.ts';
 import { FWHM_PER_SIGMA } from '../../generators/physics/resolution.ts';

@@ -1,3 +1,9 @@
+/**
+ * Line-profile components against mathematics, not our own numbers: densities against direct
+ * numerical convolution, CDFs against numerical integration of the densities, and the moments of
+ * an exponentially modified Gaussian (mean c − τ, variance σ² + τ²: sum of independent variables,
+ * common practice, no source).
+ */
 import { describe, expect, it } from 'vitest';
 import {
   componentCdf,

@@ -1,3 +1,8 @@
+/**
+ * Energy and channel grids against their definitions: contiguous bins with the stated linear or
+ * logarithmic spacing, and the channel-bound contract of generators/response/model-types.ts
+ * (OGIP CAL/GEN/92-002 asks for contiguous ENERG_LO/ENERG_HI and one E_MIN/E_MAX per channel).
+ */
 import { describe, expect, it } from 'vitest';
 import { channelBoundsKeV, checkEnergyBins, energyGrid } from '../../generators/response/grid.ts';
 import { eboundsFromChannels } from '../../generators/response/ebounds.ts';
