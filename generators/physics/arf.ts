@@ -1,12 +1,15 @@
 /**
  * Effective area on a response energy grid: mirror area × detector efficiency. The mirror table is
- * interpolated log-log (linear where an end point is zero) at each bin centre (ENERG_LO+ENERG_HI)/2,
- * and the efficiency is evaluated at the same centres; no averaging over the bin.
+ * interpolated log-log (linear where an end point is zero). `effectiveArea` gives the bin average of
+ * mirror × efficiency (a flat spectrum inside each bin, edges and table knots resolved:
+ * bin-average.ts); `mirrorAreaAtBinCentres` samples the mirror at (ENERG_LO+ENERG_HI)/2 for plots.
  */
 import { KilnInputError } from '../errors.ts';
 import type { ArfData } from '../response/types.ts';
 import type { DetectorStack } from './types.ts';
-import { efficiencyBreakdown } from './efficiency.ts';
+import { efficiencyBreakdown, type EfficiencyOptions } from './efficiency.ts';
+import { binAverages, binQuadrature } from './bin-average.ts';
+import { stackEdgesKeV } from './stack-edges.ts';
 
 export interface MirrorAreaTable {
   energyKeV: ArrayLike<number>;
@@ -67,13 +70,15 @@ function checkGrid(lo: Float64Array, hi: Float64Array): void {
 
 /** Mirror area at the centre of each bin, cm². The table must cover [ENERG_LO[0], ENERG_HI[last]]. */
 export function mirrorAreaAtBinCentres(table: MirrorAreaTable, energLoKeV: Float64Array, energHiKeV: Float64Array): Float64Array {
-  checkMirror(table);
   checkGrid(energLoKeV, energHiKeV);
+  checkCovers(table, energLoKeV[0], energHiKeV[energHiKeV.length - 1]);
+  return mirrorAreaAt(table, energLoKeV.map((lo, i) => 0.5 * (lo + energHiKeV[i])));
+}
+
+function checkCovers(table: MirrorAreaTable, gridLo: number, gridHi: number): void {
+  checkMirror(table);
   const e = table.energyKeV;
-  const a = table.areaCm2;
   const n = e.length;
-  const gridLo = energLoKeV[0];
-  const gridHi = energHiKeV[energHiKeV.length - 1];
   if (e[0] > gridLo * (1 + COVER_SLACK) || e[n - 1] < gridHi * (1 - COVER_SLACK)) {
     throw new KilnInputError('mirror area table does not cover the response energy grid', {
       file: table.file,
@@ -82,10 +87,17 @@ export function mirrorAreaAtBinCentres(table: MirrorAreaTable, energLoKeV: Float
       expected: `a table spanning at least ${gridLo}–${gridHi} keV`,
     });
   }
-  const out = new Float64Array(energLoKeV.length);
+}
+
+/** Mirror area at ascending energies (clamped to the table's ends), cm²; the table is checked by the callers. */
+function mirrorAreaAt(table: MirrorAreaTable, energiesKeV: Float64Array): Float64Array {
+  const e = table.energyKeV;
+  const a = table.areaCm2;
+  const n = e.length;
+  const out = new Float64Array(energiesKeV.length);
   let k = 0;
   for (let i = 0; i < out.length; i++) {
-    const x = Math.min(Math.max(0.5 * (energLoKeV[i] + energHiKeV[i]), e[0]), e[n - 1]);
+    const x = Math.min(Math.max(energiesKeV[i], e[0]), e[n - 1]);
     while (k < n - 2 && x > e[k + 1]) k++;
     const [e0, e1, a0, a1] = [e[k], e[k + 1], a[k], a[k + 1]];
     if (a0 > 0 && a1 > 0) out[i] = Math.exp(Math.log(a0) + (Math.log(a1 / a0) * Math.log(x / e0)) / Math.log(e1 / e0));
@@ -100,16 +112,34 @@ export function binCentresKeV(energLoKeV: Float64Array, energHiKeV: Float64Array
   return energLoKeV.map((lo, i) => 0.5 * (lo + energHiKeV[i]));
 }
 
-/** SPECRESP (cm²) of an ARF: mirror area × detector efficiency at the bin centres. */
+export interface BinAveragedArea extends Pick<ArfData, 'energLoKeV' | 'energHiKeV' | 'specrespCm2'> {
+  /** Bin average of the detector efficiency alone (the SPECRESP without the mirror's weighting). */
+  detectorQE: Float64Array;
+}
+
+/**
+ * SPECRESP (cm²) of an ARF: the average over each bin of mirror area × detector efficiency, the
+ * bins cut at every cross-section edge of the stack and every knot of the mirror table.
+ * `extraPerIncident` adds events per incident photon that the efficiency does not count (Si
+ * fluorescence from the stack reaching the sensor), evaluated at the same quadrature nodes.
+ */
 export function effectiveArea(
   stack: DetectorStack,
   mirror: MirrorAreaTable,
   energLoKeV: Float64Array,
   energHiKeV: Float64Array,
   dateIso: string | null,
-): Pick<ArfData, 'energLoKeV' | 'energHiKeV' | 'specrespCm2'> {
-  const area = mirrorAreaAtBinCentres(mirror, energLoKeV, energHiKeV);
-  const qe = efficiencyBreakdown(stack, binCentresKeV(energLoKeV, energHiKeV), dateIso).detectorQE;
-  const specrespCm2 = area.map((v, i) => v * qe[i]);
-  return { energLoKeV: Float64Array.from(energLoKeV), energHiKeV: Float64Array.from(energHiKeV), specrespCm2 };
+  opts: EfficiencyOptions & { extraPerIncident?: (energiesKeV: Float64Array) => Float64Array } = {},
+): BinAveragedArea {
+  checkGrid(energLoKeV, energHiKeV);
+  checkCovers(mirror, energLoKeV[0], energHiKeV[energHiKeV.length - 1]);
+  const q = binQuadrature(energLoKeV, energHiKeV, [...stackEdgesKeV(stack), ...Array.from(mirror.energyKeV)]);
+  const qe = efficiencyBreakdown(stack, q.energiesKeV, dateIso, opts).detectorQE;
+  if (opts.extraPerIncident) {
+    const extra = opts.extraPerIncident(q.energiesKeV);
+    for (let j = 0; j < qe.length; j++) qe[j] += extra[j];
+  }
+  const area = mirrorAreaAt(mirror, q.energiesKeV);
+  const specrespCm2 = binAverages(q, area.map((v, j) => v * qe[j]));
+  return { energLoKeV: Float64Array.from(energLoKeV), energHiKeV: Float64Array.from(energHiKeV), specrespCm2, detectorQE: binAverages(q, qe) };
 }

@@ -52,8 +52,12 @@ export function validateSensor(sensor: SensorSpec): void {
   }
 }
 
-/** Absorbed-and-collected probability at each energy (see the model above). */
-export function sensorAbsorption(sensor: SensorSpec, energiesKeV: Float64Array): Float64Array {
+/**
+ * Absorbed-and-collected probability at each energy (see the model above). With `allAbsorbed`,
+ * every photoabsorption in the partial and the depleted layer counts (c = 1): the probability
+ * that the sensor produces an event of some size, whose size the redistribution matrix describes.
+ */
+export function sensorAbsorption(sensor: SensorSpec, energiesKeV: Float64Array, opts: { allAbsorbed?: boolean } = {}): Float64Array {
   validateSensor(sensor);
   const muTot = materialMassAttenuationArrayCm2g(sensor.material.formula, energiesKeV, 'total');
   const muPh = materialMassAttenuationArrayCm2g(sensor.material.formula, energiesKeV, 'photo');
@@ -66,7 +70,8 @@ export function sensorAbsorption(sensor: SensorSpec, energiesKeV: Float64Array):
     const mu = muTot[j] * rho;
     const depleted = -Math.expm1(-mu * dCm);
     let collected: number;
-    if (pCm > 0) {
+    if (pCm > 0 && opts.allAbsorbed) collected = -Math.expm1(-mu * (pCm + dCm));
+    else if (pCm > 0) {
       const x = mu * pCm;
       const a = -Math.expm1(-x);
       collected = c0 * a + (1 - c0) * rampTerm(x) + Math.exp(-x) * depleted;

@@ -34,11 +34,21 @@ function checkStack(stack: DetectorStack): void {
   }
 }
 
+export interface EfficiencyOptions {
+  /**
+   * The redistribution matrix carries the partially collecting layer's events (partial-charge
+   * model, generators/response/collection-params.ts): the sensor then counts every photoabsorbed
+   * photon, collected fully or not; the matrix moves the partial ones into the tail or under the
+   * threshold. Default false: the layer's uncollected charge is counted as lost here.
+   */
+  partialChargeInMatrix?: boolean;
+}
+
 /**
  * Efficiency components at each energy. `dateIso` (YYYY-MM-DD) is needed only when the stack has a
  * contamination layer; null otherwise.
  */
-export function efficiencyBreakdown(stack: DetectorStack, energiesKeV: Float64Array, dateIso: string | null): EfficiencyBreakdown {
+export function efficiencyBreakdown(stack: DetectorStack, energiesKeV: Float64Array, dateIso: string | null, opts: EfficiencyOptions = {}): EfficiencyBreakdown {
   checkStack(stack);
   const components: EfficiencyComponent[] = [];
   for (const f of stack.filters) components.push({ name: f.name, kind: 'filter', values: layerTransmission(f, energiesKeV) });
@@ -54,7 +64,7 @@ export function efficiencyBreakdown(stack: DetectorStack, energiesKeV: Float64Ar
     components.push({ name: stack.contamination.name, kind: 'contamination', values: contaminationTransmission(stack.contamination, energiesKeV, dateIso) });
   }
   for (const s of stack.surface) components.push({ name: s.name, kind: 'surface', values: layerTransmission(s, energiesKeV) });
-  components.push({ name: 'sensor', kind: 'sensor', values: sensorAbsorption(stack.sensor, energiesKeV) });
+  components.push({ name: 'sensor', kind: 'sensor', values: sensorAbsorption(stack.sensor, energiesKeV, { allAbsorbed: opts.partialChargeInMatrix === true }) });
   const detectorQE = new Float64Array(energiesKeV.length).fill(1);
   for (const c of components) for (let j = 0; j < detectorQE.length; j++) detectorQE[j] *= c.values[j];
   return { components, detectorQE, contaminationUm };

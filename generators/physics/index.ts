@@ -13,3 +13,7 @@ export * from './profile.ts';
 export * from './escape.ts';
 export * from './escape-inputs.ts';
 export * from './interp.ts';
+export * from './partial-charge.ts';
+export * from './bin-average.ts';
+export * from './stack-edges.ts';
+export * from './stack-fluorescence.ts';

@@ -10,12 +10,15 @@
  *    so it never overflows (the exponent of the plain form is large exactly where erfc underflows);
  *  - shelf: flat from the lowest channel energy up to c, convolved with the Gaussian;
  *  - escape: Si Kα escape peak, Gaussian at the centroid and σ of energy E − E_Kα;
- *  - fluorescence: Si Kα line from the detector's own surface layers, Gaussian at E_Kα.
+ *  - fluorescence: Si Kα line from the detector's own surface layers, Gaussian at E_Kα;
+ *  - partial: the partial-charge events of a partially collecting layer (partial-charge.ts), a
+ *    truncated exponential on [c0·c, c) convolved with the Gaussian.
  * Fractions sum to 1 (the core takes the rest); events measured below the threshold are lost.
  * Energies in keV.
  */
 import { erfc, erfcx, normalCdf, normalPdf, INV_SQRT_2PI, SQRT2 } from './special.ts';
 import { KilnInputError } from '../errors.ts';
+import type { PartialChargeShape } from './partial-charge.ts';
 
 /** Parameters of the profile at one true energy (see generators/response/params.ts). */
 export interface ProfileParams {
@@ -26,12 +29,16 @@ export interface ProfileParams {
   shelfFraction: number;
   escapeFraction: number;
   fluorescenceFraction: number;
+  /** Partial-charge events of the collection model (absent: none; the empirical tail may stand in). */
+  partial?: PartialChargeShape;
 }
 
 export type ProfileComponent =
   | { kind: 'gaussian'; role: 'core' | 'escape' | 'fluorescence'; fraction: number; centroidKeV: number; sigmaKeV: number }
   | { kind: 'tail'; fraction: number; centroidKeV: number; sigmaKeV: number; scaleKeV: number }
   | { kind: 'shelf'; fraction: number; lowKeV: number; highKeV: number; sigmaKeV: number }
+  /** Density ∝ exp(−rate·(y − low)) on [low, high), convolved with N(0, σ). */
+  | { kind: 'partial'; fraction: number; lowKeV: number; highKeV: number; ratePerKeV: number; sigmaKeV: number }
   /** Core and tail of one line together (same centroid and σ): one Φ per point serves both. */
   | { kind: 'peak'; fraction: number; centroidKeV: number; sigmaKeV: number; scaleKeV: number; tailShare: number };
 
@@ -90,6 +97,33 @@ export function shelfCdf(x: number, lo: number, hi: number, s: number): number {
   return ((psi((x - lo) / s) - psi((x - hi) / s)) * s) / width;
 }
 
+/** Below this rate × width the truncated exponential is flat to 1e-6 and the shelf's closed form is used. */
+const FLAT_BELOW = 1e-6;
+
+/** Φ((x − a)/σ) − exp(−k(x − a) + k²σ²/2)·Φ((x − a)/σ − kσ): CDF of a + Exp(k) + N(0, σ). */
+function highEmgCdf(x: number, a: number, s: number, k: number): number {
+  return normalCdf((x - a) / s) - emgTerm(a - x, s, 1 / k);
+}
+
+/**
+ * CDF of the truncated exponential on [lo, hi) (density ∝ e^{−k(y − lo)}) convolved with N(0, σ):
+ * the exponential from lo minus its part beyond hi, which is e^{−k(hi − lo)} times the same
+ * exponential started at hi.
+ */
+export function partialCdf(x: number, lo: number, hi: number, k: number, s: number): number {
+  const kw = k * (hi - lo);
+  if (kw < FLAT_BELOW) return shelfCdf(x, lo, hi, s);
+  const tailBeyond = Math.exp(-kw);
+  return (highEmgCdf(x, lo, s, k) - tailBeyond * highEmgCdf(x, hi, s, k)) / -Math.expm1(-kw);
+}
+
+export function partialPdf(x: number, lo: number, hi: number, k: number, s: number): number {
+  const kw = k * (hi - lo);
+  if (kw < FLAT_BELOW) return shelfPdf(x, lo, hi, s);
+  // d/dx of highEmgCdf is k·exp(−k(x − a) + k²σ²/2)·Φ((x − a)/σ − kσ) = k·emgTerm(a − x, σ, 1/k)
+  return (k * (emgTerm(lo - x, s, 1 / k) - Math.exp(-kw) * emgTerm(hi - x, s, 1 / k))) / -Math.expm1(-kw);
+}
+
 export function shelfPdf(x: number, lo: number, hi: number, s: number): number {
   const width = hi - lo;
   if (width <= 1e-9 * s) return gaussianPdf(x, lo, s);
@@ -105,6 +139,7 @@ export function componentWindow(c: ProfileComponent): [number, number] {
     case 'peak':
       return [c.centroidKeV - TAIL_EFOLDINGS * c.scaleKeV - WINDOW_SIGMAS * c.sigmaKeV, c.centroidKeV + WINDOW_SIGMAS * c.sigmaKeV];
     case 'shelf':
+    case 'partial':
       return [c.lowKeV - WINDOW_SIGMAS * c.sigmaKeV, c.highKeV + WINDOW_SIGMAS * c.sigmaKeV];
   }
 }
@@ -144,6 +179,10 @@ export function componentCdf(c: ProfileComponent): (x: number) => number {
       const { lowKeV, highKeV, sigmaKeV } = c;
       return (x) => (x <= wlo ? 0 : x >= whi ? 1 : shelfCdf(x, lowKeV, highKeV, sigmaKeV));
     }
+    case 'partial': {
+      const { lowKeV, highKeV, ratePerKeV, sigmaKeV } = c;
+      return (x) => (x <= wlo ? 0 : x >= whi ? 1 : partialCdf(x, lowKeV, highKeV, ratePerKeV, sigmaKeV));
+    }
     case 'peak':
       // (1 − a)·Φ(u/σ) + a·(Φ(u/σ) + emgTerm) = Φ(u/σ) + a·emgTerm, a the tail's share.
       return emgMixtureCdf(c.centroidKeV, c.sigmaKeV, c.scaleKeV, c.tailShare, wlo, whi);
@@ -179,6 +218,8 @@ export function componentPdf(c: ProfileComponent, x: number): number {
       return emgLowTailPdf(x, c.centroidKeV, c.sigmaKeV, c.scaleKeV);
     case 'shelf':
       return shelfPdf(x, c.lowKeV, c.highKeV, c.sigmaKeV);
+    case 'partial':
+      return partialPdf(x, c.lowKeV, c.highKeV, c.ratePerKeV, c.sigmaKeV);
     case 'peak':
       return (1 - c.tailShare) * gaussianPdf(x, c.centroidKeV, c.sigmaKeV) + c.tailShare * emgLowTailPdf(x, c.centroidKeV, c.sigmaKeV, c.scaleKeV);
   }
@@ -204,6 +245,11 @@ export function checkFractions(p: ProfileParams, energyKeV: number): void {
       throw new KilnInputError(`profile ${n} out of range at ${energyKeV} keV`, { field: n, value: v, expected: 'in [0, 1]' });
     sum += v;
   }
+  if (p.partial) {
+    const v = p.partial.fraction;
+    if (!(v >= 0 && v <= 1)) throw new KilnInputError(`partial-charge fraction out of range at ${energyKeV} keV`, { field: 'partial.fraction', value: v, expected: 'in [0, 1]' });
+    sum += v;
+  }
   if (sum > 1)
     throw new KilnInputError(`profile fractions sum above 1 at ${energyKeV} keV`, { field: names.join('+'), value: sum, expected: '≤ 1' });
   if (!(p.sigmaKeV > 0)) throw new KilnInputError(`profile width must be > 0 at ${energyKeV} keV`, { field: 'sigmaKeV', value: p.sigmaKeV, expected: '> 0' });
@@ -215,7 +261,8 @@ export function checkFractions(p: ProfileParams, energyKeV: number): void {
 export function profileComponents(p: ProfileParams, ctx: ProfileContext, energyKeV = p.centroidKeV): ProfileComponent[] {
   checkFractions(p, energyKeV);
   const out: ProfileComponent[] = [];
-  const core = 1 - p.tailFraction - p.shelfFraction - p.escapeFraction - p.fluorescenceFraction;
+  const partial = p.partial?.fraction ?? 0;
+  const core = 1 - p.tailFraction - p.shelfFraction - p.escapeFraction - p.fluorescenceFraction - partial;
   if (core > 0) out.push({ kind: 'gaussian', role: 'core', fraction: core, centroidKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV });
   if (p.tailFraction > 0)
     out.push({ kind: 'tail', fraction: p.tailFraction, centroidKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV, scaleKeV: p.tailScaleKeV });
@@ -223,6 +270,17 @@ export function profileComponents(p: ProfileParams, ctx: ProfileContext, energyK
     const lo = Math.min(ctx.shelfLowKeV, p.centroidKeV);
     out.push({ kind: 'shelf', fraction: p.shelfFraction, lowKeV: lo, highKeV: p.centroidKeV, sigmaKeV: p.sigmaKeV });
   }
+  if (p.partial && partial > 0)
+    out.push({
+      kind: 'partial',
+      fraction: partial,
+      lowKeV: p.partial.lowShare * p.centroidKeV,
+      highKeV: p.centroidKeV,
+      // the rate is per unit of collected fraction; per keV of measured energy it scales with 1/c
+      ratePerKeV: p.partial.rateAcrossLayer / p.centroidKeV,
+      // partial events are read with the noise of the core (their smaller Fano term is neglected)
+      sigmaKeV: p.sigmaKeV,
+    });
   if (p.escapeFraction > 0) {
     if (!ctx.escape) throw new Error('profileComponents: escape fraction > 0 but no escape-peak centroid/σ given');
     out.push({ kind: 'gaussian', role: 'escape', fraction: p.escapeFraction, ...ctx.escape });

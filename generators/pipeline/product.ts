@@ -4,9 +4,9 @@
  * the full response (RSP = RMF × ARF). Pure: data in, FITS bytes and site data out, so the same
  * code can run in a worker thread or, later, in an observer's browser.
  */
-import { binCentresKeV, efficiencyBreakdown, mirrorAreaAtBinCentres } from '../physics/index.ts';
+import { binCentresKeV, effectiveArea, efficiencyBreakdown, mirrorAreaAtBinCentres } from '../physics/index.ts';
 import { escapeInputsFor } from '../physics/escape-inputs.ts';
-import { buildRedistribution, energyGrid, type RedistributionResult } from '../response/index.ts';
+import { buildRedistribution, countsStackFluorescence, efficiencyOptionsFor, energyGrid, fluorescencePerIncident, type RedistributionResult } from '../response/index.ts';
 import type { ArfData, ResponseMeta, RmfData } from '../response/types.ts';
 import { writeArf, writeRmf } from '../ogip/index.ts';
 import type { EpochSite } from '../site-data/types.ts';
@@ -74,7 +74,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
   const { detector, instrument, release } = job;
   const spec = detector.redistribution;
   const sensorFormula = detector.stack.sensor.material.formula;
-  const silicon = spec.escape || spec.siFluorescenceFraction > 0 ? escapeInputsFor(sensorFormula) : undefined;
+  const silicon = spec.escape || spec.siFluorescenceFraction > 0 || countsStackFluorescence(spec) ? escapeInputsFor(sensorFormula) : undefined;
   const bins = energyGrid(instrument.energyGrid, 'energyGrid');
   const whole = detectorValidity(job);
   const files: BuiltFile[] = [];
@@ -86,6 +86,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
     channels: instrument.channels,
     meta: metaFor(job, whole.validFrom, ['Redistribution matrix (HDUCLAS3 REDIST)']),
     silicon,
+    stack: detector.stack,
     file: detector.lineFitsFile,
   });
   if (release.products.includes('rmf')) {
@@ -102,10 +103,16 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
 
   const centres = binCentresKeV(bins.loKeV, bins.hiKeV);
   const mirrorCm2 = mirrorAreaAtBinCentres(instrument.mirror, bins.loKeV, bins.hiKeV);
+  const effOpts = efficiencyOptionsFor(spec);
   const epochs: EpochProducts[] = [];
   for (const epoch of detector.epochs) {
-    const eff = efficiencyBreakdown(detector.stack, centres, epoch.date);
-    const specrespCm2 = mirrorCm2.map((a, i) => a * eff.detectorQE[i]);
+    // Components are plotted at the bin centres; SPECRESP and the plotted QE are bin averages.
+    const eff = efficiencyBreakdown(detector.stack, centres, epoch.date, effOpts);
+    const averaged = effectiveArea(detector.stack, instrument.mirror, bins.loKeV, bins.hiKeV, epoch.date, {
+      ...effOpts,
+      extraPerIncident: countsStackFluorescence(spec) ? fluorescencePerIncident(detector.stack, epoch.date) : undefined,
+    });
+    const specrespCm2 = averaged.specrespCm2;
     const meta = metaFor(job, epoch.validFrom, [
       `Effective area for epoch ${epoch.id} (reference date ${epoch.date}; contamination ${eff.contaminationUm.toFixed(4)} um)`,
     ]);
@@ -142,7 +149,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
         energyKeV: Array.from(centres),
         mirrorCm2: Array.from(mirrorCm2),
         components: eff.components.map((c) => ({ name: c.name, kind: c.kind === 'sensor' ? 'detector' : c.kind, values: Array.from(c.values) })),
-        detectorQE: Array.from(eff.detectorQE),
+        detectorQE: Array.from(averaged.detectorQE),
         effectiveAreaCm2: Array.from(specrespCm2),
       },
     });

@@ -61,6 +61,15 @@ export interface ShelfLaw {
   fraction: number;
 }
 
+/**
+ * Partial-charge events from the sensor's partially collecting layer (physics/partial-charge.ts)
+ * instead of an empirical tail: the ARF then counts every absorbed photon and the matrix moves the
+ * partial ones into this component or under the threshold. The line fits' tails test the model.
+ */
+export interface CollectionTail {
+  source: 'collection';
+}
+
 export interface FromLineFits {
   source: 'line-fits';
 }
@@ -72,12 +81,18 @@ export interface RedistributionSpec {
   thresholdKeV: number;
   fwhm: FwhmLaw | (FromLineFits & { fano: number; readNoiseE: number; pixelsPerEvent: { a: number; bPerKeV: number }; sigma0Ev: number });
   centroid: CentroidLaw | FromLineFits;
-  tail: TailLaw | FromLineFits;
+  tail: TailLaw | FromLineFits | CollectionTail;
   shelf: ShelfLaw | FromLineFits;
   /** Include the Si Kα escape peak (fraction from the thick-slab approximation). */
   escape: boolean;
   /** Optional Si Kα fluorescence line from the detector's own surface layers: fraction above the Si K edge. */
   siFluorescenceFraction: number;
+  /**
+   * 'stack': the Si Kα line's share computed from the silicon-bearing layers in front of the sensor
+   * (physics/stack-fluorescence.ts), replacing the constant siFluorescenceFraction (which must be 0).
+   * Absent: the constant fraction above the Si K edge.
+   */
+  siFluorescenceSource?: 'stack';
 }
 
 /** The channel grid: PI channels of equal width in energy. */

@@ -5,7 +5,11 @@
  *  - centroid: the measured shift (centroid − E) is interpolated, so E itself still scales;
  *  - FWHM: the ratio measured/law (law from the spec's coefficients) is interpolated, so the line
  *    fits are reproduced at their energies and the law's energy dependence carries beyond them;
- *  - tail fraction, tail scale, shelf fraction: the values themselves.
+ *  - tail fraction, tail scale, shelf fraction: the values themselves;
+ *  - tail 'collection': no empirical tail; the partial-charge events of the sensor's partially
+ *    collecting layer (physics/partial-charge.ts) at every energy, from its attenuation.
+ * The escape peak's centroid keeps the parent's charge loss (escapeAt): the escaping Kα leaves
+ * E − E_Kα of charge at the parent's absorption depth, so it loses the parent's fraction of it.
  */
 import { KilnInputError } from '../errors.ts';
 import type { LineFit, RedistributionSpec } from './model-types.ts';
@@ -14,16 +18,26 @@ import { checkFractions } from '../physics/profile.ts';
 import { checkAboveFanoLimit, checkResolutionParams, sigmaEv, FWHM_PER_SIGMA, type ResolutionParams } from '../physics/resolution.ts';
 import { logEnergyInterpolator } from '../physics/interp.ts';
 import { escapeFractionFn, type EscapeInputs } from '../physics/escape.ts';
+import { materialMassAttenuationCm2g } from '../physics/compound.ts';
+import { partialChargeShape } from '../physics/partial-charge.ts';
+import type { SensorSpec } from '../physics/types.ts';
 
 const EV_PER_KEV = 1000;
 
-export type ParamsAt = (energyKeV: number) => ProfileParams;
+export type ParamsAt = ((energyKeV: number) => ProfileParams) & {
+  /** Centroid and σ of the escape peak of a parent of this energy (parent's charge-loss fraction). */
+  escapeAt?: (energyKeV: number) => { centroidKeV: number; sigmaKeV: number };
+};
 
 export interface ParamsOptions {
   /** Silicon atomic data; required when spec.escape is true or spec.siFluorescenceFraction > 0. */
   silicon?: EscapeInputs;
   /** File the spec came from, for error messages. */
   file?: string;
+  /** The sensor; required when spec.tail.source is 'collection'. */
+  sensor?: SensorSpec;
+  /** Si Kα share of the events at an energy; required when spec.siFluorescenceSource is 'stack'. */
+  fluorescenceShare?: (energyKeV: number) => number;
 }
 
 function need(cond: boolean, field: string, value: unknown, expected: string, file?: string): void {
@@ -98,8 +112,17 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
 
   let tailFraction: (e: number) => number;
   let tailScaleKeV: (e: number) => number;
+  let partialAt: ((e: number) => ProfileParams['partial']) | null = null;
   const t = spec.tail;
-  if (t.source === 'law') {
+  if (t.source === 'collection') {
+    const sensor = opts.sensor;
+    need(!!sensor?.partial, 'tail.source', 'collection', 'a sensor with a partially collecting layer (stack.sensor.partial)', file);
+    const layer = sensor!.partial!;
+    const { formula, densityGcm3 } = sensor!.material;
+    partialAt = (e) => partialChargeShape(materialMassAttenuationCm2g(formula, e, 'total') * densityGcm3, layer, sensor!.depletionUm);
+    tailFraction = () => 0;
+    tailScaleKeV = () => 0;
+  } else if (t.source === 'law') {
     tailFraction = (e) => t.fractionAtZero * Math.exp(-e / t.fractionScaleKeV);
     tailScaleKeV = () => t.tailScaleEv / EV_PER_KEV;
   } else {
@@ -119,8 +142,14 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
   const eta = spec.escape && opts.silicon ? escapeFractionFn(opts.silicon) : () => 0;
   const edge = opts.silicon?.kEdgeKeV ?? Infinity;
   const fluo = spec.siFluorescenceFraction;
+  let fluorescence: (e: number) => number = (e) => (e > edge ? fluo : 0);
+  if (spec.siFluorescenceSource === 'stack') {
+    need(fluo === 0, 'siFluorescenceFraction', fluo, "0 when siFluorescenceSource is 'stack'", file);
+    if (!opts.fluorescenceShare) throw new Error("buildParamsAt: opts.fluorescenceShare is required with siFluorescenceSource 'stack'");
+    fluorescence = opts.fluorescenceShare;
+  }
 
-  return (e: number): ProfileParams => {
+  const paramsAt: ParamsAt = (e: number): ProfileParams => {
     const p: ProfileParams = {
       centroidKeV: centroidKeV(e),
       sigmaKeV: sigmaKeV(e),
@@ -128,9 +157,23 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
       tailScaleKeV: tailScaleKeV(e),
       shelfFraction: shelfFraction(e),
       escapeFraction: eta(e),
-      fluorescenceFraction: e > edge ? fluo : 0,
+      fluorescenceFraction: fluorescence(e),
     };
+    if (partialAt) p.partial = partialAt(e);
     checkFractions(p, e);
     return p;
   };
+  if (opts.silicon) {
+    const kAlpha = opts.silicon.kAlphaKeV;
+    // Energy scale at the escape energy without surface loss, plus the parent's loss as a share
+    // of the charge: law → gain and offset at E − Kα, loss × (E − Kα)/E; line fits (gain, offset
+    // and loss not separable) → the parent's relative shift applied to E − Kα.
+    const lossFreeKeV =
+      c.source === 'law'
+        ? (e: number) => (e - kAlpha) * (1 + c.gainError) + c.offsetEv / EV_PER_KEV
+        : (e: number) => (e - kAlpha) * (centroidKeV(e) / e);
+    const lossKeV = c.source === 'law' ? (e: number) => (c.chargeLossEv === 0 ? 0 : (c.chargeLossEv * Math.exp(-e / c.chargeLossScaleKeV)) / EV_PER_KEV) : () => 0;
+    paramsAt.escapeAt = (e) => ({ centroidKeV: lossFreeKeV(e) - (lossKeV(e) * (e - kAlpha)) / e, sigmaKeV: sigmaKeV(e - kAlpha) });
+  }
+  return paramsAt;
 }

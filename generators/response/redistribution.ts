@@ -14,6 +14,9 @@ import type { ChannelGrid, EnergyGridSpec, LineFit, RedistributionSpec } from '.
 import type { EscapeInputs } from '../physics/escape.ts';
 import { componentCdf, componentWindow, mergeCoreAndTail, profileComponents, WINDOW_SIGMAS, type ProfileComponent, type ProfileContext } from '../physics/profile.ts';
 import { buildParamsAt, type ParamsAt } from './params.ts';
+import type { DetectorStack } from '../physics/types.ts';
+import { fluorescenceShareFn } from './fluorescence-share.ts';
+import { efficiencyOptionsFor } from './collection-options.ts';
 import { channelBoundsKeV, checkEnergyBins, energyGrid, type EnergyBins } from './grid.ts';
 import { eboundsFromChannels } from './ebounds.ts';
 import { compressRow, cutForBudget, DEFAULT_DROP_BUDGET } from './compress.ts';
@@ -36,6 +39,8 @@ export interface RedistributionInput {
   meta: ResponseMeta;
   /** Silicon atomic data (ω_K, J, Kα, K edge, μ(E)); required with the escape peak or Si fluorescence. */
   silicon?: EscapeInputs;
+  /** The detector stack; required for tail 'collection' and siFluorescenceSource 'stack'. */
+  stack?: DetectorStack;
   /** Element cut (LO_THRES). Default: dropBudget / channel count, which bounds each row's dropped sum by dropBudget. */
   cut?: number;
   /** Per-row dropped-probability budget used for the default cut (1e-5). */
@@ -135,7 +140,13 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
   const { spec, channels, silicon, file } = input;
   const bins = 'loKeV' in input.energy ? checkEnergyBins(input.energy, 'energyBins', file) : energyGrid(input.energy, 'energyGrid', file);
   const bounds = channelBoundsKeV(channels, 'channels', file);
-  const paramsAt = buildParamsAt(spec, input.lineFits, { silicon, file });
+  const stack = input.stack;
+  const paramsAt = buildParamsAt(spec, input.lineFits, {
+    silicon,
+    file,
+    sensor: stack?.sensor,
+    fluorescenceShare: spec.siFluorescenceSource === 'stack' && stack ? fluorescenceShareFn(stack, efficiencyOptionsFor(spec)) : undefined,
+  });
   const n = channels.count;
   const budget = input.dropBudget ?? DEFAULT_DROP_BUDGET;
   const cut = input.cut ?? cutForBudget(n, budget);
@@ -143,7 +154,7 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
   const rc: RowContext = { bounds, widthKeV: channels.widthEv / 1000, thresholdKeV: spec.thresholdKeV };
 
   let fluoCtx: ProfileContext['fluorescence'];
-  if (silicon && spec.siFluorescenceFraction > 0) {
+  if (silicon && (spec.siFluorescenceFraction > 0 || spec.siFluorescenceSource === 'stack')) {
     const pf = paramsAt(silicon.kAlphaKeV);
     fluoCtx = { centroidKeV: pf.centroidKeV, sigmaKeV: pf.sigmaKeV };
   }
@@ -161,10 +172,7 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
     for (let k = 0; k < e.length; k++) {
       const p = paramsAt(e[k]);
       const ctx: ProfileContext = { shelfLowKeV: bounds[0], fluorescence: fluoCtx };
-      if (p.escapeFraction > 0 && silicon) {
-        const pe = paramsAt(e[k] - silicon.kAlphaKeV);
-        ctx.escape = { centroidKeV: pe.centroidKeV, sigmaKeV: pe.sigmaKeV };
-      }
+      if (p.escapeFraction > 0 && paramsAt.escapeAt) ctx.escape = paramsAt.escapeAt(e[k]);
       for (const c of mergeCoreAndTail(profileComponents(p, ctx, e[k]))) addComponent(prob, rc, c, w[k] * c.fraction, acc);
     }
     const { row, dropped } = compressRow(prob, cut, channels.firstChannel);
