@@ -190,7 +190,9 @@ const tailLaw = z.object({ source: z.literal('law'), fractionAtZero: fractionBel
 const shelfLaw = z.object({ source: z.literal('law'), fraction: fractionBelowOne }).strict();
 
 export const centroidSchema = z.discriminatedUnion('source', [centroidLaw, lineFitsSource]);
-export const tailSchema = z.discriminatedUnion('source', [tailLaw, lineFitsSource]);
+/** Partial-charge events from the sensor's partially collecting layer (generators/physics/partial-charge.ts). */
+const collectionSource = z.object({ source: z.literal('collection') }).strict();
+export const tailSchema = z.discriminatedUnion('source', [tailLaw, lineFitsSource, collectionSource]);
 export const shelfSchema = z.discriminatedUnion('source', [shelfLaw, lineFitsSource]);
 
 export const redistributionSchema = z
@@ -203,6 +205,8 @@ export const redistributionSchema = z
     shelf: shelfSchema,
     escape: z.boolean(),
     siFluorescenceFraction: fractionBelowOne.default(0),
+    /** 'stack': the Si Kα share from the surface layers (generators/physics/stack-fluorescence.ts). */
+    siFluorescenceSource: z.literal('stack').optional(),
   })
   .strict();
 
@@ -224,6 +228,10 @@ export function checkDetectorModel(m: { stack: StackInput; redistribution: z.out
       seen.set(l.name, `${list}[${i}]`);
     });
   const { tail, shelf } = m.redistribution;
+  if (tail.source === 'collection' && !sensor.partial)
+    issue(ctx, "tail source 'collection' needs a partially collecting layer", 'stack.sensor.partial: { thicknessUm, collectionAtSurface }', ['redistribution', 'tail', 'source']);
+  if (m.redistribution.siFluorescenceSource === 'stack' && m.redistribution.siFluorescenceFraction !== 0)
+    issue(ctx, "siFluorescenceFraction must be 0 when siFluorescenceSource is 'stack'", "0 (the stack's layers give the share)", ['redistribution', 'siFluorescenceFraction']);
   if (tail.source === 'law' && shelf.source === 'law' && !(tail.fractionAtZero + shelf.fraction < 1))
     issue(ctx, 'tail and shelf fractions leave no events in the peak', `fractionAtZero + shelf.fraction < 1 (shelf.fraction = ${shelf.fraction})`, ['redistribution', 'tail', 'fractionAtZero']);
 }
@@ -349,12 +357,13 @@ export const redistributionOverrideSchema = z
       .strict()
       .optional(),
     tail: z
-      .object({ source: sourceEnum.optional(), fractionAtZero: fractionBelowOne.optional(), fractionScaleKeV: positive.optional(), tailScaleEv: positive.optional() })
+      .object({ source: z.enum(['law', 'line-fits', 'collection']).optional(), fractionAtZero: fractionBelowOne.optional(), fractionScaleKeV: positive.optional(), tailScaleEv: positive.optional() })
       .strict()
       .optional(),
     shelf: z.object({ source: sourceEnum.optional(), fraction: fractionBelowOne.optional() }).strict().optional(),
     escape: z.boolean().optional(),
     siFluorescenceFraction: fractionBelowOne.optional(),
+    siFluorescenceSource: z.literal('stack').optional(),
   })
   .strict();
 

@@ -201,4 +201,23 @@ describe.runIf(runXraylibChecks)('redistribution matrix: Si escape peak with xra
     expect(fractions[0]).toBeLessThan(0.02);
     for (let k = 1; k < fractions.length; k++) expect(fractions[k]).toBeLessThan(fractions[k - 1]);
   });
+
+  it("keeps the parent's charge loss: centroid (E − Kα)(1 + g) + offset − loss(E)·(E − Kα)/E, not the loss of an (E − Kα) photon", () => {
+    // The escape event's charge is freed at the parent's absorption depth, so it loses the
+    // parent's fraction of it (the surface-loss model of the centroid law; Kiln's model statement).
+    const silicon = tabulatedEscapeInputs();
+    const law = { source: 'law' as const, gainError: 0.0015, offsetEv: 0, chargeLossEv: 25, chargeLossScaleKeV: 0.6 };
+    const parents = [1.9, 2.2, 3];
+    const r = buildRedistribution({ spec: gaussianOnlySpec({ escape: true, thresholdKeV: 0.02, centroid: law }), lineFits: [], energy: bins(parents, 0.0005), channels: ch, meta: META, silicon });
+    parents.forEach((e, i) => {
+      const esc = e - silicon.kAlphaKeV;
+      const expected = esc * (1 + law.gainError) - (law.chargeLossEv * Math.exp(-e / law.chargeLossScaleKeV) * esc) / e / 1000;
+      const wrong = esc * (1 + law.gainError) - (law.chargeLossEv * Math.exp(-esc / law.chargeLossScaleKeV)) / 1000;
+      const m = moments(dense(r, i), ch, esc - 0.15, esc + 0.15);
+      expect(Math.abs(m.mean - expected) * 1000).toBeLessThan(1);
+      // the old rule sat 3–16 eV low for such parents (the fault this fixes), ≥ 2.9 eV here: more
+      // than the 1 eV tolerance above, so the check tells the two rules apart
+      expect((expected - wrong) * 1000).toBeGreaterThan(2.5);
+    });
+  });
 });
