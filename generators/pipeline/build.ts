@@ -159,6 +159,8 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     epoch: p.epoch,
     validFrom: p.validFrom,
     validTo: p.validTo,
+    ...(p.validEnergyKeV ? { validEnergyKeV: p.validEnergyKeV } : {}),
+    ...(p.validChannels ? { validChannels: p.validChannels } : {}),
   }));
   return {
     schema: 'kiln/release-manifest/1',
@@ -204,7 +206,19 @@ function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSumm
       const gz = gzipProduct(f.fits);
       const path = `files/${f.name}`;
       writeFileSync(join(dir, path), gz);
-      products.push({ id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: gz.length, sha256: sha256Hex(gz), validFrom: f.validFrom, validTo: f.validTo });
+      products.push({
+        id: f.id,
+        kind: f.kind,
+        detector: f.detector,
+        epoch: f.epoch,
+        path,
+        bytes: gz.length,
+        sha256: sha256Hex(gz),
+        validFrom: f.validFrom,
+        validTo: f.validTo,
+        ...(f.validEnergyKeV ? { validEnergyKeV: f.validEnergyKeV } : {}),
+        ...(f.validChannels ? { validChannels: f.validChannels } : {}),
+      });
     }
   return products;
 }

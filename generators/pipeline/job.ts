@@ -32,4 +32,7 @@ export interface BuiltFile {
   fits: Uint8Array;
   validFrom: string;
   validTo: string | null;
+  /** Energy range (keV) and, for matrices, channel range the model covers completely. */
+  validEnergyKeV?: [number, number];
+  validChannels?: [number, number];
 }

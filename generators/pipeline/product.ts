@@ -12,6 +12,7 @@ import { writeArf, writeRmf } from '../ogip/index.ts';
 import type { EpochSite } from '../site-data/types.ts';
 import type { BuiltFile, DetectorJob } from './job.ts';
 import { ALL_EPOCHS, productFileName, productId } from './names.ts';
+import { validRange, type ValidRange } from '../response/valid-range.ts';
 
 /** OGIP FILTER value when the stack has no filter (OGIP CAL/GEN/92-002: 'NONE'). */
 const NO_FILTER = 'NONE';
@@ -26,6 +27,8 @@ export interface EpochProducts {
 
 export interface DetectorProducts {
   files: BuiltFile[];
+  /** Channels and energies the model covers completely (written in every product). */
+  validRange: ValidRange;
   redistribution: RedistributionResult;
   epochs: EpochProducts[];
 }
@@ -36,7 +39,27 @@ function filterName(job: DetectorJob): string {
   return s.length > MAX_FITS_STRING ? s.slice(0, MAX_FITS_STRING) : s;
 }
 
-function metaFor(job: DetectorJob, validFrom: string, extra: string[]): ResponseMeta {
+/**
+ * Kiln's own validity keywords (README, "Keywords Kiln writes"): observation dates the product
+ * applies to and the energy (and, for matrices, channel) range its model covers completely.
+ * Other archives' indexing keyword sets are not written (tests/pipeline/keywords.test.ts).
+ */
+function validityKeywords(validFrom: string, validTo: string | null, range: ValidRange, withChannels: boolean): NonNullable<ResponseMeta['extraKeywords']> {
+  return [
+    { keyword: 'KVALFROM', value: validFrom, comment: 'Kiln: first observation date the product is for' },
+    { keyword: 'KVALTO', value: validTo ?? 'open', comment: 'Kiln: valid before this date (open: no end)' },
+    { keyword: 'KEVALLO', value: range.energyKeV[0], comment: '[keV] Kiln: lower end of the complete model' },
+    { keyword: 'KEVALHI', value: range.energyKeV[1], comment: '[keV] Kiln: upper end of the complete model' },
+    ...(withChannels
+      ? [
+          { keyword: 'KCHVALLO', value: range.channels[0], comment: 'Kiln: first channel the model covers fully' },
+          { keyword: 'KCHVALHI', value: range.channels[1], comment: 'Kiln: last channel the model covers fully' },
+        ]
+      : []),
+  ];
+}
+
+function metaFor(job: DetectorJob, validity: { validFrom: string; validTo: string | null }, range: ValidRange, withChannels: boolean, extra: string[]): ResponseMeta {
   return {
     telescop: job.instrument.telescope,
     instrume: job.instrument.instrument,
@@ -44,11 +67,9 @@ function metaFor(job: DetectorJob, validFrom: string, extra: string[]): Response
     filter: filterName(job),
     chantype: 'PI',
     date: job.release.date,
-    // CVSD0001/CVST0001: first observation date the product is valid for (OGIP CAL/GEN/92-011, from memory).
     extraKeywords: [
-      { keyword: 'CVSD0001', value: validFrom, comment: 'date from which the product is valid' },
-      { keyword: 'CVST0001', value: '00:00:00', comment: 'time from which the product is valid' },
       { keyword: 'KILNREL', value: job.release.id, comment: 'Kiln release id' },
+      ...validityKeywords(validity.validFrom, validity.validTo, range, withChannels),
     ],
     history: [`Kiln release ${job.release.id}, instrument ${job.instrument.id}, detector ${job.detector.id}`, ...extra],
   };
@@ -77,6 +98,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
   const silicon = spec.escape || spec.siFluorescenceFraction > 0 || countsStackFluorescence(spec) ? escapeInputsFor(sensorFormula) : undefined;
   const bins = energyGrid(instrument.energyGrid, 'energyGrid');
   const whole = detectorValidity(job);
+  const range = validRange(instrument.channels, instrument.energyGrid, spec.thresholdKeV);
   const files: BuiltFile[] = [];
 
   const redistribution = buildRedistribution({
@@ -84,7 +106,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
     lineFits: detector.lineFits,
     energy: bins,
     channels: instrument.channels,
-    meta: metaFor(job, whole.validFrom, ['Redistribution matrix (HDUCLAS3 REDIST)']),
+    meta: metaFor(job, whole, range, true, ['Redistribution matrix (HDUCLAS3 REDIST)']),
     silicon,
     stack: detector.stack,
     file: detector.lineFitsFile,
@@ -98,6 +120,8 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
       name: productFileName(instrument.id, detector.id, ALL_EPOCHS, release.id, 'rmf'),
       fits: writeRmf(redistribution.rmf),
       ...whole,
+      validEnergyKeV: range.energyKeV,
+      validChannels: range.channels,
     });
   }
 
@@ -113,11 +137,10 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
       extraPerIncident: countsStackFluorescence(spec) ? fluorescencePerIncident(detector.stack, epoch.date) : undefined,
     });
     const specrespCm2 = averaged.specrespCm2;
-    const meta = metaFor(job, epoch.validFrom, [
-      `Effective area for epoch ${epoch.id} (reference date ${epoch.date}; contamination ${eff.contaminationUm.toFixed(4)} um)`,
-    ]);
-    const arf: ArfData = { meta, energLoKeV: bins.loKeV, energHiKeV: bins.hiKeV, specrespCm2 };
     const validity = { validFrom: epoch.validFrom, validTo: epoch.validTo };
+    const arfHistory = `Effective area for epoch ${epoch.id} (reference date ${epoch.date}; contamination ${eff.contaminationUm.toFixed(4)} um)`;
+    const meta = metaFor(job, validity, range, false, [arfHistory]);
+    const arf: ArfData = { meta, energLoKeV: bins.loKeV, energHiKeV: bins.hiKeV, specrespCm2 };
     if (release.products.includes('arf'))
       files.push({
         id: productId(detector.id, epoch.id, 'arf'),
@@ -127,6 +150,7 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
         name: productFileName(instrument.id, detector.id, epoch.id, release.id, 'arf'),
         fits: writeArf(arf),
         ...validity,
+        validEnergyKeV: range.energyKeV,
       });
     if (release.products.includes('rsp'))
       files.push({
@@ -135,8 +159,10 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
         detector: detector.id,
         epoch: epoch.id,
         name: productFileName(instrument.id, detector.id, epoch.id, release.id, 'rsp'),
-        fits: writeRmf(fullResponse(redistribution.rmf, arf, { ...meta, history: [...(meta.history ?? []), 'Full response: redistribution x effective area'] })),
+        fits: writeRmf(fullResponse(redistribution.rmf, arf, metaFor(job, validity, range, true, [arfHistory, 'Full response: redistribution x effective area']))),
         ...validity,
+        validEnergyKeV: range.energyKeV,
+        validChannels: range.channels,
       });
     epochs.push({
       epoch: epoch.id,
@@ -154,5 +180,5 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
       },
     });
   }
-  return { files, redistribution, epochs };
+  return { files, redistribution, epochs, validRange: range };
 }

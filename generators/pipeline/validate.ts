@@ -58,6 +58,24 @@ export function tidyCheck(c: Check): Check {
     : c;
 }
 
+/**
+ * "model.range.grid-channels": the energy grid covers the channels (README, "Valid range"); warns
+ * with the complete-model range (also written in every product) when channels reach beyond it.
+ */
+function rangeCheck(built: DetectorProducts, product: string): Check {
+  const r = built.validRange;
+  const stated = `complete for channels ${r.channels[0]}–${r.channels[1]} (${fmt(r.energyKeV[0])}–${fmt(r.energyKeV[1])} keV)`;
+  return makeCheck(r.consistent ? 'pass' : 'warn', {
+    id: 'model.range.grid-channels',
+    title: 'energy grid and channel range consistent',
+    product,
+    measured: `${fmt(r.gridKeV[0])}–${fmt(r.gridKeV[1])} keV grid, ${fmt(r.channelSpanKeV[0])}–${fmt(r.channelSpanKeV[1])} keV channels`,
+    tolerance: 'one channel width',
+    unit: null,
+    message: r.consistent ? `the grid covers the channels; ${stated}` : `${r.gaps.join('; ')}: the model is ${stated}`,
+  });
+}
+
 export function validateDetector(job: DetectorJob, built: DetectorProducts): Check[] {
   return validateDetectorRaw(job, built).map(tidyCheck);
 }
@@ -71,6 +89,7 @@ function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[]
   }
   const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
   checks.push(...accountingChecks(built, rmfId));
+  checks.push(rangeCheck(built, rmfId));
   // Measured line efficiencies are absolute (events in any channel per photon on the detector):
   // the model folds the stack's QE on the first epoch's date with the matrix row at the line.
   const firstDate = job.detector.epochs[0].date;

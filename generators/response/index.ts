@@ -5,3 +5,4 @@ export * from './params.ts';
 export * from './redistribution.ts';
 export * from './fluorescence-share.ts';
 export * from './collection-options.ts';
+export * from './valid-range.ts';

@@ -12,7 +12,7 @@ export interface ResponseMeta {
   filter: string;
   /** "PI" or "PHA". */
   chantype: 'PI' | 'PHA';
-  /** Extra keyword/value pairs (e.g. CVSD0001, CBD10001, release id), written in order. */
+  /** Extra keyword/value pairs (Kiln's own: release id, validity and valid range), written in order. */
   extraKeywords?: { keyword: string; value: string | number | boolean; comment?: string }[];
   /** HISTORY lines. */
   history?: string[];

@@ -46,6 +46,9 @@ export interface ProductSummary {
   /** Observation dates this product applies to: [validFrom, validTo) ISO dates; validTo null = open. */
   validFrom: string;
   validTo: string | null;
+  /** Energy range (keV) and, for matrices, channels the model covers completely (absent in archives made before they were stated). */
+  validEnergyKeV?: [number, number];
+  validChannels?: [number, number];
 }
 
 export interface ReleaseSummary {
@@ -77,6 +80,9 @@ export interface ManifestFile {
   epoch: string;
   validFrom: string;
   validTo: string | null;
+  /** Energy range (keV) and, for matrices, channels the model covers completely (absent in archives made before they were stated). */
+  validEnergyKeV?: [number, number];
+  validChannels?: [number, number];
 }
 
 export interface ReleaseManifest {
