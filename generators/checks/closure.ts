@@ -31,9 +31,18 @@ export function slug(label: string): string {
     .replace(/^-|-$/g, '');
 }
 
-/** Allowed deviation: k·σ of the measurement, never below a floor. */
-function allowed(sigma: number, k: number, floor: number): number {
-  return Math.max(k * (Number.isFinite(sigma) ? Math.abs(sigma) : 0), floor);
+/**
+ * σ of a closure residual: the measurement's σ and a systematic part of floor/3 in quadrature
+ * (the floor is the refit's own accuracy, stated as a 3σ bound in tolerances.ts).
+ */
+export function closureSigma(sigma: number | null | undefined, floor: number): number {
+  const m = typeof sigma === 'number' && Number.isFinite(sigma) ? Math.abs(sigma) : 0;
+  return Math.hypot(m, floor / 3);
+}
+
+/** Allowed deviation: k·σ_total (k = 3 reproduces the floor alone when the measurement's σ is 0). */
+function allowed(sigma: number | null | undefined, k: number, floor: number): number {
+  return k * closureSigma(sigma, floor);
 }
 
 export interface LineClosureOptions {

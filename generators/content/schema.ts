@@ -394,6 +394,23 @@ export const releaseDetectorSchema = z
   })
   .strict();
 
+/** A tolerance a release states for itself, with the reason (shown beside the check). */
+const stated = <T extends z.ZodTypeAny>(value: T) => z.object({ value, reason: text }).strict();
+/**
+ * Checks a release tunes for itself (README, "Tolerances a release states"): the closure
+ * false-alarm probability, the epoch transmission tolerance, the extrapolation margin, and reasons
+ * that accept an extrapolated parameter of a detector.
+ */
+export const releaseChecksSchema = z
+  .object({
+    closureFalseAlarm: stated(finite.gt(0).lt(0.5)).optional(),
+    epochTransmissionChange: stated(finite.gt(0).lt(1)).optional(),
+    extrapolationFactor: stated(finite.gt(1)).optional(),
+    extrapolation: z.array(z.object({ detector: safeId, parameter: z.enum(['fwhm', 'centroid', 'tail', 'shelf', 'all']), reason: text }).strict()).optional(),
+  })
+  .strict();
+export type ReleaseChecksDoc = z.output<typeof releaseChecksSchema>;
+
 export const releaseSchema = z
   .object({
     id: releaseId,
@@ -407,6 +424,7 @@ export const releaseSchema = z
     products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
     epochs: z.array(epochSchema).min(1),
     detectors: z.record(safeId, releaseDetectorSchema),
+    checks: releaseChecksSchema.optional(),
   })
   .strict()
   .superRefine((r, ctx) => {
@@ -428,6 +446,9 @@ export const releaseSchema = z
       const prev = r.epochs[i - 1];
       if (prev && (prev.validTo === null || prev.validTo > e.validFrom))
         issue(ctx, `epoch overlaps the previous one (${prev.id}, valid to ${prev.validTo ?? 'open'})`, `epochs in time order without overlap: validFrom ≥ ${prev.validTo ?? 'a closed previous epoch'}`, at('validFrom'));
+    });
+    (r.checks?.extrapolation ?? []).forEach((x, i) => {
+      if (!(x.detector in r.detectors)) issue(ctx, `unknown detector "${x.detector}"`, `one of ${Object.keys(r.detectors).join(', ')}`, ['checks', 'extrapolation', i, 'detector']);
     });
     for (const [det, d] of Object.entries(r.detectors))
       (d.epochs ?? []).forEach((e, j) => {

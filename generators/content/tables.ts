@@ -7,7 +7,11 @@ import { KilnInputError } from '../errors.ts';
 import type { LineFit } from '../response/model-types.ts';
 import { headerName, parseCsv, type CsvColumn, type CsvRow } from './csv.ts';
 
-/** Header: line,energy_keV,centroid_keV,centroid_err_eV,fwhm_eV,fwhm_err_eV,tail_fraction,tail_fraction_err,tail_scale_eV,shelf_fraction,efficiency,efficiency_err */
+/**
+ * Header: line,energy_keV,centroid_keV,centroid_err_eV,fwhm_eV,fwhm_err_eV,tail_fraction,tail_fraction_err,tail_scale_eV,shelf_fraction,efficiency,efficiency_err
+ * and optionally tail_scale_err_eV and shelf_fraction_err (1σ errors of the tail scale and the
+ * shelf; without them those two parameters are shown but not judged by closure).
+ */
 export const LINE_FIT_COLUMNS: readonly CsvColumn[] = [
   { key: 'line', name: 'line', unit: null, type: 'text' },
   { key: 'energyKeV', name: 'energy', unit: 'keV', type: 'number' },
@@ -21,6 +25,8 @@ export const LINE_FIT_COLUMNS: readonly CsvColumn[] = [
   { key: 'shelfFraction', name: 'shelf_fraction', unit: null, type: 'number' },
   { key: 'efficiency', name: 'efficiency', unit: null, type: 'number', nullable: true },
   { key: 'efficiencyErr', name: 'efficiency_err', unit: null, type: 'number', nullable: true },
+  { key: 'tailScaleErrEv', name: 'tail_scale_err', unit: 'eV', type: 'number', nullable: true, optional: true },
+  { key: 'shelfFractionErr', name: 'shelf_fraction_err', unit: null, type: 'number', nullable: true, optional: true },
 ];
 
 /** Header: energy_keV,area_cm2 */
@@ -96,6 +102,15 @@ export function parseLineFits(text: string, file: string): LineFitTable {
       fail(file, row, eff === null ? 'efficiency' : 'efficiencyErr', C, 'efficiency and efficiency_err must be given together', 'both empty or both numbers');
     if (eff !== null) need('efficiency', (x) => x > 0, '> 0');
     if (effErr !== null) need('efficiencyErr', (x) => x > 0, '> 0 (a 1σ error)');
+    // Optional columns: keys present only when the file has the column, so older tables resolve
+    // (and fingerprint) exactly as before.
+    const extra: Partial<LineFit> = {};
+    for (const key of ['tailScaleErrEv', 'shelfFractionErr'] as const) {
+      if (!(key in row.values)) continue;
+      const x = row.values[key] as number | null;
+      if (x !== null) need(key, (y) => y > 0, '> 0 (a 1σ error), or empty');
+      extra[key] = x;
+    }
     return {
       line: label,
       energyKeV: v.energyKeV,
@@ -109,6 +124,7 @@ export function parseLineFits(text: string, file: string): LineFitTable {
       shelfFraction: v.shelfFraction,
       efficiency: eff,
       efficiencyErr: effErr,
+      ...extra,
     };
   });
   if (fits.length === 0) throw new KilnInputError('no line fits', { file, line: t.headerLine, expected: 'at least one row after the header' });

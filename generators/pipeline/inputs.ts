@@ -7,6 +7,7 @@
 import type { ResolvedRelease } from '../content/types.ts';
 import { canonicalJson, sha256Hex } from './hash.ts';
 import type { DetectorJob } from './job.ts';
+import { checkSettingsOf } from './check-settings.ts';
 
 /** Bump when the meaning of the fingerprinted fields changes (not when code changes: archives keep their bytes). */
 export const INPUTS_SCHEMA = 'kiln/inputs/1';
@@ -24,6 +25,7 @@ export function jobsOf(r: ResolvedRelease): DetectorJob[] {
       mirror: { energyKeV: instrument.mirror.energyKeV, areaCm2: instrument.mirror.areaCm2, file: instrument.mirror.file },
     },
     detector,
+    checks: checkSettingsOf(r, detector.id),
   }));
 }
 

@@ -6,6 +6,7 @@ import type { MirrorAreaTable } from '../physics/arf.ts';
 import type { ResolvedDetector } from '../content/types.ts';
 import type { ChannelGrid, EnergyGridSpec } from '../response/model-types.ts';
 import type { ProductKind } from '../site-data/types.ts';
+import type { CheckSettings } from './check-settings.ts';
 
 export interface DetectorJob {
   release: { id: string; date: string; validFrom: string; validTo: string | null; products: ProductKind[] };
@@ -18,6 +19,8 @@ export interface DetectorJob {
     mirror: MirrorAreaTable;
   };
   detector: ResolvedDetector;
+  /** How its checks are judged (release status and stated tolerances); defaults when absent. */
+  checks?: CheckSettings;
 }
 
 /** A product file before compression. */

@@ -3,8 +3,14 @@
  * the model's probability accounting, and closure against the line fits it was made from.
  */
 import { checkEfficiencyClosure, checkFile, checkLineClosure, foldedLineEfficiency, makeCheck, fmt } from '../checks/index.ts';
-import { efficiencyBreakdown } from '../physics/index.ts';
-import { DEFAULT_DROP_BUDGET } from '../response/index.ts';
+import { binCentresKeV, efficiencyBreakdown, escapeInputsFor, stackFluorescence } from '../physics/index.ts';
+import { countsStackFluorescence, DEFAULT_DROP_BUDGET, efficiencyOptionsFor } from '../response/index.ts';
+import { closureSigma, DEFAULT_CLOSURE_TOLERANCES } from '../checks/index.ts';
+import { jointBounds, jointClosureCheck, type ClosurePull } from '../checks/closure-joint.ts';
+import { checkProfileClosure, profileQuantitiesOf } from '../checks/closure-profile.ts';
+import { extrapolationChecks } from '../checks/extrapolation.ts';
+import { epochAdequacyChecks } from '../checks/epoch-adequacy.ts';
+import { defaultCheckSettings, type CheckSettings } from './check-settings.ts';
 import type { Check } from '../site-data/types.ts';
 import type { DetectorJob } from './job.ts';
 import type { DetectorProducts } from './product.ts';
@@ -80,8 +86,71 @@ export function validateDetector(job: DetectorJob, built: DetectorProducts): Che
   return validateDetectorRaw(job, built).map(tidyCheck);
 }
 
+/**
+ * Closure against the line fits: centroid, FWHM and efficiency (closure.ts), tail fraction, tail
+ * scale and shelf from a refit of the rows (closure-profile.ts), every per-line check at the joint
+ * bound z*, and the joint χ² per detector (closure-joint.ts).
+ */
+function closureChecks(job: DetectorJob, built: DetectorProducts, rmfId: string, settings: CheckSettings): Check[] {
+  const rmf = built.redistribution.rmf;
+  const spec = job.detector.redistribution;
+  const lines = job.detector.lineFits;
+  const independent = {
+    centroid: spec.centroid.source !== 'line-fits',
+    fwhm: spec.fwhm.source !== 'line-fits',
+    tail: spec.tail.source !== 'line-fits',
+    shelf: spec.shelf.source !== 'line-fits',
+  };
+  // Measured line efficiencies are absolute (events in any channel per photon on the detector):
+  // the model folds the stack's QE on the first epoch's date with the matrix row at the line.
+  const withEff = lines.filter((l) => l.efficiency !== null);
+  const n =
+    lines.length * (Number(independent.centroid) + Number(independent.fwhm)) +
+    withEff.length +
+    lines.reduce((k, l) => k + profileQuantitiesOf(l).filter((q) => (q === 'shelf' ? independent.shelf : independent.tail)).length, 0);
+  const joint = { falseAlarm: settings.closureFalseAlarm.value, detectors: settings.detectors, source: settings.closureFalseAlarm.source };
+  const { zMax } = jointBounds(n, joint);
+  const tol = { ...DEFAULT_CLOSURE_TOLERANCES, centroidSigma: zMax, fwhmSigma: zMax, efficiencySigma: zMax };
+  const checks: Check[] = [];
+  const pulls: ClosurePull[] = [];
+  const pullFrom = (c: Check, line: string, quantity: ClosurePull['quantity'], sigma: number, unit: string, indep: boolean) => {
+    if (typeof c.measured === 'number') pulls.push({ line, quantity, residual: c.measured, sigma, unit, independent: indep });
+  };
+  const firstDate = job.detector.epochs[0].date;
+  const effEnergies = Float64Array.from(withEff, (l) => l.energyKeV);
+  const qe = withEff.length ? efficiencyBreakdown(job.detector.stack, effEnergies, firstDate, efficiencyOptionsFor(spec)).detectorQE : new Float64Array(0);
+  // the ARF also counts the stack's fluorescence photons when the matrix carries them
+  if (withEff.length && countsStackFluorescence(spec)) stackFluorescence(job.detector.stack, effEnergies, firstDate).forEach((f, i) => (qe[i] += f));
+  const silicon = spec.escape || spec.siFluorescenceFraction > 0 || spec.siFluorescenceSource === 'stack' ? escapeInputsFor(job.detector.stack.sensor.material.formula) : undefined;
+  for (const line of lines) {
+    const [c, f] = checkLineClosure(rmf, line, rmfId, tol, { binAveraged: true });
+    checks.push(c, f);
+    pullFrom(c, line.line, 'centroid', closureSigma(line.centroidErrEv, tol.centroidFloorEv), 'eV', independent.centroid);
+    pullFrom(f, line.line, 'fwhm', closureSigma(line.fwhmErrEv, tol.fwhmFloorEv), 'eV', independent.fwhm);
+    const prof = checkProfileClosure({
+      rmf,
+      line,
+      ctx: { thresholdKeV: spec.thresholdKeV, siKAlphaKeV: silicon?.kAlphaKeV, siKEdgeKeV: silicon?.kEdgeKeV },
+      product: rmfId,
+      zMax,
+      independent,
+    });
+    checks.push(...prof.checks);
+    pulls.push(...prof.pulls);
+  }
+  withEff.forEach((line, i) => {
+    const eff = checkEfficiencyClosure(qe[i] * foldedLineEfficiency(rmf, line.energyKeV), line, rmfId, tol);
+    if (!eff) return;
+    checks.push(eff);
+    pullFrom(eff, line.line, 'efficiency', closureSigma(line.efficiencyErr, tol.efficiencyFloor), 'fraction', true);
+  });
+  checks.push(jointClosureCheck(pulls, joint, rmfId));
+  return checks;
+}
+
 function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[] {
   const checks: Check[] = [];
+  const settings = job.checks ?? defaultCheckSettings();
   const rmf = built.redistribution.rmf;
   for (const f of built.files) {
     const r = checkFile(f.fits, f.name, { product: f.id, rmf: f.kind === 'arf' ? rmf : undefined });
@@ -90,17 +159,22 @@ function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[]
   const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
   checks.push(...accountingChecks(built, rmfId));
   checks.push(rangeCheck(built, rmfId));
-  // Measured line efficiencies are absolute (events in any channel per photon on the detector):
-  // the model folds the stack's QE on the first epoch's date with the matrix row at the line.
-  const firstDate = job.detector.epochs[0].date;
-  const withEff = job.detector.lineFits.filter((l) => l.efficiency !== null);
-  const qe = withEff.length
-    ? efficiencyBreakdown(job.detector.stack, Float64Array.from(withEff, (l) => l.energyKeV), firstDate).detectorQE
-    : new Float64Array(0);
-  for (const line of job.detector.lineFits) checks.push(...checkLineClosure(rmf, line, rmfId, undefined, { binAveraged: true }));
-  withEff.forEach((line, i) => {
-    const eff = checkEfficiencyClosure(qe[i] * foldedLineEfficiency(rmf, line.energyKeV), line, rmfId);
-    if (eff) checks.push(eff);
-  });
+  checks.push(...closureChecks(job, built, rmfId, settings));
+  const grid = job.instrument.energyGrid;
+  checks.push(
+    ...extrapolationChecks(job.detector.redistribution, job.detector.lineFits, [grid.minKeV, grid.maxKeV], {
+      product: rmfId,
+      factor: settings.extrapolationFactor.value,
+      failing: settings.failing,
+      reasonFor: (p) => settings.extrapolationReasons[p],
+    }),
+  );
+  checks.push(
+    ...epochAdequacyChecks(job.detector.stack.contamination, job.detector.epochs, binCentresKeV(rmf.energLoKeV, rmf.energHiKeV), settings.epochTransmissionChange.value, {
+      product: rmfId,
+      failing: settings.failing,
+      source: settings.epochTransmissionChange.source,
+    }),
+  );
   return checks;
 }

@@ -25,6 +25,9 @@ export interface LineFit {
    */
   efficiency: number | null;
   efficiencyErr: number | null;
+  /** Optional 1σ errors of the tail scale and the shelf fraction (absent: not judged by closure). */
+  tailScaleErrEv?: number | null;
+  shelfFractionErr?: number | null;
 }
 
 /** FWHM law: σ² = (w·N_r)²·n_pix(E) + F·w·E + σ₀², n_pix(E) = a + b·E. */
