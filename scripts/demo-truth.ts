@@ -41,6 +41,14 @@ export interface DetectorTruth {
    * efficiency; null where no absolute flux is known (in flight).
    */
   efficiency: { value: number; err: number } | null;
+  /**
+   * The true sensor has a partially collecting entrance layer: the line fits' tail fraction, tail
+   * scale and shelf are then what a core + tail + shelf fit measures on the true partial-charge
+   * response (generators/physics/partial-charge.ts with these values, refitted by
+   * generators/checks/profile-refit.ts), not the tail law above; the CSV also gets the optional
+   * tail_scale_err_eV and shelf_fraction_err columns.
+   */
+  partialTruth?: { thicknessUm: number; collectionAtSurface: number };
 }
 
 export interface ReleaseTruth {
@@ -100,6 +108,9 @@ const REVISED_BI: DetectorTruth = {
   ...FLIGHT_BI,
   tail: { fractionAtZero: 0.3, fractionScaleKeV: 0.55, tailScaleEv: 80 },
   shelf: { fraction: 0.015 },
+  // Hidden truth of 2.0.0: the entrance layer as it really is (invented). The release states its
+  // own estimate (0.05 µm, 0.80), so closure tests a model against a truth it does not equal.
+  partialTruth: { thicknessUm: 0.056, collectionAtSurface: 0.78 },
 };
 
 export const DEMO_TRUTH: ReleaseTruth[] = [
@@ -136,7 +147,7 @@ export const DEMO_TRUTH: ReleaseTruth[] = [
   {
     release: '2.0.0',
     seed: 0x51ee3,
-    setting: 'in flight, calibration source plus the soft fluorescence target (O, F, Al, Si) (invented)',
+    setting: 'in flight, calibration source plus the soft fluorescence target (O, F, Al, Si) and the Cu K line of the camera body (invented)',
     lines: [
       { line: 'O Ka', counts: 3000 },
       { line: 'F Ka', counts: 3000 },
@@ -145,6 +156,7 @@ export const DEMO_TRUTH: ReleaseTruth[] = [
       { line: 'Ti Ka', counts: 8000 },
       { line: 'Mn Ka', counts: 90000 },
       { line: 'Mn Kb', counts: 13000 },
+      { line: 'Cu Ka', counts: 6000 },
     ],
     detectors: { fi0: REVISED_FI, bi1: REVISED_BI },
   },

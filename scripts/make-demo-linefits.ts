@@ -16,6 +16,7 @@ import { efficiencyBreakdown } from '../generators/physics/efficiency.ts';
 import { escapeInputsFor } from '../generators/physics/escape-inputs.ts';
 import { loadInstrumentFile, stackFromInput } from '../generators/content/index.ts';
 import { buildRedistribution } from '../generators/response/redistribution.ts';
+import { refitProfileAt } from '../generators/checks/profile-refit.ts';
 import type { RedistributionSpec } from '../generators/response/model-types.ts';
 import { DEMO_TRUTH, LINE_ENERGIES_KEV, type DetectorTruth, type ReleaseTruth } from './demo-truth.ts';
 
@@ -23,7 +24,7 @@ const EV_PER_KEV = 1000;
 /** Systematic floors of the invented analysis: gain calibration (centroid) and line-shape model (FWHM). */
 const CENTROID_FLOOR_EV = 0.3;
 const FWHM_FLOOR_EV = 0.5;
-/** Relative scatter of the fitted tail e-folding scale (no error column for it). */
+/** Relative scatter of the fitted tail e-folding scale (its 1σ, written where the optional column is). */
 const TAIL_SCALE_REL_SCATTER = 0.05;
 /** Smallest tail fraction used in the binomial error, so that a vanishing tail still has a finite error. */
 const TAIL_ERR_FLOOR_FRACTION = 1e-4;
@@ -47,6 +48,42 @@ export function truthTailFraction(d: DetectorTruth, energyKeV: number): number {
 }
 
 const HEADER = 'line,energy_keV,centroid_keV,centroid_err_eV,fwhm_eV,fwhm_err_eV,tail_fraction,tail_fraction_err,tail_scale_eV,shelf_fraction,efficiency,efficiency_err';
+/** Optional columns, written where the truth has a partially collecting layer. */
+const EXTRA_HEADER = ',tail_scale_err_eV,shelf_fraction_err';
+
+export interface ProfileTruth {
+  tailFraction: number;
+  tailScaleEv: number;
+  shelfFraction: number;
+}
+
+/**
+ * Tail and shelf a line fit measures on the true partial-charge response (DetectorTruth.partialTruth):
+ * the true sensor's matrix row at the line refitted with core + tail + shelf.
+ */
+export async function truePartialProfile(t: ReleaseTruth, detector: string): Promise<(energyKeV: number) => ProfileTruth> {
+  const ins = await loadInstrumentFile(join(ROOT, 'content', 'instruments', 'quillon-tarncam', 'instrument.yaml'));
+  const doc = ins.detectors.find((x) => x.id === detector);
+  const d = t.detectors[detector];
+  if (!doc || !d.partialTruth) throw new Error(`${t.release} ${detector}: no partial-layer truth`);
+  const base = stackFromInput(doc.stack);
+  const stack = { ...base, sensor: { ...base.sensor, partial: d.partialTruth } };
+  const spec: RedistributionSpec = {
+    ...doc.redistribution,
+    pairEnergyEv: d.pairEnergyEv,
+    fwhm: { source: 'law', ...d.fwhm },
+    centroid: { source: 'law', ...d.centroid },
+    tail: { source: 'collection' },
+    shelf: { source: 'law', ...d.shelf },
+  };
+  const silicon = escapeInputsFor(stack.sensor.material.formula);
+  const r = buildRedistribution({ spec, lineFits: [], energy: ins.energyGrid, channels: ins.channels, meta: { telescop: ins.telescope, instrume: ins.instrument, filter: 'NONE', chantype: 'PI', date: '2000-01-01' }, silicon, stack });
+  return (e) => {
+    const f = refitProfileAt(r.rmf, e, { thresholdKeV: spec.thresholdKeV, siKAlphaKeV: silicon.kAlphaKeV, siKEdgeKeV: silicon.kEdgeKeV, start: { tailFraction: 0.05, tailScaleEv: 60, shelfFraction: d.shelf.fraction } });
+    if (!f) throw new Error(`${t.release} ${detector}: no refit at ${e} keV`);
+    return { tailFraction: f.tailFraction, tailScaleEv: f.tailScaleEv, shelfFraction: f.shelfFraction };
+  };
+}
 
 /** Half-width of the one-bin energy grid used to take the true detected fraction at a line (keV). */
 const LINE_BIN_HALF_WIDTH_KEV = 0.0005;
@@ -83,7 +120,12 @@ export async function trueLineEfficiency(t: ReleaseTruth, detector: string): Pro
 }
 
 /** The CSV text for one detector of one release; `efficiencyAt` is the true efficiency (trueLineEfficiency). */
-export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt: (energyKeV: number) => number = () => NaN): string {
+export function makeLineFitsCsv(
+  t: ReleaseTruth,
+  detector: string,
+  efficiencyAt: (energyKeV: number) => number = () => NaN,
+  profileAt?: (energyKeV: number) => ProfileTruth,
+): string {
   const d = t.detectors[detector];
   if (!d) throw new Error(`no truth for ${detector} in ${t.release}`);
   // One stream per detector, so adding a detector does not change the others.
@@ -91,8 +133,11 @@ export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt:
   const g = gaussian(mulberry32(t.seed + 7919 * (detIndex + 1)));
   const rows = t.lines.map(({ line, counts }) => {
     const e = LINE_ENERGIES_KEV[line];
-    const tail = truthTailFraction(d, e);
-    const peakCounts = counts * (1 - tail - d.shelf.fraction);
+    const prof = profileAt?.(e);
+    const tail = prof ? prof.tailFraction : truthTailFraction(d, e);
+    const trueScaleEv = prof ? prof.tailScaleEv : d.tail.tailScaleEv;
+    const trueShelf = prof ? prof.shelfFraction : d.shelf.fraction;
+    const peakCounts = counts * (1 - tail - trueShelf);
     const fwhm = truthFwhmEv(d, e);
     const sigma = fwhm / FWHM_PER_SIGMA;
     const centroidErr = Math.hypot(sigma / Math.sqrt(peakCounts), CENTROID_FLOOR_EV);
@@ -102,8 +147,9 @@ export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt:
     const fwhmMeasured = fwhm + fwhmErr * g();
     // A fit cannot return a negative fraction: it stops at the boundary.
     const tailMeasured = Math.max(0, tail + tailErr * g());
-    const tailScale = d.tail.tailScaleEv * (1 + TAIL_SCALE_REL_SCATTER * g());
-    const shelf = Math.max(0, d.shelf.fraction + Math.sqrt(d.shelf.fraction / counts) * g());
+    const tailScale = trueScaleEv * (1 + TAIL_SCALE_REL_SCATTER * g());
+    const shelfErr = Math.sqrt(trueShelf / counts);
+    const shelf = Math.max(0, trueShelf + shelfErr * g());
     const limit = fanoLimitFwhmEv(e, d.pairEnergyEv, d.fwhm.fano);
     if (!(fwhmMeasured > limit)) throw new Error(`${t.release} ${detector} ${line}: FWHM ${fwhmMeasured} eV below the Fano limit ${limit} eV`);
     let eff = ['', ''];
@@ -124,13 +170,14 @@ export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt:
       tailScale.toFixed(1),
       shelf.toFixed(5),
       ...eff,
+      ...(prof ? [(TAIL_SCALE_REL_SCATTER * trueScaleEv).toFixed(1), shelfErr.toFixed(5)] : []),
     ].join(',');
   });
   return [
     `# INVENTED demo data (fictional QUILLON telescope, TARNCAM camera, detector ${detector}), release ${t.release}.`,
     `# Setting: ${t.setting}.`,
     '# Drawn by scripts/make-demo-linefits.ts from the truth in scripts/demo-truth.ts; errors are 1 sigma.',
-    HEADER,
+    HEADER + (profileAt ? EXTRA_HEADER : ''),
     ...rows,
     '',
   ].join('\n');
@@ -139,13 +186,19 @@ export function makeLineFitsCsv(t: ReleaseTruth, detector: string, efficiencyAt:
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 export const demoLineFitsPath = (release: string, detector: string) => join(ROOT, 'content', 'releases', release, 'linefits', `${detector}.csv`);
 
+/** The committed CSV of one detector of one release: true efficiency and, where the truth has a partial layer, its profile. */
+export async function demoLineFitsCsv(t: ReleaseTruth, detector: string): Promise<string> {
+  const efficiencyAt = Object.values(t.detectors).some((d) => d.efficiency) ? await trueLineEfficiency(t, detector) : undefined;
+  const profileAt = t.detectors[detector].partialTruth ? await truePartialProfile(t, detector) : undefined;
+  return makeLineFitsCsv(t, detector, efficiencyAt, profileAt);
+}
+
 async function main(check: boolean): Promise<number> {
   let differ = 0;
   for (const t of DEMO_TRUTH)
     for (const det of Object.keys(t.detectors)) {
       const file = demoLineFitsPath(t.release, det);
-      const efficiencyAt = Object.values(t.detectors).some((d) => d.efficiency) ? await trueLineEfficiency(t, det) : undefined;
-      const text = makeLineFitsCsv(t, det, efficiencyAt);
+      const text = await demoLineFitsCsv(t, det);
       if (check) {
         const old = await readFile(file, 'utf8').catch(() => null);
         if (old !== text) {

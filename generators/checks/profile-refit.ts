@@ -1,11 +1,11 @@
 /**
  * Refit of a whole matrix row with the profile family the line fits use: Gaussian core, low-energy
  * exponential tail (exponentially modified Gaussian) and flat shelf down to the lowest channel,
- * integrated over each channel (physics/profile.ts CDFs). Weighted least squares as for a line
- * measured with REFIT_COUNTS events (σ_k = √counts), on the channels above the threshold, with the
- * Si escape peak and the Si Kα fluorescence line masked (±MASK_SIGMAS σ). The fractions are given
- * as shares of all events at that energy (the fitted normalisation folds in escape and
- * fluorescence, as the profile model does). Whatever the matrix was made from (laws, an
+ * integrated over each channel (physics/profile.ts CDFs). Centroid and σ come from the core refit
+ * (gaussian-core.ts); the three masses by weighted linear least squares as for a line measured with
+ * REFIT_COUNTS events (σ_k = √counts), centroid, σ and tail scale by Levenberg–Marquardt; channels above the threshold,
+ * the Si escape peak and the Si Kα fluorescence line masked (±MASK_SIGMAS σ). A row is per photon,
+ * so the masses are shares of all events at that energy, as the line fits' fractions are. Whatever the matrix was made from (laws, an
  * interpolation, the partial-charge model), the refit says what a line fit would measure on it.
  */
 import { weightedLeastSquares } from '../fit/lsq.ts';
@@ -66,52 +66,114 @@ export function refitProfileAt(rmf: RmfData, energyKeV: number, ctx: RefitContex
   }
   if (use.length < 8) return null;
   const y = use.map((k) => row[k]);
-  const sigma = y.map((v) => Math.sqrt(Math.max(v, 1 / REFIT_COUNTS) / REFIT_COUNTS));
-
-  // θ = [centroid keV, σ keV, tail share, tail scale keV, shelf share, normalisation]
-  const cache = new Map<string, Float64Array>();
-  const channelProbs = (t: readonly number[]): Float64Array => {
-    const key = t.join(',');
-    const hit = cache.get(key);
-    if (hit) return hit;
-    const [c, s, ft, tau, fs, norm] = t;
-    const comps: ProfileComponent[] = [
-      { kind: 'peak', fraction: 1 - fs, centroidKeV: c, sigmaKeV: s, scaleKeV: tau, tailShare: (1 - fs) > 0 ? ft / (1 - fs) : 0 },
-      { kind: 'shelf', fraction: fs, lowKeV: Math.min(lowest, c), highKeV: c, sigmaKeV: s },
-    ];
-    const cdfs = comps.map((cp) => ({ f: cp.fraction, F: componentCdf(cp) }));
-    const F = (x: number) => cdfs.reduce((acc, q) => acc + q.f * q.F(x), 0);
-    const out = new Float64Array(use.length);
-    use.forEach((k, j) => (out[j] = norm * (F(eMaxKeV[k]) - F(eMinKeV[k]))));
-    if (cache.size > 64) cache.clear();
-    cache.set(key, out);
-    return out;
+  const w = y.map((v) => REFIT_COUNTS / Math.max(v, 1 / REFIT_COUNTS));
+  const lo = use.map((k) => eMinKeV[k]);
+  const hi = use.map((k) => eMaxKeV[k]);
+  const channelMass = (cp: ProfileComponent) => {
+    const F = componentCdf(cp);
+    return lo.map((a, j) => F(hi[j]) - F(a));
   };
-  const index = use.map((_, j) => j);
-  const st = ctx.start;
+  // Variable projection: for a centroid, σ and tail scale τ the row is linear in the three masses
+  // (core, tail, shelf), solved by weighted least squares with masses ≥ 0; Levenberg–Marquardt
+  // (fit/lsq.ts) moves the three non-linear parameters, starting from the core refit and the line fit.
+  const solve = (c: number, sg: number, tauKeV: number) => {
+    const basis = [
+      channelMass({ kind: 'gaussian', role: 'core', fraction: 1, centroidKeV: c, sigmaKeV: sg }),
+      channelMass({ kind: 'tail', fraction: 1, centroidKeV: c, sigmaKeV: sg, scaleKeV: tauKeV }),
+      channelMass({ kind: 'shelf', fraction: 1, lowKeV: Math.min(lowest, c), highKeV: c, sigmaKeV: sg }),
+    ];
+    const masses = nonNegativeLsq(basis, y, w);
+    const fitted = y.map((_, j) => masses[0] * basis[0][j] + masses[1] * basis[1][j] + masses[2] * basis[2][j]);
+    return { masses, fitted };
+  };
+  const cache = new Map<string, ReturnType<typeof solve>>();
+  const at = (t: readonly number[]) => {
+    const key = t.join(',');
+    let hit = cache.get(key);
+    if (!hit) {
+      if (cache.size > 64) cache.clear();
+      hit = solve(t[0], t[1], t[2]);
+      cache.set(key, hit);
+    }
+    return hit;
+  };
+  const tauMin = Math.max(TAU_MIN_KEV, 0.5 * s0);
+  const tau0 = Math.min(Math.max(ctx.start.tailScaleEv / EV_PER_KEV, tauMin), TAU_MAX_KEV);
+  let theta: readonly number[] = [c0, s0, tau0];
   try {
     const fit = weightedLeastSquares({
-      names: ['centroid', 'sigma', 'tail', 'tailScale', 'shelf', 'norm'],
-      x: index,
+      names: ['centroid', 'sigma', 'tailScale'],
+      x: y.map((_, j) => j),
       y,
-      sigma,
-      model: (t, j) => channelProbs(t)[j],
-      initial: [c0, s0, Math.min(Math.max(st.tailFraction, 1e-4), 0.8), Math.max(st.tailScaleEv, 5) / EV_PER_KEV, Math.min(Math.max(st.shelfFraction, 1e-4), 0.4), 1],
-      min: [c0 - 5 * s0, 0.2 * s0, 0, 1e-3, 0, 0.2],
-      max: [c0 + 5 * s0, 5 * s0, 0.95, 2, 0.5, 1.5],
-      scale: [s0, s0, 0.01, 0.02, 0.005, 1],
+      sigma: w.map((v) => 1 / Math.sqrt(v)),
+      model: (t, j) => at(t).fitted[j],
+      initial: theta,
+      min: [c0 - 3 * s0, 0.5 * s0, tauMin],
+      max: [c0 + 3 * s0, 2 * s0, TAU_MAX_KEV],
+      scale: [0.1 * s0, 0.1 * s0, 0.2 * tau0],
       label: `profile refit at ${energyKeV} keV`,
     });
-    const p = fit.params;
-    return {
-      centroidKeV: p.centroid,
-      sigmaKeV: p.sigma,
-      tailFraction: p.tail * p.norm,
-      tailScaleEv: p.tailScale * EV_PER_KEV,
-      shelfFraction: p.shelf * p.norm,
-      points: use.length,
-    };
+    theta = [fit.params.centroid, fit.params.sigma, fit.params.tailScale];
   } catch {
     return null;
   }
+  const { masses } = at(theta);
+  return {
+    centroidKeV: theta[0],
+    sigmaKeV: theta[1],
+    tailFraction: masses[1],
+    tailScaleEv: theta[2] * EV_PER_KEV,
+    shelfFraction: masses[2],
+    points: use.length,
+  };
+}
+
+/** Tail scales allowed, keV (3 eV to 2 keV: any tail a CCD line fit reports; at least σ/2, below which a tail is a second core). */
+const TAU_MIN_KEV = 0.003;
+const TAU_MAX_KEV = 2;
+
+/** Weighted least squares y ≈ Σ m_i·basis_i with m_i ≥ 0 (active set over at most three bases). */
+function nonNegativeLsq(basis: number[][], y: number[], w: number[]): number[] {
+  const n = basis.length;
+  let active = [...Array(n).keys()];
+  for (let round = 0; round <= n; round++) {
+    const k = active.length;
+    const A = Array.from({ length: k }, () => new Array<number>(k).fill(0));
+    const r = new Array<number>(k).fill(0);
+    for (let j = 0; j < y.length; j++)
+      for (let p = 0; p < k; p++) {
+        const bp = basis[active[p]][j] * w[j];
+        r[p] += bp * y[j];
+        for (let q = 0; q < k; q++) A[p][q] += bp * basis[active[q]][j];
+      }
+    const m = solveSmall(A, r);
+    const out = new Array<number>(n).fill(0);
+    if (m && m.every((v) => v >= 0)) {
+      active.forEach((i, p) => (out[i] = m[p]));
+      return out;
+    }
+    // drop the most negative (or, when singular, the last) basis and solve again
+    const drop = m ? active[m.indexOf(Math.min(...m))] : active[active.length - 1];
+    active = active.filter((i) => i !== drop);
+    if (active.length === 0) return out;
+  }
+  return new Array<number>(n).fill(0);
+}
+
+/** Gaussian elimination with partial pivoting for k ≤ 3; null when singular. */
+function solveSmall(A: number[][], b: number[]): number[] | null {
+  const k = b.length;
+  const M = A.map((row, i) => [...row, b[i]]);
+  for (let c = 0; c < k; c++) {
+    let piv = c;
+    for (let r = c + 1; r < k; r++) if (Math.abs(M[r][c]) > Math.abs(M[piv][c])) piv = r;
+    if (!(Math.abs(M[piv][c]) > 1e-300)) return null;
+    [M[c], M[piv]] = [M[piv], M[c]];
+    for (let r = 0; r < k; r++) {
+      if (r === c) continue;
+      const f = M[r][c] / M[c][c];
+      for (let q = c; q <= k; q++) M[r][q] -= f * M[c][q];
+    }
+  }
+  return M.map((row, i) => row[k] / row[i]);
 }

@@ -132,7 +132,8 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
   const spec = detector.redistribution;
   const rmf = built.redistribution.rmf;
   const silicon = spec.escape || spec.siFluorescenceFraction > 0 ? escapeInputsFor(detector.stack.sensor.material.formula) : undefined;
-  const paramsAt = buildParamsAt(spec, detector.lineFits, { silicon, file: detector.lineFitsFile });
+  // The sensor too: a collection-model tail needs its partially collecting layer.
+  const paramsAt = buildParamsAt(spec, detector.lineFits, { silicon, file: detector.lineFitsFile, sensor: detector.stack.sensor });
   const emin = rmf.energLoKeV[0];
   const emax = rmf.energHiKeV[rmf.energHiKeV.length - 1];
   const curveE = logSpace(emin, emax, CURVE_POINTS);

@@ -159,7 +159,16 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
       escapeFraction: eta(e),
       fluorescenceFraction: fluorescence(e),
     };
-    if (partialAt) p.partial = partialAt(e);
+    if (partialAt) {
+      // The other components describe photons absorbed where charge is fully collected: they
+      // share what the partial layer leaves (1 − its fraction), so fractions never exceed 1.
+      const partial = partialAt(e)!;
+      const rest = 1 - partial.fraction;
+      p.partial = partial;
+      p.shelfFraction *= rest;
+      p.escapeFraction *= rest;
+      p.fluorescenceFraction *= rest;
+    }
     checkFractions(p, e);
     return p;
   };

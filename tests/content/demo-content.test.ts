@@ -11,7 +11,7 @@ import yamlJs from 'js-yaml';
 import { describe, expect, it } from 'vitest';
 import { compareSemver, instrumentSchema, loadContent, loadInstrumentFile, parseInstrumentText, parseReleaseText, releaseSchema } from '../../generators/content/index.ts';
 import { DEMO_TRUTH } from '../../scripts/demo-truth.ts';
-import { makeLineFitsCsv, trueLineEfficiency } from '../../scripts/make-demo-linefits.ts';
+import { demoLineFitsCsv } from '../../scripts/make-demo-linefits.ts';
 import { makeMirrorAreaCsv } from '../../scripts/make-demo-mirror-area.ts';
 import { DEMO_CONTENT, INSTRUMENT, MIRROR, rel } from './helpers.ts';
 
@@ -59,8 +59,9 @@ describe('demo content', () => {
     const bi = (r: typeof r10) => r.detectors.find((d) => d.id === 'bi1')!.redistribution;
     expect([bi(r10).centroid.source, bi(r10).tail.source]).toEqual(['line-fits', 'line-fits']);
     expect([bi(r11).centroid.source, bi(r11).tail.source]).toEqual(['law', 'line-fits']);
-    expect([bi(r20).centroid.source, bi(r20).tail.source, bi(r20).shelf]).toEqual(['law', 'law', { source: 'law', fraction: 0.015 }]);
-    expect(r20.detectors[0].epochs.map((e) => e.id)).toEqual(['e1', 'e2', 'e3', 'e4']);
+    expect([bi(r20).centroid.source, bi(r20).tail.source, bi(r20).shelf]).toEqual(['law', 'collection', { source: 'law', fraction: 0.015 }]);
+    expect(r20.detectors.find((d) => d.id === 'bi1')!.stack.sensor.partial).toEqual({ thicknessUm: 0.055, collectionAtSurface: 0.79 });
+    expect(r20.detectors[0].epochs.map((e) => e.id)).toEqual(['e1', 'e2', 'e3', 'e4', 'e5', 'e6', 'e7', 'e8', 'e9', 'e10']);
     expect(r10.release.notesMarkdown).toMatch(/invented/i);
   });
 
@@ -83,8 +84,7 @@ describe('demo content', () => {
   it('commits exactly the line fits and mirror table the scripts make', async () => {
     for (const t of DEMO_TRUTH)
       for (const det of Object.keys(t.detectors)) {
-        const efficiencyAt = Object.values(t.detectors).some((d) => d.efficiency) ? await trueLineEfficiency(t, det) : undefined;
-        expect(readFileSync(join(DEMO_CONTENT, rel(t.release, `linefits/${det}.csv`)), 'utf8'), `${t.release}/${det}`).toBe(makeLineFitsCsv(t, det, efficiencyAt));
+        expect(readFileSync(join(DEMO_CONTENT, rel(t.release, `linefits/${det}.csv`)), 'utf8'), `${t.release}/${det}`).toBe(await demoLineFitsCsv(t, det));
       }
     expect(readFileSync(join(DEMO_CONTENT, MIRROR), 'utf8')).toBe(makeMirrorAreaCsv());
   });

@@ -100,6 +100,21 @@ describe('a matrix with the collection model', () => {
     expect(all).toBeGreaterThan(collected);
   });
 
+  it('photons in the layer are partial events only: shelf, escape and fluorescence share the rest', () => {
+    // Probability accounting (common practice, no source): each absorbed photon gives one event,
+    // so the components' fractions add up to 1 and the fully collected ones share 1 − partial.
+    const spec = gaussianOnlySpec({ tail: { source: 'collection' }, shelf: { source: 'law', fraction: 0.015 }, thresholdKeV: 0.1 });
+    const at = buildParamsAt(spec, [], { sensor: SENSOR });
+    for (const e of [0.3, 0.6, 1.5]) {
+      const q = at(e);
+      const share = q.partial!.fraction;
+      expect(share).toBeGreaterThan(0.01);
+      expect(Math.abs(q.shelfFraction - 0.015 * (1 - share))).toBeLessThan(1e-12);
+      const total = profileComponents(q, { shelfLowKeV: 0 }, e).reduce((a, c) => a + c.fraction, 0);
+      expect(Math.abs(total - 1)).toBeLessThan(1e-9);
+    }
+  });
+
   it('refuses the collection model without a partial layer (one clear error)', () => {
     try {
       buildParamsAt(gaussianOnlySpec({ tail: { source: 'collection' } }), [], { sensor: { ...SENSOR, partial: null } });

@@ -1,10 +1,13 @@
 /**
- * Access to the Debian reference libraries (python3-astropy, python3-xraylib) for tests.
+ * Access to the Debian reference libraries (python3-astropy, python3-xraylib, python3-scipy) for tests.
  * They live in the system interpreter, not in any pyenv/virtualenv one on PATH.
  * In CI (CI=true) a missing library is a failure, never a skip.
  */
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
+
+/** The reference libraries tests may call. */
+export type ReferenceModule = 'astropy' | 'xraylib' | 'scipy';
 
 const CANDIDATES = ['/usr/bin/python3', 'python3'];
 
@@ -26,7 +29,7 @@ export function pythonWith(module: string): string | null {
  * Returns a python that has `module`. Throws (so the test fails) when absent in CI; outside CI
  * the caller may choose to skip, and the skip is reported by vitest as a skip, not a pass.
  */
-export function requirePython(module: 'astropy' | 'xraylib'): string {
+export function requirePython(module: ReferenceModule): string {
   const py = pythonWith(module);
   if (!py) throw new Error(`python module ${module} not found (install Debian's python3-${module})`);
   return py;
@@ -39,7 +42,7 @@ export const runAstropyChecks = haveAstropy || process.env.CI === 'true';
 export const runXraylibChecks = haveXraylib || process.env.CI === 'true';
 
 /** Runs a python snippet with JSON on stdin, returns parsed JSON from stdout. */
-export function runPythonJson<T = unknown>(module: 'astropy' | 'xraylib', code: string, input: unknown = null): T {
+export function runPythonJson<T = unknown>(module: ReferenceModule, code: string, input: unknown = null): T {
   const py = requirePython(module);
   const out = execFileSync(py, ['-c', code], {
     input: JSON.stringify(input),
