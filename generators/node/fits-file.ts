@@ -1,9 +1,8 @@
 /**
- * Node file access for FITS: read (plain or gzip-compressed) with a size bound, and write
- * atomically so that a failed write never leaves a partial product behind.
+ * Node file access for FITS: read (plain or gzip-compressed) with a size bound. Writes go through
+ * files.ts writeFileAtomic, so that a failed write never leaves a partial product behind.
  */
-import { closeSync, fsyncSync, openSync, readFileSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { readFileSync, statSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { KilnInputError } from '../errors.ts';
 import { readFits, type ChecksumPolicy, type FitsFile } from '../fits/index.ts';
@@ -51,41 +50,4 @@ export function readFitsBytes(path: string, opts: { maxBytes?: number } = {}): U
 /** Reads and parses a FITS file (gzip allowed); errors carry the path. */
 export function readFitsFile(path: string, opts: ReadFitsFileOptions = {}): FitsFile {
   return readFits(readFitsBytes(path, opts), { fileName: path, verifyChecksums: opts.verifyChecksums });
-}
-
-let tempCounter = 0;
-
-/** Writes bytes to a temporary file in the same directory, fsyncs it, then renames it over `path`. */
-export function writeFileAtomic(path: string, bytes: Uint8Array): void {
-  const dir = dirname(path);
-  const tmp = join(dir, `.${basename(path)}.${process.pid}.${++tempCounter}.tmp`);
-  let fd: number | undefined;
-  try {
-    fd = openSync(tmp, 'wx');
-    let done = 0;
-    while (done < bytes.length) done += writeSync(fd, bytes, done, bytes.length - done);
-    fsyncSync(fd);
-    closeSync(fd);
-    fd = undefined;
-    renameSync(tmp, path);
-  } catch (e) {
-    if (fd !== undefined) closeSync(fd);
-    try {
-      unlinkSync(tmp);
-    } catch {
-      /* already gone */
-    }
-    throw e;
-  }
-  try {
-    // Persist the rename itself; not all platforms allow fsync on a directory.
-    const dfd = openSync(dir, 'r');
-    try {
-      fsyncSync(dfd);
-    } finally {
-      closeSync(dfd);
-    }
-  } catch {
-    /* best effort */
-  }
 }
