@@ -30,8 +30,9 @@ export function readFitsBytes(path: string, opts: { maxBytes?: number } = {}): U
     raw = readFileSync(path);
   } catch (e) {
     if (e instanceof KilnInputError) throw e;
-    const code = (e as NodeJS.ErrnoException).code ?? 'error';
-    throw new KilnInputError(`cannot read file (${code})`, { file: path, expected: 'a readable FITS file' });
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT' || code === 'ENOTDIR') throw new KilnInputError(`cannot read file (${code})`, { file: path, expected: 'a readable FITS file' });
+    throw e; // permission, I/O: an environment failure, reported as such by the CLI
   }
   if (raw.length >= 2 && raw[0] === GZIP_MAGIC[0] && raw[1] === GZIP_MAGIC[1]) {
     try {
