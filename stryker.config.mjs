@@ -23,7 +23,8 @@ const mutate = parts.length ? parts.map((p) => (p.endsWith('.ts') ? p : `${p}/**
 /** @type {import('@stryker-mutator/api/core').PartialStrykerOptions} */
 export default {
   testRunner: 'vitest',
-  vitest: { configFile: 'vitest.mutate.config.ts', related: false },
+  // related: only the test files that import the mutated code run (vitest's dependency graph).
+  vitest: { configFile: 'vitest.mutate.config.ts', related: true },
   checkers: ['typescript'],
   // Type-check mutants against generators/ only: the site's Astro types are not needed (and not in the sandbox).
   tsconfigFile: 'tsconfig.mutate.json',
