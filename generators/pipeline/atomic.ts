@@ -45,11 +45,17 @@ export function swapInto(staging: string, target: string, phase?: Phase): void {
   rmSync(prev, { recursive: true, force: true });
 }
 
+/** Atomic write (node/files.ts writeFileAtomic) into a folder created when missing (build outputs). */
+export function writeFileDurable(path: string, bytes: Uint8Array | string, phase?: Phase): void {
+  mkdirSync(dirname(path), { recursive: true });
+  writeFileAtomic(path, bytes, phase ? () => reached(phase) : undefined);
+}
+
 /** The one way Kiln changes a file of the content tree: contained, atomic, durable. */
 export function writeContentFile(root: string, path: string, bytes: Uint8Array | string, phase?: Phase): void {
   assertContained(root, path, 'file to change');
   removeStaleTemps(path);
-  writeFileAtomic(path, bytes, phase ? () => reached(phase) : undefined);
+  writeFileDurable(path, bytes, phase);
 }
 
 /** Temp files of `writeFileDurable` for `path` left by killed processes. */
