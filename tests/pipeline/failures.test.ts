@@ -151,6 +151,26 @@ describe('the environment: one line, a documented code, no partial output', () =
     }
   });
 
+  it('two builds into one --out, two publishes of one tree at once: the second refuses with exit 4 while the first runs, the first completes', async () => {
+    for (const [args, lock] of [
+      [['build', '--content', ws.content, '--out', join(ws.dir, 'both'), '--quiet'], join(ws.dir, '.both.lock')],
+      [['publish', '2.0.0', '--content', ws.content, '--quiet'], join(ws.content, '.archive.lock')],
+    ] as const) {
+      const first = spawn(process.execPath, [KILN, ...args], { cwd: REPO, stdio: ['ignore', 'pipe', 'pipe'] });
+      const done = new Promise<number | null>((ok) => first.on('exit', (c) => ok(c)));
+      let firstErr = '';
+      first.stderr.on('data', (d) => (firstErr += d));
+      for (let i = 0; i < 600 && !existsSync(lock); i++) await new Promise((ok) => setTimeout(ok, 50));
+      expect(existsSync(lock), 'the first run took its lock').toBe(true);
+      const second = spawnSync(process.execPath, [KILN, ...args], { cwd: REPO, encoding: 'utf8' });
+      expect(first.exitCode, 'the first run is still working when the second is refused').toBe(null);
+      expect(second.status, second.stderr).toBe(BUSY);
+      expect(expectOneLine(second.stderr)).toMatch(/is writing here — wait for it to finish/);
+      expect(await done, firstErr).toBe(0);
+      expect(existsSync(lock)).toBe(false);
+    }
+  });
+
   it('a bug is one line too, with the trace only behind --debug (exit 70)', () => {
     // No user action reaches a bug, so the CLI's failure report is called with an unexpected error.
     const r = spawnSync(process.execPath, ['--import', 'tsx', '-e', "const m = await import('./generators/cli/main.ts'); process.exitCode = m.reportFailure('x', new TypeError('boom'), process.argv.includes('--debug'));", '--', '--debug'], { cwd: REPO, encoding: 'utf8' });

@@ -51,7 +51,7 @@ export function watch(page: Page, origin: string): { problems: string[] } {
  * The served dist/ and one browser for a test file, started before its tests and closed after
  * them (registers the vitest hooks). `open` loads a page and watches it for problems.
  */
-export function siteSession(): {
+export function siteSession(dist?: () => string): {
   readonly url: string;
   readonly context: BrowserContext;
   readonly server: Awaited<ReturnType<typeof serveDist>>;
@@ -60,7 +60,7 @@ export function siteSession(): {
   let server: Awaited<ReturnType<typeof serveDist>> | undefined;
   let browser: Awaited<ReturnType<typeof launch>> | undefined;
   beforeAll(async () => {
-    server = await serveDist();
+    server = await serveDist(dist?.());
     browser = await launch();
   });
   afterAll(async () => {

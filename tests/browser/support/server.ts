@@ -18,12 +18,14 @@ const TYPES: Record<string, string> = {
 export const DIST = resolve('dist');
 
 /** Fails with the message CI and developers need when the site was not built. */
-export function requireDist(): void {
-  if (!existsSync(join(DIST, 'index.html'))) throw new Error('dist/ is missing: run npm run build first (the browser tests use the built site).');
+export function requireDist(dist = DIST): void {
+  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/ is missing: run npm run build first (the browser tests use the built site).');
 }
 
-export async function serveDist(): Promise<{ url: string; close: () => Promise<void>; requests: string[] }> {
-  requireDist();
+/** Serves `dist` (default: the repository's dist/). */
+export async function serveDist(dist = DIST): Promise<{ url: string; close: () => Promise<void>; requests: string[] }> {
+  const DIST = dist;
+  requireDist(DIST);
   const requests: string[] = [];
   const server: Server = createServer((req, res) => {
     const path = decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname);
