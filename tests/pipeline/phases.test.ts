@@ -21,7 +21,7 @@ afterAll(() => spaces.forEach((w) => w.dispose()));
 
 /** kiln with a private TMPDIR (to see publish's temporary folders) and optionally a stop phase. */
 function run(args: string[], tmp: string, stopAt?: string) {
-  const env = { ...process.env, TMPDIR: tmp };
+  const env: NodeJS.ProcessEnv = { ...process.env, TMPDIR: tmp };
   delete env.KILN_STOP_AT;
   if (stopAt) env.KILN_STOP_AT = stopAt;
   return spawnSync(process.execPath, [KILN, ...args], { cwd: REPO, encoding: 'utf8', env, maxBuffer: 64 * 1024 * 1024 });
@@ -94,7 +94,7 @@ describe('the site build killed at each phase, then run again', () => {
   const dist = join(dir, 'dist');
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
   const site = (stopAt?: string) => {
-    const env = { ...process.env, KILN_SITE_DIST: dist };
+    const env: NodeJS.ProcessEnv = { ...process.env, KILN_SITE_DIST: dist };
     delete env.KILN_STOP_AT;
     if (stopAt) env.KILN_STOP_AT = stopAt;
     return spawnSync(process.execPath, [join(REPO, 'scripts', 'build-site.mjs')], { cwd: REPO, encoding: 'utf8', env });
