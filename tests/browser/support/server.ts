@@ -3,6 +3,7 @@ import { createServer, type Server } from 'node:http';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { extname, join, normalize, resolve } from 'node:path';
 import type { AddressInfo } from 'node:net';
+import { requireFreshBuild } from '../../support/fresh-build.ts';
 
 const TYPES: Record<string, string> = {
   '.html': 'text/html; charset=utf-8',
@@ -17,9 +18,10 @@ const TYPES: Record<string, string> = {
 
 export const DIST = resolve('dist');
 
-/** Fails with the message CI and developers need when the site was not built. */
+/** Fails with the message CI and developers need when the site was not built, or built before its last input changed. */
 export function requireDist(): void {
   if (!existsSync(join(DIST, 'index.html'))) throw new Error('dist/ is missing: run npm run build first (the browser tests use the built site).');
+  requireFreshBuild(join(DIST, 'index.html'), 'the built site dist/');
 }
 
 export async function serveDist(): Promise<{ url: string; close: () => Promise<void>; requests: string[] }> {
