@@ -24,8 +24,16 @@ export function requireDist(): void {
   requireFreshBuild(join(DIST, 'index.html'), 'the built site dist/');
 }
 
-export async function serveDist(): Promise<{ url: string; close: () => Promise<void>; requests: string[] }> {
+export type SiteServer = { url: string; close: () => Promise<void>; requests: string[] };
+
+export async function serveDist(): Promise<SiteServer> {
   requireDist();
+  return serveDir(DIST);
+}
+
+/** Serves any built site directory (a fixture site built by a test, say). */
+export async function serveDir(root: string): Promise<SiteServer> {
+  const DIST = resolve(root);
   const requests: string[] = [];
   const server: Server = createServer((req, res) => {
     const path = decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname);
