@@ -34,11 +34,11 @@ describe('resolution law', () => {
 
   it('follows the law σ² = (w·N_r)²·n_pix + F·w·E (+ constant σ₀²), FWHM = 2.3548·σ (Fano 1947 term, read noise per pixel in quadrature: common practice)', () => {
     // n_pix constant here (the textbook law has no energy dependence of n_pix); 2.354820045 = 2√(2 ln 2).
-    const law = (eKeV: number, nr: number, f: number, npix: number, s0: number) =>
+    const written = (eKeV: number, nr: number, f: number, npix: number, s0: number) =>
       2.354820045 * Math.sqrt((W * nr) ** 2 * npix + f * W * eKeV * 1000 + s0 * s0);
     // 1e-9 relative: the 10-digit constant above is the only rounding.
     for (const [e, nr, f, npix, s0] of [[0.277, 3, 0.115, 4, 0], [1.487, 5.5, 0.12, 2, 7], [5.899, 2, 0.118, 3, 15], [12, 10, 0.1, 1, 0]])
-      expect(Math.abs(fwhmEv(e, law(nr, f, npix, s0)) / law(e, nr, f, npix, s0) - 1), `${e} keV`).toBeLessThan(1e-9);
+      expect(Math.abs(fwhmEv(e, law(nr, f, npix, s0)) / written(e, nr, f, npix, s0) - 1), `${e} keV`).toBeLessThan(1e-9);
   });
 
   it('a 6 keV photon frees about 1,600 electrons in silicon (common practice, no source; 1,550–1,700)', () => {
