@@ -156,7 +156,7 @@ describe('kiln publish', () => {
   it('refuses a candidate that fails a check (exit 1) and archives nothing', () => {
     const ws = fresh();
     // Mn Ka FWHM 140.16 → 200 eV: far from the fitted law, still above the Fano limit
-    // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; PRIMER / common practice).
+    // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; Fano, Phys. Rev. 72, 26 (1947) / common practice).
     ws.replace(`releases/${CANDIDATE}/linefits/fi0.csv`, /^Mn Ka,5\.8950,5\.90794,0\.36,140\.16,/m, 'Mn Ka,5.8950,5.90794,0.36,200.00,');
     const before = treeDigest(ws.content);
     const r = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');

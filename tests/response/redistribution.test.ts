@@ -213,7 +213,7 @@ describe.runIf(runXraylibChecks)('redistribution matrix: Si escape peak with xra
   it('sits at E − E(Si Kα) (xraylib LineEnergy(14, KL3_LINE) = 1.740 keV), absent below the edge, fraction falling above it', () => {
     const silicon = tabulatedEscapeInputs();
     const exact = exactEscapeInputs(siliconFromXraylib(energies));
-    expect(Math.abs(silicon.kAlphaKeV - 1.74)).toBeLessThan(0.001); // PRIMER §1 (tol 1 eV)
+    expect(Math.abs(silicon.kAlphaKeV - 1.74)).toBeLessThan(0.001); // Si Kα1 1.7400 keV: Bearden, Rev. Mod. Phys. 39, 78 (1967), from memory (tol 1 eV)
     const r = buildRedistribution({ spec: gaussianOnlySpec({ escape: true, thresholdKeV: 0.02 }), lineFits: [], energy: bins(energies, 0.0005), channels: ch, meta: META, silicon });
     const fractions: number[] = [];
     energies.forEach((e, i) => {
@@ -230,7 +230,7 @@ describe.runIf(runXraylibChecks)('redistribution matrix: Si escape peak with xra
       expect(m.mass / escapeFraction(e, exact) - 1).toBeLessThan(0.01);
       expect(m.mass / escapeFraction(e, exact) - 1).toBeGreaterThan(-0.01);
     });
-    expect(fractions[0]).toBeGreaterThan(0.01); // ~1–2 % just above the edge (PRIMER §3, memory)
+    expect(fractions[0]).toBeGreaterThan(0.01); // ~1–2 % just above the edge (thick-slab escape, Reed & Ware, J. Phys. E 5, 582 (1972), from memory)
     expect(fractions[0]).toBeLessThan(0.02);
     for (let k = 1; k < fractions.length; k++) expect(fractions[k]).toBeLessThan(fractions[k - 1]);
   });
