@@ -30,6 +30,8 @@ import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
 import { crossReleaseChecks } from './cross-release.ts';
 import { sha256Hex } from './hash.ts';
+import { writeJson, writeSiteDocuments } from './site-files.ts';
+import { splitRelease } from '../site-data/split.ts';
 import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import type { DetectorJobResult } from './run-job.ts';
@@ -76,14 +78,6 @@ export class BuildRefused extends Error {
     this.name = 'BuildRefused';
     this.outcomes = outcomes;
   }
-}
-
-function json(value: unknown): string {
-  return JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 0) + '\n';
-}
-
-function writeJson(path: string, value: unknown): void {
-  writeFileSync(path, json(value));
 }
 
 export function gzipProduct(fits: Uint8Array): Uint8Array {
@@ -190,7 +184,7 @@ function serveArchive(
   // Status, title and notes may change after publishing; the products and numbers may not.
   const rel = r.release;
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
-  writeJson(join(dir, 'site.json'), current);
+  writeSiteDocuments(dir, splitRelease(current, report.checks));
   writeJson(join(dir, 'validation.json'), report);
   const manifest = bytes.has('manifest.json') ? (JSON.parse(new TextDecoder().decode(bytes.get('manifest.json')!)) as ReleaseManifest) : null;
   return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
@@ -282,7 +276,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
           products,
         };
         parameters = Object.fromEntries(results.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
-        writeJson(join(dir, 'site.json'), site);
+        writeSiteDocuments(dir, splitRelease(site, checks));
         const report: ValidationReport = { schema: 'kiln/validation/1', release: rel.id, checks };
         writeJson(join(dir, 'validation.json'), report);
       }

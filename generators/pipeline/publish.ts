@@ -14,6 +14,7 @@ import { archiveDirOf, hasArchive, SEAL_FILE, type Seal } from './archive.ts';
 import { build, type BuildOptions } from './build.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
+import { readReleaseSite } from './site-files.ts';
 
 export interface PublishResult {
   release: string;
@@ -69,10 +70,12 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
     cpSync(join(built, 'validation.json'), join(staged, 'validation.json'));
     // The archive records the release as it is from now on: published (a candidate is promoted).
     const archivedStatus = status === 'candidate' ? 'published' : status;
-    for (const doc of ['site.json', 'manifest.json']) {
-      const value = JSON.parse(readFileSync(join(built, doc), 'utf8')) as { status: string };
-      writeFileSync(join(staged, doc), JSON.stringify({ ...value, status: archivedStatus }) + '\n');
-    }
+    // The build writes the site data split per detector; the archive keeps the whole release.
+    const docs: Record<string, { status: string }> = {
+      'site.json': readReleaseSite(built).site,
+      'manifest.json': JSON.parse(readFileSync(join(built, 'manifest.json'), 'utf8')) as { status: string },
+    };
+    for (const [doc, value] of Object.entries(docs)) writeFileSync(join(staged, doc), JSON.stringify({ ...value, status: archivedStatus }) + '\n');
     const files = listFiles(staged).map((path) => {
       const bytes = readFileSync(join(staged, path));
       return { path, bytes: bytes.length, sha256: sha256Hex(bytes) };
