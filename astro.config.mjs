@@ -25,6 +25,7 @@ function kilnData() {
         const dist = fileURLToPath(dir);
         mkdirSync(join(dist, 'data', 'releases'), { recursive: true });
         copyFileSync(join(DIR, 'index.json'), join(dist, 'data', 'index.json'));
+        if (existsSync(join(DIR, 'finder'))) cpSync(join(DIR, 'finder'), join(dist, 'data', 'finder'), { recursive: true });
         const rels = readdirSync(join(DIR, 'releases'), { withFileTypes: true }).filter((d) => d.isDirectory());
         let files = 0;
         for (const r of rels) {

@@ -31,7 +31,7 @@ import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from
 import { crossReleaseChecks } from './cross-release.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
-import { splitRelease } from '../site-data/split.ts';
+import { finderDocuments, splitRelease } from '../site-data/split.ts';
 import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import type { DetectorJobResult } from './run-job.ts';
@@ -311,6 +311,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
     releases: works.map(releaseSummary).reverse(),
   };
   writeJson(join(staging, 'index.json'), index);
+  writeSiteDocuments(staging, finderDocuments(index));
   swapInto(staging, opts.outDir);
   return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz };
 }

@@ -15,3 +15,6 @@ export const epochPath = (detector: string, epoch: string): string => `${detecto
 
 /** URL base of a release's documents on the site. */
 export const siteDataBase = (releaseId: string): string => `/data/releases/${encodeURIComponent(releaseId)}/`;
+
+/** The finder's per-detector document, relative to the build output (the site's /data/). */
+export const finderPath = (instrument: string, detector: string): string => `finder/${instrument}/${detector}.json`;

@@ -5,7 +5,7 @@
  * keeps the whole-release `site.json` it was published with, and `joinRelease` puts the pieces
  * back together where a whole release is wanted (publishing, `kiln compare`, tests).
  */
-import { areaPath, checksPath, epochPath, matrixPath, modelPath, profilesPath } from './paths.ts';
+import { finderPath, areaPath, checksPath, epochPath, matrixPath, modelPath, profilesPath } from './paths.ts';
 import type {
   Check,
   DetectorAreaDoc,
@@ -14,6 +14,8 @@ import type {
   DetectorMatrixDoc,
   DetectorModelDoc,
   DetectorProfilesDoc,
+  FinderDetectorDoc,
+  ReleaseIndex,
   DetectorSite,
   EpochDataDoc,
   ParameterRow,
@@ -236,4 +238,19 @@ export function detectorForCompare(model: DetectorModelDoc, area: DetectorAreaDo
     profiles: EMPTY_PROFILES,
     matrix: EMPTY_MATRIX,
   };
+}
+
+/** The finder's documents: per instrument and detector, the releases with their files for it. */
+export function finderDocuments(index: ReleaseIndex): SiteDocument[] {
+  const out: SiteDocument[] = [];
+  for (const inst of index.instruments)
+    for (const det of inst.detectors) {
+      const releases = index.releases
+        .filter((r) => r.instrument === inst.id)
+        .map((r) => ({ ...r, products: r.products.filter((p) => p.detector === det.id) }))
+        .filter((r) => r.products.length > 0);
+      const doc: FinderDetectorDoc = { schema: 'kiln/finder-detector/1', instrument: inst.id, detector: det.id, releases };
+      out.push({ path: finderPath(inst.id, det.id), doc });
+    }
+  return out;
 }

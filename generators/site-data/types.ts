@@ -5,6 +5,7 @@
  *
  * Layout written by `kiln build --out DIR` (default `.kiln/out`):
  *   DIR/index.json                         ReleaseIndex
+ *   DIR/finder/<instrument>/<det>.json     FinderDetectorDoc (one detector's files across releases, for the finder)
  *   DIR/releases/<id>/manifest.json        ReleaseManifest
  *   DIR/releases/<id>/validation.json      ValidationReport
  *   DIR/releases/<id>/summary.json                       ReleaseSummaryDoc (small: what a page shows on load)
@@ -313,4 +314,13 @@ export interface DetectorAreaDoc {
   energyKeV: number[];
   /** energyKeV only where an epoch's grid differs from the shared one. */
   epochs: { id: string; energyKeV?: number[]; effectiveAreaCm2: number[] }[];
+}
+
+/** The finder's data for one detector: every release that has files for it, with only those files. */
+export interface FinderDetectorDoc {
+  schema: 'kiln/finder-detector/1';
+  instrument: string;
+  detector: string;
+  /** Newest first, as in the index; products filtered to this detector. */
+  releases: ReleaseSummary[];
 }

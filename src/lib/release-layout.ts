@@ -12,3 +12,6 @@ export const ATTENTION_ROWS = 100;
 
 export const detectorPageHref = (releaseId: string, detector: string): string =>
   `/releases/${encodeURIComponent(releaseId)}/detectors/${encodeURIComponent(detector)}/`;
+
+/** Files listed in the finder's full table (~330 B of HTML each: 300 rows stay near 100 KB). */
+export const FINDER_TABLE_ROWS = 300;
