@@ -60,7 +60,8 @@ describe('kiln build of the demo content', () => {
       expect(manifests.get(id)!.files.map((m) => m.path).sort()).toEqual(files.map((f) => `files/${f}`).sort());
     }
     // Nothing outside the documented layout.
-    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|files\/[^/]+\.gz))$/);
+    for (const p of tree.keys())
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
