@@ -24,6 +24,7 @@ import { removeStale, removeStaleTemps, writeContentFile } from './atomic.ts';
 import { build, verifyFrozen, type BuildOptions } from './build.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
+import { readReleaseSite } from './site-files.ts';
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 
@@ -121,10 +122,12 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
     fsyncDir(join(staged, 'files'));
     writeFileSynced(join(staged, 'validation.json'), readFileSync(join(built, 'validation.json')));
     // The archive records the release as it is from now on: published.
-    for (const doc of ['site.json', 'manifest.json']) {
-      const value = JSON.parse(readFileSync(join(built, doc), 'utf8')) as { status: string };
-      writeFileSynced(join(staged, doc), JSON.stringify({ ...value, status: 'published' }) + '\n');
-    }
+    // The build writes the site data split per detector; the archive keeps the whole release.
+    const docs: Record<string, { status: string }> = {
+      'site.json': readReleaseSite(built).site,
+      'manifest.json': JSON.parse(readFileSync(join(built, 'manifest.json'), 'utf8')) as { status: string },
+    };
+    for (const [doc, value] of Object.entries(docs)) writeFileSynced(join(staged, doc), JSON.stringify({ ...value, status: 'published' }) + '\n');
     const files = listFiles(staged).map((path) => {
       const bytes = readFileSync(join(staged, path));
       return { path, bytes: bytes.length, sha256: sha256Hex(bytes) };

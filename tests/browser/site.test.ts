@@ -101,7 +101,7 @@ describe('release page', () => {
     const n0 = await count();
     const boxes = box.locator('input[type=checkbox]');
     const total = await boxes.count();
-    // The full set of profiles loads on demand from the site's own site.json: poll for the redraw.
+    // The full set of profiles loads on demand from the detector's profiles.json: poll for the redraw.
     for (let i = 0; i < total; i++) await boxes.nth(i).check();
     await expect.poll(count).toBe(total);
     expect(total).toBeGreaterThan(n0);

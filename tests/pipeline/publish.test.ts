@@ -5,7 +5,7 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { expectOneLine, kiln, readTree, sha256, treeDigest, workspace, type Workspace } from './helpers.ts';
+import { expectOneLine, kiln, readTree, servedSite, sha256, treeDigest, workspace, type Workspace } from './helpers.ts';
 
 const CANDIDATE = '2.0.0';
 const YAML = `releases/${CANDIDATE}/release.yaml`;
@@ -93,10 +93,10 @@ describe('kiln publish', () => {
       if (f.path.startsWith('files/')) expect(preTree.get(`releases/${CANDIDATE}/${f.path}`)!.equals(arch.get(f.path)!), f.path).toBe(true);
     }
     // Served site data: the archived one with the current status.
-    const servedSite = JSON.parse(out.get(`releases/${CANDIDATE}/site.json`)!.toString('utf8'));
+    const served = servedSite(ws.out, CANDIDATE);
     const archivedSite = JSON.parse(arch.get('site.json')!.toString('utf8'));
-    expect(servedSite.status).toBe('published');
-    expect({ ...servedSite, status: null }).toEqual({ ...archivedSite, status: null });
+    expect(served.status).toBe('published');
+    expect({ ...served, status: null }).toEqual({ ...archivedSite, status: null });
     const manifest = JSON.parse(out.get(`releases/${CANDIDATE}/manifest.json`)!.toString('utf8'));
     expect(manifest.status).toBe('published');
     expect(manifest.inputsSha256).toBe(seal.inputsSha256);

@@ -14,6 +14,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
+import { readReleaseSite } from '../../generators/pipeline/site-files.ts';
 import { centroidPlot, effectiveAreaPlot, fwhmPlot } from '../../src/lib/release-plots.ts';
 import { kiln, workspace, type Workspace } from '../pipeline/helpers.ts';
 import { runAstropyChecks, runPythonJson } from '../support/python.ts';
@@ -99,7 +100,8 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
     const r = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
     if (r.status !== 0) throw new Error(`demo build failed:\n${r.stderr}`);
     const index = JSON.parse(readFileSync(join(ws.out, 'index.json'), 'utf8')) as { releases: { id: string }[] };
-    sites = index.releases.map((rel) => JSON.parse(readFileSync(join(ws.out, 'releases', rel.id, 'site.json'), 'utf8')) as ReleaseSite);
+    // The build writes site data split per detector and epoch; joined here into whole releases.
+    sites = index.releases.map((rel) => readReleaseSite(join(ws.out, 'releases', rel.id)).site);
     const arfs: string[] = [];
     const rmfs: Record<string, number[]> = {};
     for (const s of sites)
