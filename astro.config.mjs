@@ -2,13 +2,15 @@
 // DIR = KILN_OUT or .kiln/out. No external requests: no web fonts, no CDNs, no telemetry.
 import { defineConfig } from 'astro/config';
 import { cpSync, existsSync, mkdirSync, readdirSync, copyFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { basename, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
 
 const DIR = resolve(process.env.KILN_OUT ?? '.kiln/out');
-const DOCS = ['manifest.json', 'validation.json', 'site.json'];
+const DOCS = ['manifest.json', 'validation.json', 'summary.json'];
+/** Split per-detector documents the pages fetch; matrix.json only feeds the build's PNG. */
+const BUILD_ONLY = new Set(['matrix.json']);
 
 /** Copies the products and the machine-readable JSON documents next to the pages. */
 function kilnData() {
@@ -23,6 +25,7 @@ function kilnData() {
         const dist = fileURLToPath(dir);
         mkdirSync(join(dist, 'data', 'releases'), { recursive: true });
         copyFileSync(join(DIR, 'index.json'), join(dist, 'data', 'index.json'));
+        if (existsSync(join(DIR, 'finder'))) cpSync(join(DIR, 'finder'), join(dist, 'data', 'finder'), { recursive: true });
         const rels = readdirSync(join(DIR, 'releases'), { withFileTypes: true }).filter((d) => d.isDirectory());
         let files = 0;
         for (const r of rels) {
@@ -30,6 +33,8 @@ function kilnData() {
           const dataDir = join(dist, 'data', 'releases', r.name);
           mkdirSync(dataDir, { recursive: true });
           for (const doc of DOCS) if (existsSync(join(src, doc))) copyFileSync(join(src, doc), join(dataDir, doc));
+          if (existsSync(join(src, 'detectors')))
+            cpSync(join(src, 'detectors'), join(dataDir, 'detectors'), { recursive: true, filter: (p) => !BUILD_ONLY.has(basename(p)) });
           if (existsSync(join(src, 'files'))) {
             const dest = join(dist, 'releases', r.name, 'files');
             mkdirSync(dest, { recursive: true });

@@ -61,9 +61,9 @@ export interface ReleaseTruth {
   detectors: Record<string, DetectorTruth>;
 }
 
-/** Fano factor of the demo's silicon: inside the ≈0.115–0.12 range of the primer (memory). */
+/** Fano factor of the demo's silicon: inside the ≈0.115–0.12 range measured for silicon (from memory). */
 const FANO = 0.118;
-/** Mean energy per pair in cold silicon, invented for the demo (primer: ≈3.65 eV warm, a bit more cold). */
+/** Mean energy per pair in cold silicon, invented for the demo (≈3.65 eV warm, a bit more cold: Scholze, Rabus & Ulm, J. Appl. Phys. 84, 2926 (1998), from memory). */
 const PAIR_EV = 3.68;
 
 const GROUND_FI: DetectorTruth = {

@@ -11,6 +11,8 @@ import { createHash } from 'node:crypto';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
+import { writeSiteDocuments } from '../generators/pipeline/site-files.ts';
+import { splitRelease } from '../generators/site-data/split.ts';
 import type {
   Check,
   DetectorSite,
@@ -481,7 +483,7 @@ releases.forEach((rel, ri) => {
     files: products.map((p) => ({ path: p.path, bytes: p.bytes, sha256: p.sha256, kind: p.kind, detector: p.detector, epoch: p.epoch, validFrom: p.validFrom, validTo: p.validTo })),
   };
   const validation: ValidationReport = { schema: 'kiln/validation/1', release: rel.id, checks };
-  writeJson(join(dir, 'site.json'), site);
+  writeSiteDocuments(dir, splitRelease(site, checks));
   writeJson(join(dir, 'manifest.json'), manifest);
   writeJson(join(dir, 'validation.json'), validation);
   summaries.push({ id: rel.id, instrument: instrument.id, title: site.title, date: rel.date, status: rel.status, validFrom: rel.validFrom, validTo: rel.validTo, supersedes: rel.supersedes, checks: counts, products });

@@ -9,12 +9,14 @@ export const DEFAULT_OUT_DIR = '.kiln/out';
 export const command: CommandSpec = {
   name: 'build',
   summary: 'Build every release of the content tree: products (RMF, ARF), validation reports, manifests and site data.',
-  usage: 'kiln build [--content DIR] [--out DIR] [--workers N] [--quiet]',
+  usage: 'kiln build [--content DIR] [--out DIR] [--workers N] [--cache DIR] [--no-cache] [--quiet]',
   positionals: { min: 0, max: 0, names: '' },
   options: [
     { name: 'content', arg: 'DIR', help: `content tree to build (default ${DEFAULT_CONTENT_DIR})` },
     { name: 'out', arg: 'DIR', help: `output directory, replaced atomically when the build succeeds (default ${DEFAULT_OUT_DIR})` },
     { name: 'workers', arg: 'N', help: 'worker threads for product generation (default: one per core)' },
+    { name: 'cache', arg: 'DIR', help: 'job cache: unchanged jobs reuse their verified outputs (default .kiln/cache for .kiln/out, else OUT.cache)' },
+    { name: 'no-cache', help: 'rebuild every job (the cache is refreshed)' },
     { name: 'quiet', help: 'print only the summary' },
   ],
   async run(args) {
@@ -27,10 +29,12 @@ export const command: CommandSpec = {
     const log = quiet ? undefined : (line: string) => process.stderr.write(`kiln build: ${line}\n`);
     try {
       const t0 = performance.now();
-      const s = await build({ contentDir, outDir, workers, log });
+      const cache = optString(args, 'cache');
+      const warn = (line: string) => process.stderr.write(`kiln build: ${line}\n`);
+      const s = await build({ contentDir, outDir, workers, log, warn, cacheDir: cache === undefined ? undefined : resolve(cache), noCache: optFlag(args, 'no-cache') });
       const fails = s.releases.reduce((n, r) => n + r.checks.fail, 0);
       process.stdout.write(
-        `kiln build: ${s.releases.length} releases, ${s.products} products, written to ${outDir} in ${((performance.now() - t0) / 1000).toFixed(1)} s` +
+        `kiln build: ${s.releases.length} releases, ${s.products} products (${s.jobs.built} jobs built, ${s.jobs.cached} from cache), written to ${outDir} in ${((performance.now() - t0) / 1000).toFixed(1)} s` +
           (fails ? `; ${fails} failed checks in draft releases (see validation.json)` : '') +
           '\n',
       );

@@ -18,7 +18,10 @@ export const command: CommandSpec = {
   ],
   async run(args) {
     const [a, b] = args.positionals;
-    const asFiles = existsSync(a) && existsSync(b) && !/^\d+\.\d+\.\d+/.test(a);
+    // Release ids never hold a path separator or a FITS suffix; such an argument is a file, so a
+    // missing one is reported as a file that cannot be read, not as an unknown release.
+    const looksLikeFile = (x: string): boolean => /[\\/]|\.(fits|rmf|arf|rsp|pha|pi)(\.gz)?$/i.test(x);
+    const asFiles = (looksLikeFile(a) || looksLikeFile(b)) || (existsSync(a) && existsSync(b) && !/^\d+\.\d+\.\d+/.test(a));
     const report = asFiles ? compareFiles(a, b) : compareReleases(resolve(optString(args, 'out') ?? DEFAULT_OUT_DIR), a, b);
     process.stdout.write(optFlag(args, 'json') ? JSON.stringify(report, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n' : formatCompareText(report) + '\n');
     return needsReview(report) ? 1 : 0;

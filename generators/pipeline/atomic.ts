@@ -1,10 +1,16 @@
 /**
- * Atomic replacement of output trees. A build writes into a staging directory next to the
- * target; only a complete tree is swapped in, so a crash or kill mid-build leaves the previous
- * output intact and never a half-written product.
+ * Atomic replacement of output trees and atomic, durable, contained writes of single files. A
+ * build writes into a staging directory next to the target; only a complete tree is swapped in,
+ * so a crash or kill mid-build leaves the previous output intact and never a half-written
+ * product. A file Kiln changes in the content tree is written to a temporary file beside it,
+ * fsynced, and renamed over the old one: a kill or a full disk leaves the old file or the new,
+ * never an empty or partial one.
  */
-import { closeSync, existsSync, fsyncSync, mkdirSync, openSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, unlinkSync } from 'node:fs';
 import { dirname, basename, join } from 'node:path';
+import { assertContained, writeFileAtomic } from '../node/files.ts';
+import { processAlive } from './lock.ts';
+import { reached, type Phase } from './phase.ts';
 
 /** Staging directory beside `target` (same filesystem, so rename is atomic). */
 export function stagingDir(target: string): string {
@@ -28,50 +34,49 @@ export function recoverInterruptedSwap(target: string): void {
   else if (existsSync(prev)) rmSync(prev, { recursive: true, force: true });
 }
 
-/** Replaces `target` by the complete tree in `staging`. */
-export function swapInto(staging: string, target: string): void {
+/** Replaces `target` by the complete tree in `staging`. `phase` names the moment between the renames (test hook). */
+export function swapInto(staging: string, target: string, phase?: Phase): void {
   mkdirSync(dirname(target), { recursive: true });
   recoverInterruptedSwap(target);
   const prev = previousDir(target);
   if (existsSync(target)) renameSync(target, prev);
+  if (phase) reached(phase);
   renameSync(staging, target);
   rmSync(prev, { recursive: true, force: true });
 }
 
-/** Writes a file durably: temp file in the same directory, fsync, rename. */
-export function writeFileDurable(path: string, bytes: Uint8Array | string): void {
+/** Atomic write (node/files.ts writeFileAtomic) into a folder created when missing (build outputs). */
+export function writeFileDurable(path: string, bytes: Uint8Array | string, phase?: Phase): void {
   mkdirSync(dirname(path), { recursive: true });
-  const tmp = join(dirname(path), `.${basename(path)}.tmp-${process.pid}`);
-  writeFileSync(tmp, bytes);
-  const fd = openSync(tmp, 'r');
-  try {
-    fsyncSync(fd);
-  } finally {
-    closeSync(fd);
-  }
-  renameSync(tmp, path);
+  writeFileAtomic(path, bytes, phase ? () => reached(phase) : undefined);
 }
 
-/** Removes staging directories left behind by killed builds. */
+/** The one way Kiln changes a file of the content tree: contained, atomic, durable. */
+export function writeContentFile(root: string, path: string, bytes: Uint8Array | string, phase?: Phase): void {
+  assertContained(root, path, 'file to change');
+  removeStaleTemps(path);
+  writeFileDurable(path, bytes, phase);
+}
+
+/** Temp files of `writeFileDurable` for `path` left by killed processes. */
+export function removeStaleTemps(path: string): void {
+  removeStale(dirname(path), `.${basename(path)}.tmp-`, (p) => unlinkSync(p));
+}
+
+/** Removes staging directories left behind by killed runs of the step writing `target`. */
 export function removeStaleStaging(target: string): void {
-  const parent = dirname(target);
-  if (!existsSync(parent)) return;
-  // Only our own naming pattern, never anything else in the parent.
-  const prefix = `.${basename(target)}.staging-`;
-  for (const name of readdirSafe(parent)) {
-    if (!name.startsWith(prefix)) continue;
-    const pid = Number(name.slice(prefix.length));
-    if (Number.isInteger(pid) && pid !== process.pid && processAlive(pid)) continue; // another build is running
-    rmSync(join(parent, name), { recursive: true, force: true });
-  }
+  removeStale(dirname(target), `.${basename(target)}.staging-`, (p) => rmSync(p, { recursive: true, force: true }));
 }
 
-function processAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
+/** Entries `<prefix><pid>` of `dir` whose process is gone (or is this one): removed. */
+export function removeStale(dir: string, prefix: string, remove: (path: string) => void): void {
+  if (!existsSync(dir)) return;
+  // Only our own naming pattern, never anything else in the directory.
+  for (const name of readdirSafe(dir)) {
+    if (!name.startsWith(prefix)) continue;
+    const pid = Number(name.slice(prefix.length).split('-')[0]);
+    if (Number.isInteger(pid) && pid !== process.pid && processAlive(pid)) continue; // another run is working
+    remove(join(dir, name));
   }
 }
 

@@ -8,12 +8,12 @@
  *   4. refuse the whole build when a candidate release fails a check; a draft shows its failures;
  *   5. swap the complete output tree into place.
  */
-import { gzipSync } from 'node:zlib';
 import { mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { isForwardOf, type ReleaseStatus } from '../content/status-line.ts';
+import { basename, dirname, join } from 'node:path';
 import { loadContent } from '../content/index.ts';
 import type { ContentTree, ResolvedRelease } from '../content/types.ts';
-import { KilnInputError } from '../errors.ts';
+import { inTermsOf, KilnInputError } from '../errors.ts';
 import type {
   Check,
   InstrumentSummary,
@@ -26,16 +26,22 @@ import type {
   ValidationReport,
 } from '../site-data/types.ts';
 import { countStatuses } from '../checks/index.ts';
-import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.ts';
+import { archiveDirOf, hasArchive, readSeal, verifyArchive, type Seal, type VerifiedArchive } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
+import { withLock } from './lock.ts';
+import { reached } from './phase.ts';
 import { crossReleaseChecks } from './cross-release.ts';
 import { sha256Hex } from './hash.ts';
-import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
+import { writeJson, writeSiteDocuments } from './site-files.ts';
+import { finderDocuments, splitRelease } from '../site-data/split.ts';
+import { changedInputFiles, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
-import type { DetectorJobResult } from './run-job.ts';
-
-/** gzip level of product files: the smallest files; speed matters little next to the model (zlib's 9). */
-const GZIP_LEVEL = 9;
+import { generatorVersion } from './generator-version.ts';
+import { jobFingerprint, jobIdOf, type JobOutput } from './job-output.ts';
+import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
+import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
+import { checksPath } from '../site-data/paths.ts';
+export { gzipProduct } from './job-output.ts';
 /** Statuses whose products are frozen in the archive. */
 const FROZEN_STATUSES = new Set(['published', 'superseded']);
 
@@ -50,7 +56,28 @@ export interface BuildOptions {
    * inputs even if its status is already published (it has no archive yet).
    */
   publishing?: string;
+  /**
+   * Job cache: outputs of unchanged jobs (same fingerprint) are reused from here. Default
+   * `cache/` beside the output directory (`.kiln/cache` for `.kiln/out`); null: no cache.
+   */
+  cacheDir?: string | null;
+  /** Rebuild every job; the cache is refreshed with the new outputs. */
+  noCache?: boolean;
+  /**
+   * Gathering shards: every job's output comes from here (verified); none is built. The
+   * callback throws a KilnInputError for a job it cannot serve.
+   */
+  prebuilt?: (jobId: string, fingerprint: string) => JobOutput;
+  /** Lines that must be seen even with --quiet (a cache entry rejected and rebuilt). */
+  warn?: (line: string) => void;
 }
+
+/**
+ * Default job cache of an output directory: `.kiln/cache` for an output inside `.kiln/` (the
+ * default `.kiln/out`), else `DIR.cache` beside `--out DIR`, so unrelated outputs never share one.
+ */
+export const defaultCacheDir = (outDir: string): string => (basename(dirname(outDir)) === '.kiln' ? join(dirname(outDir), 'cache') : `${outDir}.cache`);
+const JOBS_DIR = 'jobs';
 
 export interface ReleaseOutcome {
   id: string;
@@ -66,6 +93,8 @@ export interface BuildSummary {
   releases: ReleaseOutcome[];
   products: number;
   nnz: number;
+  /** Jobs run, reused from the cache, taken from shards. */
+  jobs: { built: number; cached: number; gathered: number };
 }
 
 /** A candidate (or published) release failed checks: the build is refused, nothing is written. */
@@ -78,18 +107,6 @@ export class BuildRefused extends Error {
   }
 }
 
-function json(value: unknown): string {
-  return JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 0) + '\n';
-}
-
-function writeJson(path: string, value: unknown): void {
-  writeFileSync(path, json(value));
-}
-
-export function gzipProduct(fits: Uint8Array): Uint8Array {
-  // Node's gzip writes MTIME 0 and a fixed OS byte: identical input gives identical bytes.
-  return new Uint8Array(gzipSync(fits, { level: GZIP_LEVEL }));
-}
 
 function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
   return content.instruments.map((i) => ({
@@ -104,13 +121,10 @@ function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
 }
 
 /** Checks that the frozen release still has the inputs it was published from. */
-function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
+export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   const now = inputsSha256(r);
   if (now === seal.inputsSha256) return;
-  const files = inputFileHashes(r);
-  const changed = Object.keys({ ...files, ...seal.inputFiles })
-    .filter((p) => files[p] !== seal.inputFiles[p])
-    .sort();
+  const changed = changedInputFiles(r, seal);
   throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
@@ -176,54 +190,89 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
   };
 }
 
-/** Serves a frozen release from its archive into `dir`. */
+/**
+ * An archive wins over any status edit: the release's status may only have moved forward from
+ * the one it was sealed with (published → superseded → withdrawn). Then its inputs and every
+ * archived byte are checked. Returns the verified archive.
+ */
+export function verifyFrozen(root: string, r: ResolvedRelease): VerifiedArchive {
+  const rel = r.release;
+  const seal = readSeal(root, rel.id);
+  const archive = verifyArchive(root, seal, rel);
+  if (!isForwardOf(archive.sealedStatus as ReleaseStatus, rel.status as ReleaseStatus)) {
+    const finish = rel.status === 'candidate' && archive.sealedStatus === 'published';
+    throw new KilnInputError(`release ${rel.id} is archived as ${archive.sealedStatus}; its status may only move forward (published → superseded → withdrawn)`, {
+      file: rel.file,
+      field: 'status',
+      value: rel.status,
+      expected: `${archive.sealedStatus}${archive.sealedStatus === 'withdrawn' ? '' : ' or a later status'}`,
+      todo: finish ? `if a publish was interrupted, \`kiln publish ${rel.id}\` finishes it` : `set status back to ${archive.sealedStatus}; to change the calibration make a new release`,
+    });
+  }
+  verifyFrozenInputs(r, seal);
+  return archive;
+}
+
+/** Serves a frozen release from its verified archive into `dir`. */
 function serveArchive(
-  content: ContentTree,
   r: ResolvedRelease,
+  archive: VerifiedArchive,
   dir: string,
 ): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
-  const seal = readSeal(content.root, r.release.id);
-  verifyFrozenInputs(r, seal);
-  const bytes = readVerifiedArchive(content.root, seal);
-  const site = JSON.parse(new TextDecoder().decode(bytes.get('site.json')!)) as ReleaseSite;
-  const report = JSON.parse(new TextDecoder().decode(bytes.get('validation.json')!)) as ValidationReport;
+  const { bytes, site, report } = archive;
   mkdirSync(join(dir, 'files'), { recursive: true });
   for (const [path, b] of bytes) if (path.startsWith('files/')) writeFileSync(join(dir, path), b);
   // Status, title and notes may change after publishing; the products and numbers may not.
   const rel = r.release;
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
-  writeJson(join(dir, 'site.json'), current);
+  writeSiteDocuments(dir, splitRelease(current, report.checks));
   writeJson(join(dir, 'validation.json'), report);
-  const manifest = bytes.has('manifest.json') ? (JSON.parse(new TextDecoder().decode(bytes.get('manifest.json')!)) as ReleaseManifest) : null;
+  const manifest = archive.manifest;
   return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
 }
 
-function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSummary[] {
-  mkdirSync(join(dir, 'files'), { recursive: true });
-  const products: ProductSummary[] = [];
-  for (const res of results)
-    for (const f of res.files) {
-      const gz = gzipProduct(f.fits);
-      const path = `files/${f.name}`;
-      writeFileSync(join(dir, path), gz);
-      products.push({
-        id: f.id,
-        kind: f.kind,
-        detector: f.detector,
-        epoch: f.epoch,
-        path,
-        bytes: gz.length,
-        sha256: sha256Hex(gz),
-        validFrom: f.validFrom,
-        validTo: f.validTo,
-        ...(f.validEnergyKeV ? { validEnergyKeV: f.validEnergyKeV } : {}),
-        ...(f.validChannels ? { validChannels: f.validChannels } : {}),
-      });
-    }
-  return products;
+/** What a release keeps of one job once its output is on disk: summaries only. */
+interface JobSlot {
+  detectorId: string;
+  products: ProductSummary[];
+  checks: Check[];
+  parameters: ReleaseSite['parameters'];
+  fits: JobOutput['meta']['fits'];
+  nnz: number;
+  entry: ReturnType<typeof splitDetector>['entry'];
 }
 
+/** Writes one job's products and site documents (all but its checks) into the release directory. */
+function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot {
+  const m = out.meta;
+  mkdirSync(join(dir, 'files'), { recursive: true });
+  const products: ProductSummary[] = m.files.map((f, i) => {
+    const path = `files/${f.name}`;
+    writeFileSync(join(dir, path), out.gz[i]);
+    return {
+      id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: f.bytes, sha256: f.sha256, validFrom: f.validFrom, validTo: f.validTo,
+      ...(f.validEnergyKeV ? { validEnergyKeV: f.validEnergyKeV } : {}),
+      ...(f.validChannels ? { validChannels: f.validChannels } : {}),
+    };
+  });
+  const { entry, documents } = splitDetector(releaseId, m.site, m.parameters, products, []);
+  const checksDoc = checksPath(m.site.id);
+  writeSiteDocuments(dir, documents.filter((d) => d.path !== checksDoc));
+  return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry };
+}
+
+/** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
+  mkdirSync(dirname(opts.outDir), { recursive: true });
+  try {
+    return await withLock(opts.outDir, 'kiln build', () => buildLocked(opts));
+  } catch (e) {
+    // A disk full in the staging directory is reported as a disk full at --out.
+    throw inTermsOf(e, opts.outDir, [join(dirname(opts.outDir), `.${basename(opts.outDir)}.staging-${process.pid}`)]);
+  }
+}
+
+async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const log = opts.log ?? (() => {});
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
@@ -234,10 +283,11 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
-  const isFrozen = (r: ResolvedRelease) =>
-    r.release.id !== opts.publishing && (FROZEN_STATUSES.has(r.release.status) || (r.release.status === 'withdrawn' && hasArchive(content.root, r.release.id)));
-  // Check every frozen release before any work: changed inputs or a missing or altered archived
-  // byte stop the build at once, before anything is built or written.
+  // An archive wins over any status: a release with one is always served from it.
+  const isFrozen = (r: ResolvedRelease) => r.release.id !== opts.publishing && hasArchive(content.root, r.release.id);
+  // Check every frozen release before any work: changed inputs, a status moved backwards, a
+  // missing, extra or altered archived file stop the build at once, before anything is written.
+  const archives = new Map<string, VerifiedArchive>();
   for (const r of content.releases) {
     if (r.release.id === opts.publishing) continue;
     if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
@@ -247,18 +297,26 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         value: r.release.status,
         expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
       });
-    if (isFrozen(r)) {
-      const seal = readSeal(content.root, r.release.id);
-      verifyFrozenInputs(r, seal);
-      readVerifiedArchive(content.root, seal);
-    }
+    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
   }
+  reached('build:verified');
 
   removeStaleStaging(opts.outDir);
   const staging = stagingDir(opts.outDir);
   const pool = new JobPool(opts.workers ?? defaultWorkerCount());
   const works: ReleaseWork[] = [];
   let nnz = 0;
+  const cacheDir = opts.prebuilt ? null : opts.cacheDir === undefined ? defaultCacheDir(opts.outDir) : opts.cacheDir;
+  const ctx: JobContext = {
+    generator: generatorVersion(),
+    cacheRoot: cacheDir === null ? null : join(cacheDir, JOBS_DIR),
+    noCache: opts.noCache === true,
+    prebuilt: opts.prebuilt,
+    log,
+    warn: opts.warn ?? log,
+    used: new Set(),
+    counts: { built: 0, cached: 0, gathered: 0 },
+  };
   try {
     for (const r of content.releases) {
       const rel = r.release;
@@ -270,33 +328,29 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
       if (frozen) {
-        const served = serveArchive(content, r, dir);
+        const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
       } else {
-        const jobs = jobsOf(r);
-        const t0 = performance.now();
-        let done = 0;
-        const results = await pool.run(jobs, (res) => {
-          done++;
-          log(`release ${rel.id} (${rel.status}): detector ${res.detectorId} built, ${res.files.length} products, ${res.nnz} matrix elements [${done}/${jobs.length}, ${((performance.now() - t0) / 1000).toFixed(1)} s]`);
-        });
-        products = writeBuiltFiles(dir, results);
-        checks = results.flatMap((x) => x.checks);
-        nnz += results.reduce((s, x) => s + x.nnz, 0);
+        const slots = await runReleaseJobs(r, dir, pool, ctx);
+        products = slots.flatMap((x) => x.products);
+        checks = slots.flatMap((x) => x.checks);
+        nnz += slots.reduce((s, x) => s + x.nnz, 0);
         const prev = works.length ? works[works.length - 1] : null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
-        const site: ReleaseSite = {
-          schema: 'kiln/release-site/1',
-          ...releaseHead(rel),
-          notesMarkdown: rel.notesMarkdown,
-          parameters: results.flatMap((x) => x.parameters),
-          detectors: results.map((x) => x.site),
-          products,
-        };
-        parameters = Object.fromEntries(results.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
-        writeJson(join(dir, 'site.json'), site);
+        parameters = Object.fromEntries(slots.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
+        // Checks go to their detector's document once the cross-release review has added its own.
+        const byDet = checksByDetector(checks, products);
+        const known = new Set(slots.map((x) => x.detectorId));
+        const entries = slots.map((x) => {
+          const own = byDet.get(x.detectorId) ?? [];
+          writeSiteDocuments(dir, [{ path: checksPath(x.detectorId), doc: { schema: 'kiln/detector-checks/1', release: rel.id, detector: x.detectorId, checks: own } }]);
+          return { ...x.entry, checks: countChecks(own) };
+        });
+        const orphans = [...byDet].filter(([d]) => d === null || !known.has(d)).flatMap(([, cs]) => cs);
+        const allParameters = slots.flatMap((x) => x.parameters);
+        writeSiteDocuments(dir, [{ path: 'summary.json', doc: summaryDoc({ ...releaseHead(rel), notesMarkdown: rel.notesMarkdown }, entries, orphans, allParameters.filter((p) => p.detector === null || !known.has(p.detector))) }]);
         const report: ValidationReport = { schema: 'kiln/validation/1', release: rel.id, checks };
         writeJson(join(dir, 'validation.json'), report);
       }
@@ -331,6 +385,69 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
     releases: works.map(releaseSummary).reverse(),
   };
   writeJson(join(staging, 'index.json'), index);
-  swapInto(staging, opts.outDir);
-  return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz };
+  writeSiteDocuments(staging, finderDocuments(index));
+  reached('build:staged');
+  swapInto(staging, opts.outDir, 'build:swap');
+  // The cache keeps the jobs of the last successful build: bounded, and safe to delete.
+  if (ctx.cacheRoot) pruneJobEntries(ctx.cacheRoot, ctx.used);
+  return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
+}
+
+interface JobContext {
+  generator: string;
+  cacheRoot: string | null;
+  noCache: boolean;
+  prebuilt?: BuildOptions['prebuilt'];
+  log: (line: string) => void;
+  warn: (line: string) => void;
+  /** Fingerprints of this build's jobs (what the cache keeps). */
+  used: Set<string>;
+  counts: BuildSummary['jobs'];
+}
+
+/**
+ * A release's detector jobs: each taken from the shards when gathering, else from the cache when
+ * its verified entry is there, else run on the pool (and cached). Every output is written to disk
+ * as it arrives and only its summary kept, in job order.
+ */
+async function runReleaseJobs(r: ResolvedRelease, dir: string, pool: JobPool, ctx: JobContext): Promise<JobSlot[]> {
+  const rel = r.release;
+  const tasks = jobsOf(r).map((job) => ({ job, fingerprint: jobFingerprint(job, ctx.generator), generator: ctx.generator }));
+  const slots: JobSlot[] = new Array(tasks.length);
+  const t0 = performance.now();
+  let done = 0;
+  const take = (out: JobOutput, i: number, how: string) => {
+    slots[i] = writeJobOutput(dir, rel.id, out);
+    done++;
+    ctx.log(`release ${rel.id} (${rel.status}): detector ${slots[i].detectorId} ${how}, ${out.meta.files.length} products, ${out.meta.nnz} matrix elements [${done}/${tasks.length}, ${((performance.now() - t0) / 1000).toFixed(1)} s]`);
+  };
+  const toRun: number[] = [];
+  tasks.forEach((t, i) => {
+    const id = jobIdOf(t.job);
+    ctx.used.add(t.fingerprint);
+    if (ctx.prebuilt) {
+      take(ctx.prebuilt(id, t.fingerprint), i, 'gathered');
+      ctx.counts.gathered++;
+      return;
+    }
+    if (ctx.cacheRoot && !ctx.noCache) {
+      const e = readJobEntry(ctx.cacheRoot, t.fingerprint, { job: id, generator: ctx.generator });
+      if (e.ok) {
+        take(e.output, i, 'from cache');
+        ctx.counts.cached++;
+        return;
+      }
+      if (!e.missing) ctx.warn(`cache entry of job ${id} (${t.fingerprint.slice(0, 12)}) rejected: ${e.reason}; rebuilding it`);
+    }
+    toRun.push(i);
+  });
+  await pool.run(
+    toRun.map((i) => tasks[i]),
+    (out, k) => {
+      if (ctx.cacheRoot) writeJobEntry(ctx.cacheRoot, out);
+      take(out, toRun[k], 'built');
+      ctx.counts.built++;
+    },
+  );
+  return slots;
 }

@@ -2,7 +2,6 @@
  * kiln compare: two release ids (read from a build's output) or two product files. Node layer:
  * reads the files, then hands the data to the pure tables in generators/compare/.
  */
-import { existsSync, readFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import { compareArf, compareRmf } from '../checks/index.ts';
 import { arfDiffTable, parameterDiffs, rmfDiffTable, type ComparedPair, type CompareReport } from '../compare/index.ts';
@@ -11,12 +10,13 @@ import { readFitsFile } from '../node/index.ts';
 import { identifyProduct, readArf, readRmf } from '../ogip/index.ts';
 import type { ReleaseSite } from '../site-data/types.ts';
 import { arfValidOn } from './validity.ts';
+import { hasReleaseSummary, readReleaseSite } from './site-files.ts';
 
 function readSite(outDir: string, id: string): ReleaseSite {
-  const file = join(outDir, 'releases', id, 'site.json');
-  if (!existsSync(file))
-    throw new KilnInputError(`release ${id} not found in the build output`, { file, value: id, expected: 'a release id built by `kiln build` (or two FITS files)' });
-  return JSON.parse(readFileSync(file, 'utf8')) as ReleaseSite;
+  const dir = join(outDir, 'releases', id);
+  if (!hasReleaseSummary(dir))
+    throw new KilnInputError(`release ${id} not found in the build output`, { file: join(dir, 'summary.json'), value: id, expected: 'a release id built by `kiln build` (or two FITS files)' });
+  return readReleaseSite(dir, { profiles: false, matrix: false }).site;
 }
 
 

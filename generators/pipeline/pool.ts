@@ -7,10 +7,17 @@ import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
 import { KilnInputError } from '../errors.ts';
 import type { DetectorJob } from './job.ts';
-import { runDetectorJob, type DetectorJobResult } from './run-job.ts';
+import { produceJobOutput, type JobOutput } from './job-output.ts';
+
+/** A job with its fingerprint and the generator version recorded in its output. */
+export interface JobTask {
+  job: DetectorJob;
+  fingerprint: string;
+  generator: string;
+}
 
 type Reply =
-  | { seq: number; ok: true; result: DetectorJobResult }
+  | { seq: number; ok: true; result: JobOutput }
   | { seq: number; ok: false; input: boolean; message: string; where?: KilnInputError['where']; stack?: string };
 
 export function defaultWorkerCount(): number {
@@ -25,15 +32,15 @@ export class JobPool {
     this.size = Math.max(1, Math.floor(size));
   }
 
-  /** Results in the order of `jobs`; onDone is called as each finishes. */
-  async run(jobs: DetectorJob[], onDone?: (r: DetectorJobResult) => void): Promise<DetectorJobResult[]> {
-    const results: DetectorJobResult[] = new Array(jobs.length);
+  /**
+   * Runs every task; onDone gets each output with its index in `jobs` as it finishes (in any
+   * order). Outputs are not kept here: the caller writes each to disk and keeps its summary, so
+   * memory does not grow with the number of jobs.
+   */
+  async run(jobs: JobTask[], onDone: (r: JobOutput, index: number) => void): Promise<void> {
     if (this.size === 1 || jobs.length <= 1) {
-      for (let i = 0; i < jobs.length; i++) {
-        results[i] = runDetectorJob(jobs[i]);
-        onDone?.(results[i]);
-      }
-      return results;
+      for (let i = 0; i < jobs.length; i++) onDone(produceJobOutput(jobs[i].job, jobs[i].fingerprint, jobs[i].generator), i);
+      return;
     }
     const want = Math.min(this.size, jobs.length);
     while (this.workers.length < want) this.workers.push(new Worker(new URL('./worker-entry.mjs', import.meta.url)));
@@ -57,7 +64,7 @@ export class JobPool {
       const feed = (w: Worker) => {
         if (failed || next >= jobs.length) return;
         const seq = next++;
-        w.postMessage({ seq, job: jobs[seq] });
+        w.postMessage({ seq, task: jobs[seq] });
       };
       for (const w of active) {
         w.on('message', (m: Reply) => {
@@ -65,8 +72,12 @@ export class JobPool {
             fail(m.input ? new KilnInputError(m.message, m.where) : Object.assign(new Error(m.message), { stack: m.stack }));
             return;
           }
-          results[m.seq] = m.result;
-          onDone?.(m.result);
+          try {
+            onDone(m.result, m.seq);
+          } catch (e) {
+            fail(e as Error);
+            return;
+          }
           if (++done === jobs.length) {
             cleanup();
             resolve();
@@ -76,7 +87,6 @@ export class JobPool {
         feed(w);
       }
     });
-    return results;
   }
 
   async close(): Promise<void> {

@@ -36,7 +36,10 @@ export interface DetectorProducts {
 function filterName(job: DetectorJob): string {
   const names = job.detector.stack.filters.map((f) => f.name);
   const s = names.length ? names.join('+') : NO_FILTER;
-  return s.length > MAX_FITS_STRING ? s.slice(0, MAX_FITS_STRING) : s;
+  // A quote takes two characters on the card (FITS 4.0 §4.2.1.1), so count it twice.
+  let cut = s;
+  while (cut.replace(/'/g, "''").length > MAX_FITS_STRING) cut = cut.slice(0, -1);
+  return cut;
 }
 
 /**

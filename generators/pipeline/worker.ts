@@ -1,16 +1,17 @@
 /** Worker-thread side of the job pool: runs detector jobs sent by the main thread. */
 import { parentPort } from 'node:worker_threads';
 import { isInputError } from '../errors.ts';
-import type { DetectorJob } from './job.ts';
-import { runDetectorJob } from './run-job.ts';
+import { produceJobOutput } from './job-output.ts';
+import type { JobTask } from './pool.ts';
 
 if (!parentPort) throw new Error('generators/pipeline/worker.ts must run in a worker thread');
 const port = parentPort;
 
-port.on('message', (msg: { seq: number; job: DetectorJob }) => {
+port.on('message', (msg: { seq: number; task: JobTask }) => {
   try {
-    const result = runDetectorJob(msg.job);
-    port.postMessage({ seq: msg.seq, ok: true, result }, result.files.map((f) => f.fits.buffer as ArrayBuffer));
+    const { job, fingerprint, generator } = msg.task;
+    const result = produceJobOutput(job, fingerprint, generator);
+    port.postMessage({ seq: msg.seq, ok: true, result }, result.gz.map((b) => b.buffer as ArrayBuffer));
   } catch (e) {
     const input = isInputError(e);
     port.postMessage({

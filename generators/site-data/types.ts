@@ -5,9 +5,16 @@
  *
  * Layout written by `kiln build --out DIR` (default `.kiln/out`):
  *   DIR/index.json                         ReleaseIndex
+ *   DIR/finder/<instrument>/<det>.json     FinderDetectorDoc (one detector's files across releases, for the finder)
  *   DIR/releases/<id>/manifest.json        ReleaseManifest
  *   DIR/releases/<id>/validation.json      ValidationReport
- *   DIR/releases/<id>/site.json            ReleaseSite
+ *   DIR/releases/<id>/summary.json                       ReleaseSummaryDoc (small: what a page shows on load)
+ *   DIR/releases/<id>/detectors/<det>/model.json         DetectorModelDoc  (RMF side: curves, line fits, parameters, products)
+ *   DIR/releases/<id>/detectors/<det>/profiles.json      DetectorProfilesDoc (line profiles, fetched when plotted)
+ *   DIR/releases/<id>/detectors/<det>/matrix.json        DetectorMatrixDoc (the build's source of the matrix picture)
+ *   DIR/releases/<id>/detectors/<det>/checks.json        DetectorChecksDoc (checks of the detector's products)
+ *   DIR/releases/<id>/detectors/<det>/epochs/<ep>.json   EpochDataDoc      (ARF side: one epoch's area and efficiency)
+ *   DIR/releases/<id>/detectors/<det>/area.json          DetectorAreaDoc   (every epoch's effective area alone, for comparisons)
  *   DIR/releases/<id>/files/<file>         the products (FITS, gzip-compressed: *.rmf.gz, *.arf.gz)
  */
 
@@ -207,6 +214,10 @@ export interface DetectorSite {
   matrix: MatrixImage;
 }
 
+/**
+ * The whole release in one object: the archive's format (`content/archive/<id>/site.json`, kept
+ * as published) and the in-memory join of the split documents below. Pages never fetch it whole.
+ */
 export interface ReleaseSite {
   schema: 'kiln/release-site/1';
   id: string;
@@ -222,4 +233,100 @@ export interface ReleaseSite {
   parameters: ParameterRow[];
   detectors: DetectorSite[];
   products: ProductSummary[];
+}
+
+/** One detector of a release as listed by the summary; its data sit in detectors/<id>/. */
+export interface DetectorEntry {
+  id: string;
+  name: string;
+  kind: string;
+  epochs: { id: string; date: string; validFrom: string; validTo: string | null }[];
+  products: number;
+  checks: { pass: number; fail: number; warn: number; review: number };
+}
+
+/** What a release page needs on load, independent of the number of products per detector. */
+export interface ReleaseSummaryDoc {
+  schema: 'kiln/release-summary/1';
+  id: string;
+  instrument: string;
+  title: string;
+  date: string;
+  status: ReleaseStatus;
+  validFrom: string;
+  validTo: string | null;
+  supersedes: string | null;
+  notesMarkdown: string;
+  /** Parameters not tied to a detector (usually none). */
+  parameters: ParameterRow[];
+  /** Release-level checks (product null, or a product no detector lists). */
+  checks: Check[];
+  counts: { pass: number; fail: number; warn: number; review: number };
+  products: number;
+  detectors: DetectorEntry[];
+}
+
+/** The RMF side of one detector: model curves, line fits, parameters and the detector's products. */
+export interface DetectorModelDoc {
+  schema: 'kiln/detector-model/1';
+  release: string;
+  id: string;
+  name: string;
+  kind: string;
+  /** The epochs whose documents are in epochs/ (same list as the summary's entry). */
+  epochs: DetectorEntry['epochs'];
+  resolution: DetectorSite['resolution'];
+  lineFits: LineFitSite[];
+  fitQuality: DetectorSite['fitQuality'];
+  parameters: ParameterRow[];
+  products: ProductSummary[];
+}
+
+export interface DetectorProfilesDoc {
+  schema: 'kiln/detector-profiles/1';
+  release: string;
+  detector: string;
+  profiles: ProfileSet;
+}
+
+export interface DetectorMatrixDoc {
+  schema: 'kiln/detector-matrix/1';
+  release: string;
+  detector: string;
+  matrix: MatrixImage;
+}
+
+export interface DetectorChecksDoc {
+  schema: 'kiln/detector-checks/1';
+  release: string;
+  detector: string;
+  checks: Check[];
+}
+
+/** The ARF side: one epoch of one detector. */
+export interface EpochDataDoc {
+  schema: 'kiln/epoch-data/1';
+  release: string;
+  detector: string;
+  epoch: EpochSite;
+}
+
+/** Every epoch's effective area of one detector, without the components: what a comparison reads. */
+export interface DetectorAreaDoc {
+  schema: 'kiln/detector-area/1';
+  release: string;
+  detector: string;
+  /** The energy grid shared by the epochs (the first epoch's). */
+  energyKeV: number[];
+  /** energyKeV only where an epoch's grid differs from the shared one. */
+  epochs: { id: string; energyKeV?: number[]; effectiveAreaCm2: number[] }[];
+}
+
+/** The finder's data for one detector: every release that has files for it, with only those files. */
+export interface FinderDetectorDoc {
+  schema: 'kiln/finder-detector/1';
+  instrument: string;
+  detector: string;
+  /** Newest first, as in the index; products filtered to this detector. */
+  releases: ReleaseSummary[];
 }

@@ -1,16 +1,25 @@
 /**
  * Build-time access to the build's output (the only source of numbers for the pages).
  * DIR = KILN_OUT or .kiln/out, relative to the project root.
+ *
+ * Small documents (index, summaries, manifests) are kept once read; a detector's documents are
+ * read when its page or section is rendered and only the most recent few are kept, so the site
+ * build's memory does not grow with the number of detectors.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, join } from 'node:path';
-import type { ReleaseIndex, ReleaseManifest, ReleaseSite, ValidationReport } from '../../generators/site-data/types.ts';
+import type { Check, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
+import { SUMMARY_FILE } from '../../generators/site-data/paths.ts';
+import { joinDetector, joinRelease, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
 
 export const outDir = (): string => resolve(process.env.KILN_OUT ?? '.kiln/out');
 
 const cache = new Map<string, unknown>();
+/** Detectors kept joined at once: the pages of one release's detectors are rendered in order. */
+const DETECTOR_CACHE = 8;
+const detectors = new Map<string, JoinedDetector>();
 
-function readJson<T>(path: string, schema: string): T {
+function readJson<T>(path: string, schema: string | null, keep = true): T {
   const hit = cache.get(path);
   if (hit) return hit as T;
   if (!existsSync(path))
@@ -21,12 +30,41 @@ function readJson<T>(path: string, schema: string): T {
   } catch (e) {
     throw new Error(`site: ${path} is not valid JSON (${(e as Error).message})`);
   }
-  if (v.schema !== schema) throw new Error(`site: ${path}: schema is ${JSON.stringify(v.schema)}, expected "${schema}"`);
-  cache.set(path, v);
+  if (schema !== null && v.schema !== schema) throw new Error(`site: ${path}: schema is ${JSON.stringify(v.schema)}, expected "${schema}"`);
+  if (keep) cache.set(path, v);
   return v as T;
 }
 
+const relDir = (id: string) => join(outDir(), 'releases', id);
+const reader = (id: string) => <T,>(p: string): T => readJson<T>(join(relDir(id), p), null, false);
+
 export const loadIndex = (): ReleaseIndex => readJson(join(outDir(), 'index.json'), 'kiln/release-index/1');
-export const loadSite = (id: string): ReleaseSite => readJson(join(outDir(), 'releases', id, 'site.json'), 'kiln/release-site/1');
-export const loadManifest = (id: string): ReleaseManifest => readJson(join(outDir(), 'releases', id, 'manifest.json'), 'kiln/release-manifest/1');
-export const loadValidation = (id: string): ValidationReport => readJson(join(outDir(), 'releases', id, 'validation.json'), 'kiln/validation/1');
+export const loadSummary = (id: string): ReleaseSummaryDoc => readJson(join(relDir(id), SUMMARY_FILE), 'kiln/release-summary/1');
+export const loadManifest = (id: string): ReleaseManifest => readJson(join(relDir(id), 'manifest.json'), 'kiln/release-manifest/1');
+/** The full report: for whole-release views only (it grows with the number of products). */
+export const loadValidation = (id: string): ValidationReport => readJson(join(relDir(id), 'validation.json'), 'kiln/validation/1');
+
+/** One detector of a release, joined from its documents (model, epochs, profiles, matrix, checks). */
+export function loadDetector(id: string, detector: string): JoinedDetector {
+  const key = `${id}\u0000${detector}`;
+  const hit = detectors.get(key);
+  if (hit) return hit;
+  const joined = joinDetector(detector, reader(id));
+  detectors.set(key, joined);
+  if (detectors.size > DETECTOR_CACHE) detectors.delete(detectors.keys().next().value!);
+  return joined;
+}
+
+/** A whole release as one object (pages of few detectors, tests). Not kept. */
+export function loadSite(id: string, parts: JoinParts = {}): ReleaseSite {
+  return joinRelease(loadSummary(id), reader(id), { ...parts, checks: false }).site;
+}
+
+/** Every check of a release from its split documents: release-level first, then per detector. */
+export function loadChecks(id: string): Check[] {
+  const s = loadSummary(id);
+  return [...s.checks, ...s.detectors.flatMap((d) => loadDetector(id, d.id).checks)];
+}
+
+/** One split document of a release by its release-relative path (not kept). */
+export const loadDoc = <T,>(id: string, path: string): T => reader(id)<T>(path);

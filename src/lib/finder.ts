@@ -18,7 +18,8 @@ const day = (s: string) => s.slice(0, 10);
 export const coversDate = (p: { validFrom: string; validTo: string | null }, dateIso: string): boolean =>
   day(p.validFrom) <= day(dateIso) && (p.validTo === null || day(dateIso) < day(p.validTo));
 
-export function findFiles(index: ReleaseIndex, detector: string, dateIso: string): FinderHit[] {
+/** `index`: the release index, or a detector's finder document (same releases, fewer products). */
+export function findFiles(index: Pick<ReleaseIndex, 'releases'>, detector: string, dateIso: string): FinderHit[] {
   const hits: FinderHit[] = [];
   for (const r of index.releases) {
     if (r.status === 'draft') continue;

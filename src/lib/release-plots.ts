@@ -2,7 +2,7 @@
  * The release page's plots, built from one detector's published arrays (no physics recomputed;
  * measured centroid offsets are the published centroid minus the line energy, in eV). Pure and
  * browser-safe: the build renders the static SVG from these specs and the page's script builds
- * the same specs from /data/releases/<id>/site.json when the reader interacts, so the page does not
+ * the same specs from the detector's documents (/data/releases/<id>/detectors/<det>/) when the reader interacts, so the page does not
  * carry the arrays twice. Series keep every published point; rendering thins them per view.
  */
 import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
@@ -215,10 +215,16 @@ export function profilePlot(det: DetectorSite): PlotSpec {
   };
 }
 
-/** Every plot of a release page by figure id, as the build renders them (the client rebuilds these). */
+/** Every plot of one detector's section by figure id, as the build renders them (the client rebuilds these). */
+export function detectorPlots(d: DetectorSite, releaseId: string): Map<string, PlotSpec> {
+  const out = new Map<string, PlotSpec>();
+  for (const spec of [effectiveAreaPlot(d, releaseId), componentsPlot(d), fwhmPlot(d), fwhmResidualPlot(d), centroidPlot(d), centroidResidualPlot(d), profilePlot(d)]) out.set(spec.id, spec);
+  return out;
+}
+
+/** Every plot of a release's detectors by figure id. */
 export function releasePlots(site: ReleaseSite): Map<string, PlotSpec> {
   const out = new Map<string, PlotSpec>();
-  for (const d of site.detectors)
-    for (const spec of [effectiveAreaPlot(d, site.id), componentsPlot(d), fwhmPlot(d), fwhmResidualPlot(d), centroidPlot(d), centroidResidualPlot(d), profilePlot(d)]) out.set(spec.id, spec);
+  for (const d of site.detectors) for (const [k, v] of detectorPlots(d, site.id)) out.set(k, v);
   return out;
 }

@@ -1,5 +1,7 @@
 /** Finder page: filters the embedded release index by detector and observation date. */
-import type { ReleaseIndex } from '../../generators/site-data/types.ts';
+import type { FinderDetectorDoc } from '../../generators/site-data/types.ts';
+import { finderPath } from '../../generators/site-data/paths.ts';
+import { fetchJson } from '../lib/site-fetch.ts';
 import { findFiles } from '../lib/finder.ts';
 import { esc } from '../lib/plot/format.ts';
 import { breakableNameHtml, fileName, formatBytes, shaCellHtml } from '../lib/downloads.ts';
@@ -13,14 +15,13 @@ export function initFinder(): void {
   const det = document.getElementById('finder-detector') as HTMLSelectElement | null;
   const date = document.getElementById('finder-date') as HTMLInputElement | null;
   const out = document.getElementById('finder-result');
-  const json = document.getElementById('finder-index')?.textContent;
-  if (!form || !det || !date || !out || !json) return;
-  const index = JSON.parse(json) as ReleaseIndex;
+  if (!form || !det || !date || !out) return;
   const q = new URLSearchParams(location.search);
   if (q.get('detector')) det.value = q.get('detector')!;
   if (q.get('date') && ISO_DATE.test(q.get('date')!)) date.value = q.get('date')!;
 
-  const run = () => {
+  // Only the chosen detector's files are fetched (one small document), whatever the site's size.
+  const run = async () => {
     if (!ISO_DATE.test(date.value)) {
       out.innerHTML = '<p class="callout">Enter the observation date as YYYY-MM-DD.</p>';
       return;
@@ -29,7 +30,15 @@ export function initFinder(): void {
     u.searchParams.set('detector', det.value);
     u.searchParams.set('date', date.value);
     history.replaceState(null, '', u);
-    const hits = findFiles(index, det.value, date.value);
+    const instrument = det.selectedOptions[0]?.dataset.instrument ?? '';
+    let doc: FinderDetectorDoc;
+    try {
+      doc = await fetchJson<FinderDetectorDoc>(`/data/${finderPath(encodeURIComponent(instrument), encodeURIComponent(det.value))}`);
+    } catch (e) {
+      out.innerHTML = `<p class="callout">Could not load the file list of ${esc(det.value)}: ${esc((e as Error).message)}</p>`;
+      return;
+    }
+    const hits = findFiles(doc, det.value, date.value);
     if (!hits.length) {
       out.innerHTML = `<p class="callout">No file of any release covers ${esc(det.value)} on ${esc(date.value)}.</p>`;
       return;
@@ -53,9 +62,9 @@ export function initFinder(): void {
   };
   form.addEventListener('submit', (e) => {
     e.preventDefault();
-    run();
+    void run();
   });
-  det.addEventListener('change', run);
-  date.addEventListener('change', run);
-  if (q.get('date')) run();
+  det.addEventListener('change', () => void run());
+  date.addEventListener('change', () => void run());
+  if (q.get('date')) void run();
 }

@@ -1,5 +1,6 @@
 /** Inspect page: local file → project reader + checks (+ fitsjs) → tables and plots. No uploads. */
-import type { Check, ReleaseSite } from '../../generators/site-data/types.ts';
+import type { Check, DetectorSite } from '../../generators/site-data/types.ts';
+import { fetchDetector } from '../lib/site-fetch.ts';
 import { analyseBytes, binOf, maybeGunzip, rmfRow, secondOpinion, type Analysis } from '../lib/inspect/index.ts';
 import { onGrid, ratio } from '../lib/compare/interp.ts';
 import { decimate, esc, figureHtml, fmt3, fmt4, lineSeries, MAX_LINE_POINTS, roundSig, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
@@ -46,10 +47,13 @@ function checksTable(checks: Check[]): string {
   );
 }
 
-async function release(id: string): Promise<ReleaseSite> {
-  const r = await fetch(`/data/releases/${encodeURIComponent(id)}/site.json`);
-  if (!r.ok) throw new Error(`release ${id}: HTTP ${r.status}`);
-  return r.json();
+/** The chosen detector of a release: its model, the one epoch wanted and its profiles. */
+async function releaseDetector(id: string, detector: string, epoch: string): Promise<DetectorSite | undefined> {
+  try {
+    return (await fetchDetector(id, detector, { checks: false, epochs: epoch === 'all' ? [] : [epoch] })).site;
+  } catch {
+    return undefined;
+  }
 }
 
 /** One line about an RMF's grids and row sums, read from the file. */
@@ -68,10 +72,9 @@ function rmfSummary(a: Analysis): string {
 }
 
 async function plots(a: Analysis, against: string): Promise<string> {
-  const [relId, productId] = against ? against.split('|') : ['', ''];
-  const site = relId ? await release(relId) : null;
-  const prod = site?.products.find((p) => p.id === productId);
-  const det = prod ? site!.detectors.find((d) => d.id === prod.detector) : undefined;
+  const [relId, , detId, epochId] = against ? against.split('|') : ['', '', '', ''];
+  const det = relId && detId ? await releaseDetector(relId, detId, epochId ?? 'all') : undefined;
+  const prod = det ? { epoch: epochId } : undefined;
   const out: string[] = [];
   if (a.arf) {
     const d = a.arf;

@@ -3,9 +3,10 @@
  * first interaction, profile energy pickers, the epoch choice of the efficiency plot, the
  * validation filter and copy buttons.
  */
-import type { ReleaseSite } from '../../generators/site-data/types.ts';
 import type { RmfData } from '../../generators/response/types.ts';
-import { componentsPlot, PICKED_PROFILE_DASH, profileColour, releasePlots } from '../lib/release-plots.ts';
+import type { JoinedDetector } from '../../generators/site-data/split.ts';
+import { componentsPlot, detectorPlots, PICKED_PROFILE_DASH, profileColour } from '../lib/release-plots.ts';
+import { fetchDetector, parseDetectorSrc } from '../lib/site-fetch.ts';
 import { esc, fmt4, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
 import { formatBytes } from '../lib/downloads.ts';
 import { initPlots, loadNow, replacePlot, updatePlot } from './plots.ts';
@@ -16,18 +17,18 @@ const rowReader = () => import('../lib/published-row/index.ts');
 /** Published RMFs already read, by URL (each is fetched at most once per page). */
 const rmfs = new Map<string, Promise<RmfData>>();
 
-const docs = new Map<string, Promise<{ site: ReleaseSite; specs: Map<string, PlotSpec> }>>();
+const docs = new Map<string, Promise<{ releaseId: string; det: JoinedDetector; specs: Map<string, PlotSpec> }>>();
 
+/** A detector's documents, fetched when one of its plots is first touched (its section is the unit). */
 function siteDoc(src: string) {
   let p = docs.get(src);
   if (!p) {
-    p = fetch(src)
-      .then((r) => {
-        if (!r.ok) throw new Error(`${src}: HTTP ${r.status}`);
-        return r.json() as Promise<ReleaseSite>;
-      })
-      .then((site) => ({ site, specs: releasePlots(site) }));
+    const at = parseDetectorSrc(src);
+    p = at
+      ? fetchDetector(at.releaseId, at.detector, { checks: false }).then((det) => ({ releaseId: at.releaseId, det, specs: detectorPlots(det.site, at.releaseId) }))
+      : Promise.reject(new Error(`not a detector data address: ${src}`));
     docs.set(src, p);
+    p.catch(() => docs.delete(src));
   }
   return p;
 }
@@ -60,9 +61,8 @@ export function initReleasePlots(root: Document): void {
     sel.addEventListener('change', async () => {
       const st = await loadNow(fig);
       if (!st) return;
-      const { site } = await siteDoc(fig.dataset.specSrc!);
-      const det = site.detectors.find((d) => d.id === box.dataset.det);
-      if (det) replacePlot(fig, componentsPlot(det, sel.value));
+      const { det } = await siteDoc(fig.dataset.specSrc!);
+      replacePlot(fig, componentsPlot(det.site, sel.value));
     });
   });
 }
@@ -87,11 +87,11 @@ function initProfileAdd(form: HTMLFormElement, fig: HTMLElement, checks: HTMLEle
     button.disabled = true;
     form.setAttribute('aria-busy', 'true');
     try {
-      const { site } = await siteDoc(fig.dataset.specSrc!);
+      const doc = await siteDoc(fig.dataset.specSrc!);
       const mod = await rowReader();
-      const product = mod.rmfProductOf(site.products, det);
+      const product = mod.rmfProductOf(doc.det.products, det);
       if (!product) return say(`This release publishes no RMF for detector ${esc(det)}.`, true);
-      const url = mod.productUrl(site.id, product);
+      const url = mod.productUrl(doc.releaseId, product);
       const fname = product.path.replace(/^.*\//, '');
       let rmf = rmfs.get(url);
       if (!rmf) {
@@ -119,7 +119,7 @@ function initProfileAdd(form: HTMLFormElement, fig: HTMLElement, checks: HTMLEle
         }
         return say(`The bin ${binText} keV is already drawn.`);
       }
-      const energies = site.detectors.find((d) => d.id === det)?.profiles.energiesKeV ?? [];
+      const energies = doc.det.site.profiles.energiesKeV;
       const label = `E = ${fmt4(energyKeV)} keV (bin ${binText} keV)`;
       const series: SeriesSpec = {
         label,

@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import type { ReleaseIndex, ReleaseSite } from '../../generators/site-data/types.ts';
+import type { DetectorModelDoc, DetectorProfilesDoc, ReleaseIndex, ReleaseSummaryDoc } from '../../generators/site-data/types.ts';
 import type { RmfData } from '../../generators/response/types.ts';
 import { readFits } from '../../generators/fits/index.ts';
 import { readRmf } from '../../generators/ogip/index.ts';
@@ -27,9 +27,10 @@ const HOLD_MS = 400;
 requireDist();
 const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8')) as ReleaseIndex;
 const id = index.releases[0].id;
-const site = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'site.json'), 'utf8')) as ReleaseSite;
-const det = site.detectors[0];
-const product = site.products.find((p) => p.detector === det.id && p.kind === 'rmf')!;
+const summary = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'summary.json'), 'utf8')) as ReleaseSummaryDoc;
+const det = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'detectors', summary.detectors[0].id, 'model.json'), 'utf8')) as DetectorModelDoc;
+const product = det.products.find((p) => p.kind === 'rmf')!;
+const profiles = (JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'detectors', det.id, 'profiles.json'), 'utf8')) as DetectorProfilesDoc).profiles;
 const rmfPath = `/releases/${id}/${product.path}`;
 const rmfName = product.path.split('/').pop()!;
 
@@ -57,7 +58,7 @@ const rmfRequests = () => session.server.requests.filter((r) => r === rmfPath).l
 
 describe('release page: profile at any energy, from the published RMF', () => {
   it('the chosen energy is not one of the published profile energies', () => {
-    expect(det.profiles.energiesKeV).not.toContain(PICK_KEV);
+    expect(profiles.energiesKeV).not.toContain(PICK_KEV);
     expect(product, 'an RMF product for the first detector').toBeDefined();
   });
 

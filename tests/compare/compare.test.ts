@@ -1,6 +1,6 @@
 /**
  * kiln compare: per-energy tables and review verdicts. Expected values come from the resolution
- * law as written in the primer (σ² = (w·N_r)²·n_pix + F·w·E + σ₀², FWHM = 2.3548·σ), computed
+ * resolution law (Fano, Phys. Rev. 72, 26 (1947), read noise in quadrature: σ² = (w·N_r)²·n_pix + F·w·E + σ₀², FWHM = 2.3548·σ), computed
  * here independently of generators/physics.
  */
 import { describe, expect, it } from 'vitest';
@@ -18,7 +18,7 @@ const ENERGY = { minKeV: 0.3, maxKeV: 10, bins: 970, spacing: 'linear' as const 
 /** 2·sqrt(2 ln 2), the FWHM of a unit-σ Gaussian (definition). */
 const FWHM_PER_SIGMA = 2.354820045;
 
-function primerFwhmEv(eKeV: number, w: number, nr: number, fano: number, npix: number): number {
+function lawFwhmEv(eKeV: number, w: number, nr: number, fano: number, npix: number): number {
   return FWHM_PER_SIGMA * Math.sqrt((w * nr) ** 2 * npix + fano * w * eKeV * 1000);
 }
 
@@ -48,12 +48,12 @@ describe('comparison tables', () => {
   // 0.5 keV); 1 eV would be 15 % of the 7 eV difference at 8 keV and let a 10 % width error through.
   const DELTA_FWHM_TOL_EV = 0.3;
 
-  it('ΔFWHM between read noise 3 and 6 e⁻ follows the primer law within 0.3 eV at every probe energy', () => {
+  it('ΔFWHM between read noise 3 and 6 e⁻ follows the resolution law within 0.3 eV at every probe energy', () => {
     const a = rmfWith(3);
     const b = rmfWith(6);
     const rows = rmfDiffTable(a, b, [0.5, 1, 2, 4, 6, 8]);
     for (const r of rows) {
-      const expected = primerFwhmEv(r.energyKeV, 3.65, 6, 0.118, 1) - primerFwhmEv(r.energyKeV, 3.65, 3, 0.118, 1);
+      const expected = lawFwhmEv(r.energyKeV, 3.65, 6, 0.118, 1) - lawFwhmEv(r.energyKeV, 3.65, 3, 0.118, 1);
       expect(r.fwhmDiffEv).not.toBeNull();
       expect(Math.abs(r.fwhmDiffEv! - expected), `${r.energyKeV} keV`).toBeLessThan(DELTA_FWHM_TOL_EV);
       expect(Math.abs(r.centroidDiffEv!)).toBeLessThan(0.3);

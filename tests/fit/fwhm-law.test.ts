@@ -18,13 +18,50 @@ const TRUE = [4, 0.118, 0]; // readNoiseE, fano, sigma0Ev (invented demo detecto
 const ENERGIES = [0.277, 0.525, 0.93, 1.487, 2.3, 3.3, 4.5, 5.899, 6.4, 8.048];
 const ERR_EV = 1.5;
 
-function synthetic(noise: () => number, scale = 1): LineFit[] {
-  return ENERGIES.map((e, i) => lineFit(`L${i}`, e, { fwhmEv: fwhmModelEv(TRUE, e, W, PPE) + scale * ERR_EV * noise(), fwhmErrEv: ERR_EV }));
+/**
+ * The resolution law written out, not taken from the code under test: σ² = (w·N_r)²·n_pix(E) +
+ * F·w·E + σ₀², n_pix = a + b·E (Fano, Phys. Rev. 72, 26 (1947) for F·w·E; read noise per pixel in
+ * quadrature: common practice, no source), FWHM = 2√(2 ln 2)·σ (definition of the FWHM of a Gaussian).
+ */
+function lawFwhmEv([readNoiseE, fano, sigma0Ev]: readonly number[], eKeV: number): number {
+  const npix = PPE.a + PPE.bPerKeV * eKeV;
+  return 2 * Math.sqrt(2 * Math.LN2) * Math.sqrt((W * readNoiseE) ** 2 * npix + fano * W * eKeV * 1000 + sigma0Ev ** 2);
 }
+
+function synthetic(noise: () => number, scale = 1, truth: readonly number[] = TRUE): LineFit[] {
+  return ENERGIES.map((e, i) => lineFit(`L${i}`, e, { fwhmEv: lawFwhmEv(truth, e) + scale * ERR_EV * noise(), fwhmErrEv: ERR_EV }));
+}
+
+describe('FWHM law against the formula (non-zero read noise)', () => {
+  it('fwhmModelEv equals the law written out at every energy, with read noise, Fano and σ₀ all non-zero', () => {
+    for (const theta of [[4, 0.118, 0], [7.5, 0.12, 12], [2, 0.115, 30]])
+      for (const e of ENERGIES) expect(Math.abs(fwhmModelEv(theta, e, W, PPE) / lawFwhmEv(theta, e) - 1), `${theta} at ${e} keV`).toBeLessThan(1e-12);
+  });
+
+  it('the fit of noiseless lines equals the closed-form solution: FWHM²/k² is linear in E, intercept (w·N_r)²·a, slope (w·N_r)²·b + F·w', () => {
+    // With σ₀ = 0 the law squared is a straight line in E: two energies fix N_r and F exactly.
+    const k2 = 8 * Math.LN2;
+    const [e1, e2] = [ENERGIES[1], ENERGIES[8]];
+    const truth = [6.2, 0.121, 0];
+    const lines = synthetic(() => 0, 0, truth);
+    const y1 = lines[1].fwhmEv ** 2 / k2;
+    const y2 = lines[8].fwhmEv ** 2 / k2;
+    const slope = (y2 - y1) / ((e2 - e1) * 1000); // per eV
+    const intercept = y1 - slope * e1 * 1000;
+    const readNoise = Math.sqrt(intercept / (W * W * PPE.a));
+    const fano = (slope - (W * readNoise) ** 2 * (PPE.bPerKeV / 1000)) / W;
+    expect(readNoise).toBeCloseTo(6.2, 9);
+    expect(fano).toBeCloseTo(0.121, 9);
+    const r = fitFwhmLaw(lines, { pairEnergyEv: W, pixelsPerEvent: PPE, initial: { readNoiseE: 3, fano: 0.1 } });
+    expect(Math.abs(r.params.readNoiseE - readNoise)).toBeLessThan(1e-6);
+    expect(Math.abs(r.params.fano - fano)).toBeLessThan(1e-8);
+  });
+});
 
 describe('FWHM law fit (weighted least squares, ml-levenberg-marquardt)', () => {
   it('recovers the parameters of noiseless data exactly, with χ² ≈ 0', () => {
     const r = fitFwhmLaw(synthetic(() => 0), { pairEnergyEv: W, pixelsPerEvent: PPE, initial: { readNoiseE: 2, fano: 0.13 } });
+    // Noiseless lines drawn from the written-out law (read noise 4 e⁻): the fit returns that truth.
     expect(r.params.readNoiseE).toBeCloseTo(4, 6);
     expect(r.params.fano).toBeCloseTo(0.118, 8);
     expect(r.chi2).toBeLessThan(1e-10);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { KilnInputError } from '../../generators/errors.ts';
 import { contaminationThicknessUm, contaminationTransmission, isoDateToDays, type ContaminationSpec } from '../../generators/physics/index.ts';
 import { runXraylibChecks } from '../support/python.ts';
-import { relErr, xraylibMap } from './xraylib-ref.ts';
+import { xraylibMap } from './xraylib-ref.ts';
 
 // Invented demo law parameters.
 const LINEAR: ContaminationSpec = {
@@ -33,7 +33,9 @@ describe.runIf(runXraylibChecks)('contamination laws (types.ts) with day counts 
     const E = [0.25, 0.3, 0.5, 1];
     const ref = xraylibMap<number>(`math.exp(-xrl.CS_Total_CP('C8H8', x) * 1.0 * ${t} * 1e-4)`, E);
     const tr = contaminationTransmission(EXPONENTIAL, Float64Array.from(E), '2027-01-01');
-    E.forEach((e, i) => expect(relErr(tr[i], ref[i]), `${e} keV`).toBeLessThan(0.005));
+    // |ln ratio| ≤ δ·τ: an error δ in μ/ρ scales with the optical depth τ of the film (δ = 1.5e-3, as
+    // tests/physics/efficiency.test.ts), so a thin early film is held as tightly as a thick late one.
+    E.forEach((e, i) => expect(Math.abs(Math.log(tr[i] / ref[i])), `${e} keV`).toBeLessThanOrEqual(1.5e-3 * -Math.log(ref[i]) + 1e-12));
   });
 });
 

@@ -4,7 +4,7 @@ import { materialMassAttenuationCm2g, sensorAbsorption, type SensorSpec } from '
 import { runPythonJson, runXraylibChecks } from '../support/python.ts';
 import { relErr, xraylibMap } from './xraylib-ref.ts';
 
-const SI = { formula: 'Si', densityGcm3: 2.329 }; // PRIMER §3
+const SI = { formula: 'Si', densityGcm3: 2.329 }; // CRC Handbook of Chemistry and Physics, from memory
 const PLAIN: SensorSpec = { material: SI, depletionUm: 45, partial: null };
 // Invented demo values.
 const WITH_PARTIAL: SensorSpec = { material: SI, depletionUm: 45, partial: { thicknessUm: 0.4, collectionAtSurface: 0.3 } };

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { KilnInputError } from '../../generators/errors.ts';
 import { efficiencyBreakdown, efficiencyTable } from '../../generators/physics/index.ts';
 import { runPythonJson, runXraylibChecks } from '../support/python.ts';
-import { relErr } from './xraylib-ref.ts';
+
 import { DEMO_STACK } from './stack-fixture.ts';
 
 const ENERGIES = [0.2, 0.3, 0.5, 0.8, 1.0, 1.5, 2.0, 3.0, 5.9, 8.0, 12.0];
@@ -34,16 +34,23 @@ describe.runIf(runXraylibChecks)('stack efficiency against an independent xrayli
     const b = efficiencyBreakdown(DEMO_STACK, Float64Array.from(ENERGIES), DATE);
     expect(b.contaminationUm).toBeCloseTo(ref.tc, 12);
     expect(b.components.map((c) => c.kind)).toEqual(['filter', 'filter', 'contamination', 'surface', 'surface', 'sensor']);
+    // A relative error δ in μ/ρ moves ln T of a layer by δ·τ (τ its optical depth), so the allowance
+    // scales with τ and a thin layer is held as tightly as its absorption: no flat floor. Measured
+    // δ ≤ 8.3e-4 (log-log table vs xraylib at these energies, compounds near the C/N/O edges);
+    // allowed LAYER_DELTA. The sensor's absorbed share is bounded by δ of μ_photo/μ_total and of
+    // 1 − e^(−μd): measured ≤ 1.1e-4, allowed SENSOR_DELTA.
+    const LAYER_DELTA = 1.5e-3;
+    const SENSOR_DELTA = 3e-4;
+    const allowance = (k: number, i: number) => (b.components[k].kind === 'sensor' ? SENSOR_DELTA : LAYER_DELTA * -Math.log(ref.rows[k][i]) + 1e-12);
     b.components.forEach((c, k) =>
       ENERGIES.forEach((e, i) => {
-        const tau = Math.max(-Math.log(ref.rows[k][i]), 0.01);
-        expect(relErr(c.values[i], ref.rows[k][i]), `${c.name} ${e} keV`).toBeLessThan(0.005 * tau + 0.005);
+        expect(Math.abs(Math.log(c.values[i] / ref.rows[k][i])), `${c.name} ${e} keV`).toBeLessThanOrEqual(allowance(k, i));
       }),
     );
     ENERGIES.forEach((e, i) => {
       const prod = ref.rows.reduce((s, r) => s * r[i], 1);
-      const tauSum = ref.rows.reduce((s, r) => s + Math.max(-Math.log(r[i]), 0.01), 0);
-      expect(relErr(b.detectorQE[i], prod), `QE ${e} keV`).toBeLessThan(0.005 * tauSum + 0.005);
+      const total = b.components.reduce((s, _, k) => s + allowance(k, i), 0);
+      expect(Math.abs(Math.log(b.detectorQE[i] / prod)), `QE ${e} keV`).toBeLessThanOrEqual(total);
     });
   });
 });

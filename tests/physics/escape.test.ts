@@ -23,13 +23,13 @@ describe('Si Kα escape fraction, thick slab', () => {
     }
   });
 
-  it.runIf(runXraylibChecks)('xraylib: Si Kα at 1.740 keV and K edge at 1.839 keV (PRIMER §1; tol 1 eV)', () => {
+  it.runIf(runXraylibChecks)('xraylib: Si Kα at 1.740 keV and K edge at 1.839 keV (Bearden, Rev. Mod. Phys. 39, 78 (1967) and Bearden & Burr, ibid. 125, from memory; tol 1 eV)', () => {
     const si = siliconFromXraylib([]);
     expect(Math.abs(si.kAlphaKeV - 1.74)).toBeLessThan(0.001);
     expect(Math.abs(si.kEdgeKeV - 1.839)).toBeLessThan(0.001);
   });
 
-  it.runIf(runXraylibChecks)('xraylib data: zero below the edge, ~1–2 % just above, falling with energy (PRIMER §3, memory)', () => {
+  it.runIf(runXraylibChecks)('xraylib data: zero below the edge, ~1–2 % just above, falling with energy (thick-slab escape, Reed & Ware, J. Phys. E 5, 582 (1972), from memory)', () => {
     const energies = [1.0, 1.5, 1.83, 1.845, 1.9, 2, 2.5, 3, 4, 5, 6, 8, 10, 12];
     const si = siliconFromXraylib(energies);
     const inputs = exactEscapeInputs(si);

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { KilnInputError } from '../../generators/errors.ts';
 import { layerTransmission, materialTransmission, type LayerSpec } from '../../generators/physics/index.ts';
 import { runXraylibChecks } from '../support/python.ts';
-import { relErr, xraylibMap } from './xraylib-ref.ts';
+import { xraylibMap } from './xraylib-ref.ts';
 
 const ENERGIES = [0.2, 0.35, 0.52, 0.7, 1.0, 1.49, 2.0, 4.5, 6.4, 10];
 const LAYERS: LayerSpec[] = [
@@ -18,9 +18,10 @@ describe.runIf(runXraylibChecks)('layer transmission against exp(−μρt) from 
     const ref = xraylibMap<(string | number)[]>('math.exp(-xrl.CS_Total_CP(x[0], x[1]) * x[2] * x[3])', cases);
     const t = layerTransmission(layer, Float64Array.from(ENERGIES));
     ENERGIES.forEach((e, i) => {
-      // 0.5 % on μ becomes 0.5 % · μρt on T (relative): bound by the optical depth.
+      // δ on μ becomes δ·μρt on ln T: bound by the optical depth, no floor (δ = 1.5e-3, measured ≤ 8.3e-4;
+      // see tests/physics/efficiency.test.ts).
       const tau = -Math.log(ref[i]);
-      expect(relErr(t[i], ref[i]), `${layer.name} at ${e} keV`).toBeLessThan(0.005 * Math.max(tau, 0.01) + 1e-9);
+      expect(Math.abs(Math.log(t[i] / ref[i])), `${layer.name} at ${e} keV`).toBeLessThanOrEqual(1.5e-3 * tau + 1e-12);
     });
   });
 });

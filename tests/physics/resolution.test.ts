@@ -11,34 +11,34 @@ import {
 } from '../../generators/physics/resolution.ts';
 import { KilnInputError } from '../../generators/errors.ts';
 
-const W = 3.65; // eV per pair in silicon (PRIMER §1, memory)
-const MN_KA_KEV = 5.899; // Mn Kα (PRIMER §3)
+const W = 3.65; // eV per pair in silicon at room temperature (≈3.65–3.68: Scholze, Rabus & Ulm, J. Appl. Phys. 84, 2926 (1998), from memory)
+const MN_KA_KEV = 5.899; // Mn Kα1 (Bearden, Rev. Mod. Phys. 39, 78 (1967), from memory)
 
 function law(readNoiseE: number, fano: number, npix: number, sigma0Ev = 0): ResolutionParams {
   return { pairEnergyEv: W, fano, readNoiseE, sigma0Ev, pixelsPerEvent: { a: npix, bPerKeV: 0 } };
 }
 
 describe('resolution law', () => {
-  it('FWHM/σ is 2√(2 ln 2) ≈ 2.3548 (PRIMER §3)', () => {
-    expect(FWHM_PER_SIGMA).toBeCloseTo(2.3548, 4); // the primer's rounded value
+  it('FWHM/σ is 2√(2 ln 2) ≈ 2.3548 (definition of the FWHM of a Gaussian)', () => {
+    expect(FWHM_PER_SIGMA).toBeCloseTo(2.3548, 4); // 2√(2 ln 2) = 2.35482…
     // the definition itself (mathematics, no source): half maximum of exp(−x²/2) at x = √(2 ln 2)
     expect(Math.abs(FWHM_PER_SIGMA - Math.sqrt(8 * Math.log(2)))).toBeLessThan(1e-15);
     expect(Math.exp(-0.5 * (FWHM_PER_SIGMA / 2) ** 2)).toBeCloseTo(0.5, 15);
   });
 
-  it('Fano-limited FWHM at Mn Kα for w = 3.65 eV, F = 0.115 is ≈117 eV (PRIMER §3; tol 1 eV)', () => {
+  it('Fano-limited FWHM at Mn Kα for w = 3.65 eV, F = 0.115 is ≈117 eV (2.3548·√(F·w·E), Fano, Phys. Rev. 72, 26 (1947); tol 1 eV)', () => {
     expect(Math.abs(fanoLimitFwhmEv(MN_KA_KEV, W, 0.115) - 117)).toBeLessThan(1);
     // with no read noise the law reduces to the Fano limit
     expect(fwhmEv(MN_KA_KEV, law(0, 0.115, 1))).toBeCloseTo(fanoLimitFwhmEv(MN_KA_KEV, W, 0.115), 10);
   });
 
-  it('follows the primer law σ² = (w·N_r)²·n_pix + F·w·E (+ constant σ₀²), FWHM = 2.3548·σ (PRIMER §3)', () => {
-    // n_pix constant here (the primer's law has no energy dependence of n_pix); 2.354820045 = 2√(2 ln 2).
-    const primer = (eKeV: number, nr: number, f: number, npix: number, s0: number) =>
+  it('follows the law σ² = (w·N_r)²·n_pix + F·w·E (+ constant σ₀²), FWHM = 2.3548·σ (Fano 1947 term, read noise per pixel in quadrature: common practice)', () => {
+    // n_pix constant here (the textbook law has no energy dependence of n_pix); 2.354820045 = 2√(2 ln 2).
+    const written = (eKeV: number, nr: number, f: number, npix: number, s0: number) =>
       2.354820045 * Math.sqrt((W * nr) ** 2 * npix + f * W * eKeV * 1000 + s0 * s0);
     // 1e-9 relative: the 10-digit constant above is the only rounding.
     for (const [e, nr, f, npix, s0] of [[0.277, 3, 0.115, 4, 0], [1.487, 5.5, 0.12, 2, 7], [5.899, 2, 0.118, 3, 15], [12, 10, 0.1, 1, 0]])
-      expect(Math.abs(fwhmEv(e, law(nr, f, npix, s0)) / primer(e, nr, f, npix, s0) - 1), `${e} keV`).toBeLessThan(1e-9);
+      expect(Math.abs(fwhmEv(e, law(nr, f, npix, s0)) / written(e, nr, f, npix, s0) - 1), `${e} keV`).toBeLessThan(1e-9);
   });
 
   it('a 6 keV photon frees about 1,600 electrons in silicon (common practice, no source; 1,550–1,700)', () => {

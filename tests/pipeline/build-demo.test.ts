@@ -44,7 +44,15 @@ describe('kiln build of the demo content', () => {
     const index = JSON.parse(tree.get('index.json')!.toString('utf8'));
     expect(index.releases.map((r: { id: string }) => r.id).sort()).toEqual(DEMO_RELEASES);
     for (const id of DEMO_RELEASES) {
-      for (const f of ['manifest.json', 'validation.json', 'site.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
+      for (const f of ['manifest.json', 'validation.json', 'summary.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
+      // Site data split per product: each detector's documents and one per epoch (generators/site-data/paths.ts).
+      const summary = JSON.parse(tree.get(`releases/${id}/summary.json`)!.toString('utf8'));
+      expect(summary.detectors.length).toBeGreaterThan(0);
+      for (const d of summary.detectors) {
+        for (const f of ['model', 'profiles', 'matrix', 'checks', 'area']) expect(tree.has(`releases/${id}/detectors/${d.id}/${f}.json`), `${id}/${d.id}/${f}`).toBe(true);
+        for (const e of d.epochs) expect(tree.has(`releases/${id}/detectors/${d.id}/epochs/${e.id}.json`), `${id}/${d.id}/${e.id}`).toBe(true);
+        expect(tree.has(`finder/${index.instruments[0].id}/${d.id}.json`)).toBe(true);
+      }
       const files = readdirSync(join(ws.out, 'releases', id, 'files'));
       expect(files.length).toBeGreaterThan(0);
       for (const f of files) expect(f).toMatch(/\.(rmf|arf|rsp)\.gz$/);
@@ -52,7 +60,8 @@ describe('kiln build of the demo content', () => {
       expect(manifests.get(id)!.files.map((m) => m.path).sort()).toEqual(files.map((f) => `files/${f}`).sort());
     }
     // Nothing outside the documented layout.
-    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|files\/[^/]+\.gz))$/);
+    for (const p of tree.keys())
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {

@@ -2,6 +2,8 @@
  * Helpers for the release-pipeline tests: scratch copies of the demo content, the kiln CLI as a
  * child process (cwd = repository root), and byte-level snapshots of output trees.
  */
+import type { ReleaseSite } from '../../generators/site-data/types.ts';
+import { readReleaseSite } from '../../generators/pipeline/site-files.ts';
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -111,4 +113,9 @@ export function expectOneLine(stderr: string): string {
   if (lines.some((l) => /^\s+at /.test(l))) throw new Error(`stack trace on stderr:\n${stderr}`);
   if (lines.length !== 1) throw new Error(`expected one line on stderr, got ${lines.length}:\n${stderr}`);
   return lines[0];
+}
+
+/** A built release's site data joined from its split documents (summary + per-detector files). */
+export function servedSite(outDir: string, id: string): ReleaseSite {
+  return readReleaseSite(join(outDir, 'releases', id)).site;
 }

@@ -5,7 +5,7 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { expectOneLine, kiln, readTree, sha256, treeDigest, workspace, type Workspace } from './helpers.ts';
+import { expectOneLine, kiln, readTree, servedSite, sha256, treeDigest, workspace, type Workspace } from './helpers.ts';
 
 const CANDIDATE = '2.0.0';
 const YAML = `releases/${CANDIDATE}/release.yaml`;
@@ -25,6 +25,13 @@ interface Seal {
   files: { path: string; bytes: number; sha256: string }[];
 }
 
+/** Canonical JSON (keys sorted, no spaces) written out here, not taken from Kiln's hash.ts. */
+function canonical(v: unknown): string {
+  if (v === null || typeof v !== 'object') return JSON.stringify(v);
+  if (Array.isArray(v)) return `[${v.map(canonical).join(',')}]`;
+  return `{${Object.keys(v as object).sort().map((k) => `${JSON.stringify(k)}:${canonical((v as Record<string, unknown>)[k])}`).join(',')}}`;
+}
+
 describe('kiln publish', () => {
   it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', () => {
     const ws = fresh();
@@ -41,7 +48,11 @@ describe('kiln publish', () => {
 
     // The seal describes every archived file, with sizes and SHA-256 of the bytes (node:crypto).
     const seal = JSON.parse(readFileSync(join(archive, 'seal.json'), 'utf8')) as Seal;
-    expect(seal.schema).toBe('kiln/seal/1');
+    // kiln/seal/2 (generators/pipeline/archive.ts): its own fields are covered by sealSha256,
+    // the SHA-256 of its canonical JSON without that field (checked here with node:crypto).
+    expect(seal.schema).toBe('kiln/seal/2');
+    const { sealSha256, ...fields } = seal as Seal & { sealSha256: string };
+    expect(sha256(Buffer.from(canonical(fields)))).toBe(sealSha256);
     expect(seal.release).toBe(CANDIDATE);
     const arch = readTree(archive);
     arch.delete('seal.json');
@@ -82,10 +93,10 @@ describe('kiln publish', () => {
       if (f.path.startsWith('files/')) expect(preTree.get(`releases/${CANDIDATE}/${f.path}`)!.equals(arch.get(f.path)!), f.path).toBe(true);
     }
     // Served site data: the archived one with the current status.
-    const servedSite = JSON.parse(out.get(`releases/${CANDIDATE}/site.json`)!.toString('utf8'));
+    const served = servedSite(ws.out, CANDIDATE);
     const archivedSite = JSON.parse(arch.get('site.json')!.toString('utf8'));
-    expect(servedSite.status).toBe('published');
-    expect({ ...servedSite, status: null }).toEqual({ ...archivedSite, status: null });
+    expect(served.status).toBe('published');
+    expect({ ...served, status: null }).toEqual({ ...archivedSite, status: null });
     const manifest = JSON.parse(out.get(`releases/${CANDIDATE}/manifest.json`)!.toString('utf8'));
     expect(manifest.status).toBe('published');
     expect(manifest.inputsSha256).toBe(seal.inputsSha256);
@@ -145,7 +156,7 @@ describe('kiln publish', () => {
   it('refuses a candidate that fails a check (exit 1) and archives nothing', () => {
     const ws = fresh();
     // Mn Ka FWHM 140.16 → 200 eV: far from the fitted law, still above the Fano limit
-    // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; PRIMER / common practice).
+    // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; Fano, Phys. Rev. 72, 26 (1947) / common practice).
     ws.replace(`releases/${CANDIDATE}/linefits/fi0.csv`, /^Mn Ka,5\.8950,5\.90794,0\.36,140\.16,/m, 'Mn Ka,5.8950,5.90794,0.36,200.00,');
     const before = treeDigest(ws.content);
     const r = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');

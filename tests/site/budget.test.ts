@@ -10,6 +10,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { requireFreshBuild } from '../support/fresh-build.ts';
 import { dirname, join, resolve } from 'node:path';
 
 const DIST = resolve('dist');
@@ -62,6 +63,7 @@ function jsClosure(file: string): string[] {
 describe('site byte budget', () => {
   it('dist/ exists', () => {
     if (!existsSync(join(DIST, 'index.html'))) throw new Error('dist/ is missing: run npm run build first');
+    requireFreshBuild(join(DIST, 'index.html'), 'the built site dist/');
   });
   const relDir = join(DIST, 'releases');
   const ids = existsSync(relDir) ? readdirSync(relDir).filter((d) => existsSync(join(relDir, d, 'index.html'))) : [];

@@ -1,7 +1,7 @@
 /** Headless Debian chromium through playwright-core (never a downloaded browser). */
 import { afterAll, beforeAll } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { serveDist } from './server.ts';
+import { serveDist, type SiteServer } from './server.ts';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -48,19 +48,20 @@ export function watch(page: Page, origin: string): { problems: string[] } {
 }
 
 /**
- * The served dist/ and one browser for a test file, started before its tests and closed after
- * them (registers the vitest hooks). `open` loads a page and watches it for problems.
+ * The served dist/ (or the site directory `dir()` names when the session starts: a fixture site
+ * built in an earlier beforeAll) and one browser for a test file, started before its tests and
+ * closed after them (registers the vitest hooks). `open` loads a page and watches it for problems.
  */
-export function siteSession(): {
+export function siteSession(dir?: () => string): {
   readonly url: string;
   readonly context: BrowserContext;
-  readonly server: Awaited<ReturnType<typeof serveDist>>;
+  readonly server: SiteServer;
   open(path: string): Promise<{ page: Page; problems: string[] }>;
 } {
-  let server: Awaited<ReturnType<typeof serveDist>> | undefined;
+  let server: SiteServer | undefined;
   let browser: Awaited<ReturnType<typeof launch>> | undefined;
   beforeAll(async () => {
-    server = await serveDist();
+    server = await serveDist(dir?.());
     browser = await launch();
   });
   afterAll(async () => {

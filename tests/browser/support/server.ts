@@ -3,6 +3,7 @@ import { createServer, type Server } from 'node:http';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { extname, join, normalize, resolve } from 'node:path';
 import type { AddressInfo } from 'node:net';
+import { requireFreshBuild } from '../../support/fresh-build.ts';
 
 const TYPES: Record<string, string> = {
   '.html': 'text/html; charset=utf-8',
@@ -17,13 +18,24 @@ const TYPES: Record<string, string> = {
 
 export const DIST = resolve('dist');
 
-/** Fails with the message CI and developers need when the site was not built. */
-export function requireDist(): void {
-  if (!existsSync(join(DIST, 'index.html'))) throw new Error('dist/ is missing: run npm run build first (the browser tests use the built site).');
+/** Fails with the message CI and developers need when the site was not built, or (for the
+ * repository's dist/) built before its last input changed. */
+export function requireDist(dist = DIST): void {
+  if (!existsSync(join(dist, 'index.html'))) throw new Error(`${dist === DIST ? 'dist/' : dist} is missing: run npm run build first (the browser tests use the built site).`);
+  if (dist === DIST) requireFreshBuild(join(DIST, 'index.html'), 'the built site dist/');
 }
 
-export async function serveDist(): Promise<{ url: string; close: () => Promise<void>; requests: string[] }> {
-  requireDist();
+export type SiteServer = { url: string; close: () => Promise<void>; requests: string[] };
+
+/** Serves `dist` (default: the repository's dist/) after checking it was built. */
+export async function serveDist(dist = DIST): Promise<SiteServer> {
+  requireDist(dist);
+  return serveDir(dist);
+}
+
+/** Serves any built site directory (a fixture site built by a test, say). */
+export async function serveDir(root: string): Promise<SiteServer> {
+  const DIST = resolve(root);
   const requests: string[] = [];
   const server: Server = createServer((req, res) => {
     const path = decodeURIComponent(new URL(req.url ?? '/', 'http://x').pathname);

@@ -1,14 +1,15 @@
-/** The redistribution matrix as a PNG (log colour scale), rendered at build time from matrix.log10. */
+/** The redistribution matrix as a PNG (log colour scale), rendered at build time from the detector's matrix.json. */
 import type { APIRoute, GetStaticPaths } from 'astro';
-import { loadIndex, loadSite } from '../../../lib/data.ts';
+import { loadDetector, loadIndex, loadSummary } from '../../../lib/data.ts';
 import { matrixPixels } from '../../../lib/matrix.ts';
 import { encodePng } from '../../../lib/png/index.ts';
 
 export const getStaticPaths: GetStaticPaths = () =>
-  loadIndex().releases.flatMap((r) => loadSite(r.id).detectors.filter((d) => d.matrix.log10.length > 0).map((d) => ({ params: { id: r.id, det: d.id } })));
+  loadIndex().releases.flatMap((r) => loadSummary(r.id).detectors.map((d) => ({ params: { id: r.id, det: d.id } })));
 
 export const GET: APIRoute = ({ params }) => {
-  const det = loadSite(params.id as string).detectors.find((d) => d.id === params.det)!;
-  const { width, height, rgba } = matrixPixels(det.matrix);
+  const { matrix } = loadDetector(params.id as string, params.det as string).site;
+  // An empty matrix picture still gets a 1 × 1 transparent PNG, so every detector has its file.
+  const { width, height, rgba } = matrix.log10.length ? matrixPixels(matrix) : { width: 1, height: 1, rgba: new Uint8Array(4) };
   return new Response(new Uint8Array(encodePng(width, height, rgba)), { headers: { 'Content-Type': 'image/png' } });
 };
