@@ -22,6 +22,7 @@ import type {
   ReleaseIndex,
   ReleaseManifest,
   ReleaseSite,
+  ReexaminedCounts,
   ReleaseSummary,
   ValidationReport,
 } from '../site-data/types.ts';
@@ -40,7 +41,8 @@ import { generatorVersion } from './generator-version.ts';
 import { jobFingerprint, jobIdOf, type JobOutput } from './job-output.ts';
 import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
-import { checksPath } from '../site-data/paths.ts';
+import { checksPath, REEXAMINED_FILE } from '../site-data/paths.ts';
+import { reexamineArchive } from './reexamine.ts';
 export { gzipProduct } from './job-output.ts';
 /** Statuses whose products are frozen in the archive. */
 const FROZEN_STATUSES = new Set(['published', 'superseded']);
@@ -137,6 +139,8 @@ interface ReleaseWork {
   dir: string;
   outcome: ReleaseOutcome;
   products: ProductSummary[];
+  /** Archived releases: findings of today's checks (reexamined.json). */
+  reexamined?: ReexaminedCounts;
 }
 
 /** The fields every document about a release starts with. */
@@ -159,6 +163,7 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
     ...releaseHead(w.r.release),
     checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
     products: w.products,
+    ...(w.reexamined ? { reexamined: w.reexamined } : {}),
   };
 }
 
@@ -327,11 +332,17 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       let products: ProductSummary[];
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
+      let reexamined: ReexaminedCounts | undefined;
       if (frozen) {
         const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
+        // Today's checks on the archived bytes, read-only: shown beside the published report.
+        const re = reexamineArchive(r, archives.get(rel.id)!, ctx.generator);
+        writeJson(join(dir, REEXAMINED_FILE), re);
+        reexamined = re.counts;
+        log(`release ${rel.id} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
       } else {
         const slots = await runReleaseJobs(r, dir, pool, ctx);
         products = slots.flatMap((x) => x.products);
@@ -360,6 +371,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         dir,
         products,
         outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
+        reexamined,
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
       works.push(work);

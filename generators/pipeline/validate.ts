@@ -14,6 +14,10 @@ import { defaultCheckSettings, type CheckSettings } from './check-settings.ts';
 import type { Check } from '../site-data/types.ts';
 import type { DetectorJob } from './job.ts';
 import type { DetectorProducts } from './product.ts';
+import { readFits } from '../fits/index.ts';
+import { readRmf } from '../ogip/index.ts';
+import type { RmfData } from '../response/types.ts';
+import { validRange, type ValidRange } from '../response/valid-range.ts';
 
 /** Row probability + reported losses must equal 1 to this (float64 accumulation over a few thousand channels). */
 export const ACCOUNTING_TOLERANCE = 1e-6;
@@ -68,8 +72,7 @@ export function tidyCheck(c: Check): Check {
  * "model.range.grid-channels": the energy grid covers the channels (README, "Valid range"); warns
  * with the complete-model range (also written in every product) when channels reach beyond it.
  */
-function rangeCheck(built: DetectorProducts, product: string): Check {
-  const r = built.validRange;
+function rangeCheck(r: ValidRange, product: string): Check {
   const stated = `complete for channels ${r.channels[0]}–${r.channels[1]} (${fmt(r.energyKeV[0])}–${fmt(r.energyKeV[1])} keV)`;
   return makeCheck(r.consistent ? 'pass' : 'warn', {
     id: 'model.range.grid-channels',
@@ -91,8 +94,7 @@ export function validateDetector(job: DetectorJob, built: DetectorProducts): Che
  * scale and shelf from a refit of the rows (closure-profile.ts), every per-line check at the joint
  * bound z*, and the joint χ² per detector (closure-joint.ts).
  */
-function closureChecks(job: DetectorJob, built: DetectorProducts, rmfId: string, settings: CheckSettings): Check[] {
-  const rmf = built.redistribution.rmf;
+function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: CheckSettings): Check[] {
   const spec = job.detector.redistribution;
   const lines = job.detector.lineFits;
   const independent = {
@@ -149,17 +151,28 @@ function closureChecks(job: DetectorJob, built: DetectorProducts, rmfId: string,
 }
 
 function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[] {
-  const checks: Check[] = [];
-  const settings = job.checks ?? defaultCheckSettings();
   const rmf = built.redistribution.rmf;
-  for (const f of built.files) {
-    const r = checkFile(f.fits, f.name, { product: f.id, rmf: f.kind === 'arf' ? rmf : undefined });
-    checks.push(...r.checks);
-  }
   const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
-  checks.push(...accountingChecks(built, rmfId));
-  checks.push(rangeCheck(built, rmfId));
-  checks.push(...closureChecks(job, built, rmfId, settings));
+  return [...fileChecks(built.files, rmf), ...accountingChecks(built, rmfId), ...modelChecks(job, rmf, rmfId, built.validRange)];
+}
+
+/** One product file as the checks see it: id, file name, kind and its (uncompressed) FITS bytes. */
+export interface CheckedFile {
+  id: string;
+  name: string;
+  kind: string;
+  fits: Uint8Array;
+}
+
+/** Every product file through the same checks as `kiln check` (an ARF against the detector's matrix). */
+function fileChecks(files: readonly CheckedFile[], rmf: RmfData | undefined): Check[] {
+  return files.flatMap((f) => checkFile(f.fits, f.name, { product: f.id, rmf: f.kind === 'arf' ? rmf : undefined }).checks);
+}
+
+/** Checks of the model a matrix stands for: valid range, closure against the line fits, extrapolation, epochs. */
+function modelChecks(job: DetectorJob, rmf: RmfData, rmfId: string, range: ValidRange): Check[] {
+  const settings = job.checks ?? defaultCheckSettings();
+  const checks: Check[] = [rangeCheck(range, rmfId), ...closureChecks(job, rmf, rmfId, settings)];
   const grid = job.instrument.energyGrid;
   checks.push(
     ...extrapolationChecks(job.detector.redistribution, job.detector.lineFits, [grid.minKeV, grid.maxKeV], {
@@ -177,4 +190,19 @@ function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[]
     }),
   );
   return checks;
+}
+
+/**
+ * Today's checks on products made earlier (an archived release's bytes, read-only): the file
+ * checks on every file and the model checks on its matrix, judged with the job's settings. What
+ * needs the model's own loss bookkeeping (row accounting, dropped probability) is not in a file,
+ * so it is not re-run. Null when the detector has no matrix among the files.
+ */
+export function recheckDetector(job: DetectorJob, files: readonly CheckedFile[]): Check[] | null {
+  const rmfFile = files.find((f) => f.kind === 'rmf');
+  if (!rmfFile) return null;
+  const rmf = readRmf(readFits(rmfFile.fits, { fileName: rmfFile.name })).data;
+  const spec = job.detector.redistribution;
+  const range = validRange(job.instrument.channels, job.instrument.energyGrid, spec.thresholdKeV);
+  return [...fileChecks(files, rmf), ...modelChecks(job, rmf, rmfFile.id, range)].map(tidyCheck);
 }

@@ -4,6 +4,8 @@
  * and every detector has its own directory, so no detector id can collide with another's files.
  */
 export const SUMMARY_FILE = 'summary.json';
+/** Archived releases: today's checks on their bytes (ReexaminationDoc). */
+export const REEXAMINED_FILE = 'reexamined.json';
 
 export const detectorDir = (detector: string): string => `detectors/${detector}`;
 export const modelPath = (detector: string): string => `${detectorDir(detector)}/model.json`;

@@ -69,6 +69,37 @@ export interface ReleaseSummary {
   supersedes: string | null;
   checks: { pass: number; fail: number; warn: number; review: number };
   products: ProductSummary[];
+  /** Archived releases: what today's checks find that the published report did not (reexamined.json). */
+  reexamined?: ReexaminedCounts;
+}
+
+/** Findings of a re-examination by status, and how many checks ran. */
+export interface ReexaminedCounts {
+  fail: number;
+  warn: number;
+  checks: number;
+}
+
+/** A check that fails or warns today on an archived release's bytes, and how it stood at publication. */
+export interface ReexaminedFinding extends Check {
+  /** Status in the published report; null when that report has no such check (a newer check). */
+  publishedStatus: CheckStatus | null;
+}
+
+/**
+ * releases/<id>/reexamined.json: today's checks run read-only on an archived release's bytes at
+ * each build (README, "Re-examined with current checks"). The archive itself is never touched.
+ */
+export interface ReexaminationDoc {
+  schema: 'kiln/reexamination/1';
+  release: string;
+  /** Version of the Kiln generator whose checks ran (a digest of its code). */
+  generator: string;
+  counts: ReexaminedCounts;
+  /** Fail and warn results that are new or worse than at publication, worst first. */
+  findings: ReexaminedFinding[];
+  /** Detectors whose products could not be re-examined, with the reason. */
+  skipped: { detector: string; reason: string }[];
 }
 
 export interface ReleaseIndex {

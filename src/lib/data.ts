@@ -8,8 +8,8 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, join } from 'node:path';
-import type { Check, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
-import { SUMMARY_FILE } from '../../generators/site-data/paths.ts';
+import type { Check, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
+import { REEXAMINED_FILE, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
 import { joinDetector, joinRelease, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
 
 export const outDir = (): string => resolve(process.env.KILN_OUT ?? '.kiln/out');
@@ -41,6 +41,9 @@ const reader = (id: string) => <T,>(p: string): T => readJson<T>(join(relDir(id)
 export const loadIndex = (): ReleaseIndex => readJson(join(outDir(), 'index.json'), 'kiln/release-index/1');
 export const loadSummary = (id: string): ReleaseSummaryDoc => readJson(join(relDir(id), SUMMARY_FILE), 'kiln/release-summary/1');
 export const loadManifest = (id: string): ReleaseManifest => readJson(join(relDir(id), 'manifest.json'), 'kiln/release-manifest/1');
+/** An archived release's re-examination with current checks; null for a release built from its inputs. */
+export const loadReexamination = (id: string): ReexaminationDoc | null =>
+  existsSync(join(relDir(id), REEXAMINED_FILE)) ? readJson(join(relDir(id), REEXAMINED_FILE), 'kiln/reexamination/1') : null;
 /** The full report: for whole-release views only (it grows with the number of products). */
 export const loadValidation = (id: string): ValidationReport => readJson(join(relDir(id), 'validation.json'), 'kiln/validation/1');
 

@@ -244,3 +244,24 @@ describe('without JavaScript', () => {
     }
   });
 });
+
+describe('archived releases re-examined with current checks', () => {
+  const archived = index.releases.filter((r) => r.reexamined);
+  it('the demo has archived releases to re-examine', () => {
+    expect(archived.map((r) => r.id).sort()).toEqual(['1.0.0', '1.1.0']);
+  });
+  for (const r of archived)
+    it(`release ${r.id}: its page lists every finding of reexamined.json, the index links to them`, async () => {
+      const doc = JSON.parse(readFileSync(join(DIST, 'data', 'releases', r.id, 'reexamined.json'), 'utf8')) as { findings: { id: string; status: string }[] };
+      const { page, problems } = await open(`/releases/${r.id}/`);
+      expect(await page.textContent('#reexamined')).toBe('Re-examined with current checks');
+      const rows = await page.$$eval('#reexamined-table tbody tr', (trs) => trs.map((tr) => [tr.querySelector('td')?.textContent?.trim(), tr.querySelector('code')?.textContent]));
+      expect(rows).toEqual(doc.findings.map((f) => [f.status, f.id]));
+      await page.close();
+      const home = await open('/');
+      const link = await home.page.$eval(`#releases a[href="/releases/${r.id}/#reexamined"]`, (a) => a.textContent ?? '');
+      expect(link).toContain(`${r.reexamined!.warn} warn since publication`);
+      await home.page.close();
+      expect([...problems, ...home.problems]).toEqual([]);
+    });
+});

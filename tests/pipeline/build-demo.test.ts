@@ -1,14 +1,15 @@
 /**
  * `kiln build` of the demo content: the output layout, manifest sizes and SHA-256 against the
  * bytes, every product opened by an outside FITS reader (astropy) with its checksums verified,
- * and `kiln check` on every product.
+ * and `kiln check` on every product; archived releases re-examined with current checks, their
+ * archive untouched (SHA-256 of every archived file against the copy the build started from).
  */
-import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runAstropyChecks, runPythonJson } from '../support/python.ts';
-import { kiln, readTree, sha256, workspace, type CliResult, type Workspace } from './helpers.ts';
+import { DEMO_CONTENT, kiln, readTree, sha256, treeDigest, workspace, type CliResult, type Workspace } from './helpers.ts';
 
 /** Releases of the demo content (content/releases/); see content/README.md. */
 const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0'];
@@ -61,7 +62,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
@@ -148,5 +149,58 @@ print(json.dumps(out))
       expect(f.counts.fail, f.fileName).toBe(0);
       expect(f.counts.pass, f.fileName).toBeGreaterThan(0);
     }
+  });
+});
+
+describe('archived releases re-examined with current checks', () => {
+  const ARCHIVED = ['1.0.0', '1.1.0'];
+  const doc = (id: string) => JSON.parse(readFileSync(join(ws.out, 'releases', id, 'reexamined.json'), 'utf8'));
+
+  it('leaves every archived byte as it was (content/archive/ of the copy vs the demo content)', () => {
+    expect(run.status, run.stderr).toBe(0);
+    expect(treeDigest(ws.path('archive'))).toEqual(treeDigest(join(DEMO_CONTENT, 'archive')));
+  });
+
+  it('writes reexamined.json for archived releases only, its counts in the index', () => {
+    const index = JSON.parse(readFileSync(join(ws.out, 'index.json'), 'utf8'));
+    for (const r of index.releases) {
+      const has = ARCHIVED.includes(r.id);
+      expect(existsSync(join(ws.out, 'releases', r.id, 'reexamined.json')), r.id).toBe(has);
+      if (!has) {
+        expect(r.reexamined).toBeUndefined();
+        continue;
+      }
+      const d = doc(r.id);
+      expect(d.schema).toBe('kiln/reexamination/1');
+      expect(r.reexamined).toEqual(d.counts);
+      expect(d.counts.checks).toBeGreaterThan(100);
+      expect(run.stderr).toContain(`release ${r.id} (${r.status}): re-examined with current checks: ${d.counts.fail} failed, ${d.counts.warn} warnings`);
+    }
+  });
+
+  it('every finding is new or worse than in the published report (content/archive/<id>/validation.json)', () => {
+    const rank = { pass: 0, review: 1, warn: 2, fail: 3 } as const;
+    for (const id of ARCHIVED) {
+      const published: { id: string; product: string | null; status: keyof typeof rank }[] = JSON.parse(readFileSync(join(DEMO_CONTENT, 'archive', id, 'validation.json'), 'utf8')).checks;
+      for (const f of doc(id).findings) {
+        const then = published.find((c) => c.id === f.id && c.product === f.product);
+        expect(f.publishedStatus).toBe(then ? then.status : null);
+        if (then) expect(rank[f.status as keyof typeof rank]).toBeGreaterThan(rank[then.status]);
+      }
+    }
+  });
+
+  it("finds 1.1.0's Tarn-B tail held below its lowest line, by the factor its inputs give", () => {
+    // Lowest line of the published line fits and the bottom of the instrument's energy grid,
+    // read from the content files themselves.
+    const csv = readFileSync(join(DEMO_CONTENT, 'releases', '1.1.0', 'linefits', 'bi1.csv'), 'utf8').split('\n').filter((l) => /^[A-Z][a-z]? K/.test(l));
+    const lowestKeV = Math.min(...csv.map((l) => Number(l.split(',')[1])));
+    const gridMinKeV = Number(/energyGrid:[\s\S]*?minKeV:\s*([0-9.]+)/.exec(readFileSync(join(DEMO_CONTENT, 'instruments', 'quillon-tarncam', 'instrument.yaml'), 'utf8'))![1]);
+    const f = doc('1.1.0').findings.find((x: { id: string; product: string }) => x.id === 'model.extrapolation.tail' && x.product === 'bi1-rmf');
+    expect(f).toBeDefined();
+    expect(f.status).toBe('warn'); // a published release warns; only a candidate fails
+    expect(f.publishedStatus).toBeNull();
+    expect(f.measured).toBeCloseTo(lowestKeV / gridMinKeV, 3);
+    expect(f.message).toMatch(/held at the outermost line fit/);
   });
 });
