@@ -8,6 +8,7 @@ import { fitCoreAt } from './gaussian-core.ts';
 import { arfAt, bracket, lerpAt } from './interpolate.ts';
 import { fmt, makeCheck } from './make-check.ts';
 import { rowSums } from './numbers-rmf.ts';
+import { expandRow } from '../response/compress.ts';
 import { DEFAULT_COMPARE_TOLERANCES, type CompareTolerances } from './tolerances.ts';
 import type { Check } from './types.ts';
 
@@ -66,9 +67,36 @@ function logSpaced(lo: number, hi: number, n: number): number[] {
 }
 
 /**
- * Four checks: "compare.rmf.channels" (same channel count and bounds), "compare.rmf.centroid",
- * "compare.rmf.fwhm" (fitted Gaussian core) and "compare.rmf.row-sum", each reporting the largest
- * difference over the probe energies and where it occurs.
+ * Below the core means below centroid − LOW_SIGMAS σ of the older release's fitted core (Kiln's
+ * choice: a Gaussian core leaves Φ(−2) = 2.3 % there, while a soft tail a few tens of eV long,
+ * such as partial-charge events, already shows; 3σ would hide it under the core).
+ */
+const LOW_SIGMAS = 2;
+const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
+
+/**
+ * Share of row `i` in channels wholly below `edgeKeV`: what the low-energy tail, the shelf, the
+ * escape and fluorescence lines and any partial-charge events put below the core.
+ */
+function shareBelow(rmf: RmfData, i: number, edgeKeV: number): number {
+  const row = expandRow(rmf.rows[i], rmf.detchans, rmf.firstChannel);
+  let s = 0;
+  for (let k = 0; k < row.length; k++) if (rmf.ebounds.eMaxKeV[k] <= edgeKeV) s += row[k];
+  return s;
+}
+
+function lowShareAt(rmf: RmfData, e: number, core: { centroidKeV: number; fwhmEv: number }): number {
+  const edge = core.centroidKeV - (LOW_SIGMAS * core.fwhmEv) / FWHM_PER_SIGMA / EV_PER_KEV;
+  const br = bracket(rmf.energLoKeV, rmf.energHiKeV, e);
+  const s0 = shareBelow(rmf, br.i0, edge);
+  return br.i1 === br.i0 || br.t === 0 ? s0 : s0 * (1 - br.t) + shareBelow(rmf, br.i1, edge) * br.t;
+}
+
+/**
+ * Five checks: "compare.rmf.channels" (same channel count and bounds), "compare.rmf.centroid",
+ * "compare.rmf.fwhm" (fitted Gaussian core), "compare.rmf.row-sum" and "compare.rmf.low-share"
+ * (the share of the row below the older core, where a changed soft tail shows), each reporting the
+ * largest difference over the probe energies and where it occurs.
  */
 export function compareRmf(older: RmfData, newer: RmfData, product: string | null, opts: CompareOptions = {}): Check[] {
   const tol = { ...DEFAULT_COMPARE_TOLERANCES, ...opts.tolerances };
@@ -97,7 +125,7 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
   const energies = (opts.energiesKeV ?? logSpaced(Math.max(range[0], 1e-3), range[1], DEFAULT_RMF_PROBES)).filter((e) => e >= range[0] && e <= range[1]);
   const sumsA = rowSums(older);
   const sumsB = rowSums(newer);
-  const worst = { centroid: { d: 0, e: NaN }, fwhm: { d: 0, e: NaN }, sum: { d: 0, e: NaN } };
+  const worst = { centroid: { d: 0, e: NaN }, fwhm: { d: 0, e: NaN }, sum: { d: 0, e: NaN }, low: { d: 0, e: NaN, a: 0 } };
   let fitted = 0;
   for (const e of energies) {
     const sa = lerpAt(sumsA, bracket(older.energLoKeV, older.energHiKeV, e));
@@ -111,6 +139,10 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
     const df = cb.fwhmEv - ca.fwhmEv;
     if (Math.abs(dc) > Math.abs(worst.centroid.d)) worst.centroid = { d: dc, e };
     if (Math.abs(df) > Math.abs(worst.fwhm.d)) worst.fwhm = { d: df, e };
+    // both rows cut at the older core, so a moved core does not count as a changed tail
+    const la = lowShareAt(older, e, ca);
+    const dl = lowShareAt(newer, e, ca) - la;
+    if (Math.abs(dl) > Math.abs(worst.low.d)) worst.low = { d: dl, e, a: la };
   }
   const at = (w: { e: number }) => (Number.isFinite(w.e) ? ` at ${fmt(w.e)} keV` : '');
   const coreNote = fitted === 0 ? 'no energy where both cores could be fitted' : `over ${fitted} probe energies`;
@@ -140,6 +172,14 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
       measured: worst.sum.d,
       tolerance: tol.rowSum,
       message: `${label}largest row-sum change ${fmt(worst.sum.d)}${at(worst.sum)} over ${energies.length} probe energies`,
+    }),
+    makeCheck(fitted > 0 && Math.abs(worst.low.d) > tol.lowShare ? 'review' : 'pass', {
+      id: 'compare.rmf.low-share',
+      title: 'largest change of the share below the core (centroid − 2σ: soft tail, shelf, escape)',
+      product,
+      measured: worst.low.d,
+      tolerance: tol.lowShare,
+      message: `${label}largest change of the share below the core ${fmt(worst.low.d)}${Number.isFinite(worst.low.e) ? ` at ${fmt(worst.low.e)} keV (from ${fmt(worst.low.a)})` : ''} (${coreNote})`,
     }),
   );
   return out;

@@ -58,6 +58,8 @@ export interface CompareTolerances {
   centroidEv: number;
   /** Allowed |Δ row sum| (absolute, probability). */
   rowSum: number;
+  /** Allowed |Δ share of the row below the core| (absolute, probability): the soft tail and shelf. */
+  lowShare: number;
 }
 
 /**
@@ -69,4 +71,5 @@ export const DEFAULT_COMPARE_TOLERANCES: CompareTolerances = {
   fwhmEv: 3,
   centroidEv: 2,
   rowSum: 0.01,
+  lowShare: 0.01,
 };
