@@ -10,6 +10,8 @@ import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 /** Verb name → module path; loaded lazily so `kiln inspect` does not pay for the physics. */
 const VERBS: Record<string, { summary: string; load: () => Promise<{ command: CommandSpec }> }> = {
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
+  plan: { summary: 'list the jobs of a build with their fingerprints (JSON, for a batch scheduler)', load: () => import('./plan.ts') },
+  gather: { summary: 'check the shards of a sharded build and write the output of the whole build', load: () => import('./gather.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },

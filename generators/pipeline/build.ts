@@ -266,6 +266,33 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
   return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry };
 }
 
+/**
+ * Which releases are frozen (served from their archive) and their verified archives. An archive
+ * wins over any status: a release with one is always served from it. Every frozen release is
+ * checked before any work: changed inputs, a status moved backwards, a missing, extra or altered
+ * archived file stop the build at once, before anything is written. `kiln plan` uses the same
+ * rule, so a plan lists exactly the jobs a build runs.
+ */
+export function verifyFrozenReleases(
+  content: ContentTree,
+  publishing?: string,
+): { archives: Map<string, VerifiedArchive>; isFrozen: (r: ResolvedRelease) => boolean } {
+  const isFrozen = (r: ResolvedRelease) => r.release.id !== publishing && hasArchive(content.root, r.release.id);
+  const archives = new Map<string, VerifiedArchive>();
+  for (const r of content.releases) {
+    if (r.release.id === publishing) continue;
+    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
+      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
+        file: r.release.file,
+        field: 'status',
+        value: r.release.status,
+        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
+      });
+    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
+  }
+  return { archives, isFrozen };
+}
+
 /** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
   mkdirSync(dirname(opts.outDir), { recursive: true });
@@ -288,22 +315,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
-  // An archive wins over any status: a release with one is always served from it.
-  const isFrozen = (r: ResolvedRelease) => r.release.id !== opts.publishing && hasArchive(content.root, r.release.id);
-  // Check every frozen release before any work: changed inputs, a status moved backwards, a
-  // missing, extra or altered archived file stop the build at once, before anything is written.
-  const archives = new Map<string, VerifiedArchive>();
-  for (const r of content.releases) {
-    if (r.release.id === opts.publishing) continue;
-    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
-      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
-        file: r.release.file,
-        field: 'status',
-        value: r.release.status,
-        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
-      });
-    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
-  }
+  const { archives, isFrozen } = verifyFrozenReleases(content, opts.publishing);
   reached('build:verified');
 
   removeStaleStaging(opts.outDir);
