@@ -15,7 +15,8 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { ARF_CASE, CASE_NAMES, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { ARF_CASE, CASE_NAMES, LARGE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { largeLines } from './large.ts';
 import { filesUnder, totalSize } from './io.ts';
 import { round, type CaseResult } from './measure.ts';
 
@@ -39,6 +40,10 @@ const TARGET_RSS_ALLOWANCE_MB = 200;
 const TARGET_LINEAR_RESIDUAL = 0.2;
 const TARGET_NS_PER_NNZ_GROWTH = 1.2;
 const TARGET_SITE_S = 60;
+/** The issue's budgets at scale: no-change rebuild ≤ 10 % of clean; peak RSS not growing with size (our reading: ≤ 1.5× over 10× the products, and ≤ 1 GB). */
+const TARGET_NO_CHANGE_RATIO = 0.1;
+const TARGET_RSS_GROWTH = 1.5;
+const TARGET_RSS_MAX_MB = 1024;
 
 interface Options {
   only: Set<string>;
@@ -227,12 +232,32 @@ function targets(lines: Map<string, Line>): void {
   if (site) verdict(`demo site in <= ${TARGET_SITE_S} s`, site.wallS <= TARGET_SITE_S, { wallS: site.wallS });
 }
 
+function largeTargets(large: Record<string, unknown>[]): void {
+  if (large.length < 2) return;
+  const [small, big] = large as { case: string; peakRssMB: number | null; noChangeRatio: number; wallS: number; products: number }[];
+  verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (large instrument)`, large.every((l) => (l.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO), {
+    ratios: Object.fromEntries(large.map((l) => [l.case, l.noChangeRatio])),
+  });
+  if (small.peakRssMB !== null && big.peakRssMB !== null)
+    verdict(`build peak RSS <= ${TARGET_RSS_GROWTH}x over ${round(big.products / small.products, 0)}x the products, and <= ${TARGET_RSS_MAX_MB} MB`, big.peakRssMB <= TARGET_RSS_GROWTH * small.peakRssMB && big.peakRssMB <= TARGET_RSS_MAX_MB, {
+      peakRssMB: { [small.case]: small.peakRssMB, [big.case]: big.peakRssMB },
+      growth: round(big.peakRssMB / small.peakRssMB, 2),
+      sPerProduct: { [small.case]: round(small.wallS / small.products, 4), [big.case]: round(big.wallS / big.products, 4) },
+    });
+}
+
 const o = parseArgs(process.argv.slice(2));
 const tmp = mkdtempSync(join(tmpdir(), 'kiln-bench-'));
 const lines = new Map<string, Line>();
 let crashed = false;
 for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
   try {
+    if (name === LARGE_CASE.name) {
+      const large = largeLines(ROOT, tmp, LARGE_CASE.sizes);
+      for (const line of large) console.log(JSON.stringify(line));
+      largeTargets(large);
+      continue;
+    }
     const out = name === SITE_CASE.name ? [siteCase(tmp, o.siteDir)] : productCases(name, tmp, o);
     for (const line of out) {
       lines.set(line.case, line);
