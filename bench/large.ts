@@ -21,19 +21,21 @@ interface Run {
   stdout: string;
 }
 
-function timedBuild(root: string, tmp: string, content: string, out: string, extra: string[]): Run {
-  const timeFile = join(tmp, 'large.time');
+/** Runs `cmd` under GNU time when present: wall, CPU (children) and peak RSS of the largest process. */
+export function timedRun(cmd: string[], cwd: string, timeFile: string): Run {
   const haveTime = existsSync(GNU_TIME);
-  const kiln = [process.execPath, join(root, 'bin', 'kiln.mjs'), 'build', '--content', content, '--out', out, '--quiet', ...extra];
-  const cmd = haveTime ? [GNU_TIME, '-f', '%e %U %S %M', '-o', timeFile, ...kiln] : kiln;
+  const full = haveTime ? [GNU_TIME, '-f', '%e %U %S %M', '-o', timeFile, ...cmd] : cmd;
   const t0 = performance.now();
-  const r = spawnSync(cmd[0], cmd.slice(1), { cwd: root, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+  const r = spawnSync(full[0], full.slice(1), { cwd, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
   const wallS = (performance.now() - t0) / 1000;
-  if (r.status !== 0) throw new Error(`kiln build exited with ${r.status ?? r.signal}:\n${r.stderr.slice(-2000)}`);
+  if (r.status !== 0) throw new Error(`${cmd.slice(0, 3).join(' ')} exited with ${r.status ?? r.signal}:\n${r.stdout.slice(-2000)}\n${r.stderr.slice(-2000)}`);
   if (!haveTime) return { wallS: round(wallS), cpuS: null, peakRssMB: null, stdout: r.stdout };
   const [, user, sys, maxKb] = readFileSync(timeFile, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
   return { wallS: round(wallS), cpuS: round(user + sys), peakRssMB: round(maxKb / KB_PER_MB, 1), stdout: r.stdout };
 }
+
+const timedBuild = (root: string, tmp: string, content: string, out: string, extra: string[]): Run =>
+  timedRun([process.execPath, join(root, 'bin', 'kiln.mjs'), 'build', '--content', content, '--out', out, '--quiet', ...extra], root, join(tmp, 'large.time'));
 
 export function largeLines(root: string, tmp: string, sizes: LargeInstrument[]): Record<string, unknown>[] {
   return sizes.map((size) => {

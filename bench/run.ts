@@ -11,18 +11,16 @@
  * of a commit): it rewrites .kiln/out and dist/ there.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ARF_CASE, CASE_NAMES, LARGE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
-import { largeLines } from './large.ts';
+import { largeLines, timedRun } from './large.ts';
 import { filesUnder, totalSize } from './io.ts';
 import { round, type CaseResult } from './measure.ts';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
-/** GNU time reports the children's user/sys CPU and the peak RSS of the largest descendant. */
-const GNU_TIME = '/usr/bin/time';
 /** What the site build writes: the kiln build output (generators/cli/build.ts DEFAULT_OUT_DIR) and the Astro site. */
 const SITE_OUTPUTS = ['.kiln/out', 'dist'];
 const BYTES_PER_MB = 1024 * 1024;
@@ -142,26 +140,12 @@ function productCases(name: string, tmp: string, o: Options): Line[] {
 }
 
 function siteCase(tmp: string, siteDir: string): Line {
-  const timeFile = join(tmp, 'site.time');
-  const haveTime = existsSync(GNU_TIME);
-  const cmd = haveTime ? GNU_TIME : 'npm';
-  const args = haveTime ? ['-f', '%e %U %S %M', '-o', timeFile, 'npm', 'run', 'build'] : ['run', 'build'];
-  const t0 = performance.now();
-  const r = spawnSync(cmd, args, { cwd: siteDir, encoding: 'utf8', maxBuffer: 64 * BYTES_PER_MB });
-  const wallS = (performance.now() - t0) / 1000;
-  if (r.status !== 0) throw new Error(`npm run build exited with ${r.status ?? r.signal}:\n${r.stdout}\n${r.stderr}`);
-  let cpuS: number | null = null;
-  let peakRssMB: number | null = null;
-  if (haveTime) {
-    const [, user, sys, maxKb] = readFileSync(timeFile, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
-    cpuS = round(user + sys);
-    peakRssMB = round(maxKb / 1024, 1);
-  }
+  const { wallS, cpuS, peakRssMB } = timedRun(['npm', 'run', 'build'], siteDir, join(tmp, 'site.time'));
   const files = SITE_OUTPUTS.map((d) => join(siteDir, d)).filter(existsSync).flatMap(filesUnder);
   const floor = floorOf(SITE_CASE.name, files, tmp);
   return {
     case: SITE_CASE.name,
-    wallS: round(wallS),
+    wallS,
     cpuS,
     peakRssMB,
     bytesWritten: totalSize(files),
