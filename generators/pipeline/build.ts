@@ -33,6 +33,13 @@ import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import type { DetectorJobResult } from './run-job.ts';
+import { canonicalJson } from './hash.ts';
+import { XRAY_TABLE } from '../physics/data/xray-elements.ts';
+import { jobsFromModel, modelDocumentOf } from '../model/document.ts';
+import { parseModelDocument } from '../model/parse.ts';
+import { MODEL_FILE, MODEL_SCHEMA_FILE } from '../model/types.ts';
+import { MODEL_JSON_SCHEMA } from '../model/model-schema.ts';
+import type { DetectorJob } from './job.ts';
 
 /** gzip level of product files: the smallest files; speed matters little next to the model (zlib's 9). */
 const GZIP_LEVEL = 9;
@@ -118,7 +125,28 @@ function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   });
 }
 
+/** The release's model document in its output directory. */
+interface ModelRef {
+  path: string;
+  bytes: number;
+  sha256: string;
+}
+
+/**
+ * The release's model document (canonical JSON) and the jobs read back from it: the build's own
+ * products are made from the document, exactly as anything outside the build would remake them.
+ * Each job also carries the document to rebuild its products through the case path (rebuild check).
+ */
+export function modelJobs(r: ResolvedRelease): { jobs: DetectorJob[]; model: { text: string; bytes: number; sha256: string } } {
+  const text = canonicalJson(modelDocumentOf(jobsOf(r), XRAY_TABLE)) + '\n';
+  const sha256 = sha256Hex(text);
+  const doc = parseModelDocument(text, `${r.release.id}/${MODEL_FILE}`);
+  const jobs = jobsFromModel(doc, sha256).map((j) => ({ ...j, rebuildFrom: doc }));
+  return { jobs, model: { text, bytes: new TextEncoder().encode(text).length, sha256 } };
+}
+
 interface ReleaseWork {
+  model: ModelRef | null;
   r: ResolvedRelease;
   dir: string;
   outcome: ReleaseOutcome;
@@ -145,6 +173,7 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
     ...releaseHead(w.r.release),
     checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
     products: w.products,
+    ...(w.model ? { model: w.model } : {}),
   };
 }
 
@@ -179,7 +208,7 @@ function serveArchive(
   content: ContentTree,
   r: ResolvedRelease,
   dir: string,
-): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
+): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown>; model: ModelRef | null } {
   const seal = readSeal(content.root, r.release.id);
   verifyFrozenInputs(r, seal);
   const bytes = readVerifiedArchive(content.root, seal);
@@ -192,8 +221,16 @@ function serveArchive(
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
   writeJson(join(dir, 'site.json'), current);
   writeJson(join(dir, 'validation.json'), report);
+  // Archives sealed since model documents exist carry theirs; older ones have none.
+  const modelBytes = bytes.get(MODEL_FILE);
+  let model: ModelRef | null = null;
+  if (modelBytes) {
+    writeFileSync(join(dir, MODEL_FILE), modelBytes);
+    writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+    model = { path: MODEL_FILE, bytes: modelBytes.length, sha256: sha256Hex(modelBytes) };
+  }
   const manifest = bytes.has('manifest.json') ? (JSON.parse(new TextDecoder().decode(bytes.get('manifest.json')!)) as ReleaseManifest) : null;
-  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
+  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters }, model };
 }
 
 function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSummary[] {
@@ -255,13 +292,18 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       let products: ProductSummary[];
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
+      let modelRef: ModelRef | null = null;
       if (frozen) {
         const served = serveArchive(content, r, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
+        modelRef = served.model;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
       } else {
-        const jobs = jobsOf(r);
+        const { jobs, model } = modelJobs(r);
+        writeFileSync(join(dir, MODEL_FILE), model.text);
+        writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+        modelRef = { path: MODEL_FILE, bytes: model.bytes, sha256: model.sha256 };
         const t0 = performance.now();
         let done = 0;
         const results = await pool.run(jobs, (res) => {
@@ -291,6 +333,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         r,
         dir,
         products,
+        model: modelRef,
         outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));

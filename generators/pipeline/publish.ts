@@ -14,6 +14,7 @@ import { archiveDirOf, hasArchive, SEAL_FILE, type Seal } from './archive.ts';
 import { build, type BuildOptions } from './build.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
+import { MODEL_FILE } from '../model/types.ts';
 
 export interface PublishResult {
   release: string;
@@ -67,6 +68,8 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
     mkdirSync(staged, { recursive: true });
     cpSync(join(built, 'files'), join(staged, 'files'), { recursive: true });
     cpSync(join(built, 'validation.json'), join(staged, 'validation.json'));
+    // The model document is sealed with the products (its schema is the code's, written beside it on serving).
+    if (existsSync(join(built, MODEL_FILE))) cpSync(join(built, MODEL_FILE), join(staged, MODEL_FILE));
     // The archive records the release as it is from now on: published (a candidate is promoted).
     const archivedStatus = status === 'candidate' ? 'published' : status;
     for (const doc of ['site.json', 'manifest.json']) {
