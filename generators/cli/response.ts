@@ -13,9 +13,9 @@ import { optFlag, optString, UsageError, type CommandSpec, type ParsedArgs } fro
 const DEFAULT_FROM = '.kiln/out';
 
 /** CLI field names are the options. */
-function asOption(e: unknown): never {
-  if (e instanceof KilnInputError && e.where.field && !e.where.file && !e.where.field.startsWith('--'))
-    throw new KilnInputError(e.message, { ...e.where, field: `--${e.where.field}` });
+function asOption(e: unknown, gridFile: string | undefined): never {
+  if (e instanceof KilnInputError && e.where.field && !e.where.field.startsWith('--'))
+    throw new KilnInputError(e.message, { ...e.where, file: e.where.file ?? (e.where.field === 'energy-grid' ? gridFile : undefined), field: `--${e.where.field}` });
   throw e;
 }
 
@@ -55,12 +55,7 @@ export async function runResponse(args: ParsedArgs, write: (s: string) => void =
     let energies;
     if (gridFile !== undefined) {
       if (!existsSync(gridFile)) throw new KilnInputError('energy grid file not found', { file: gridFile, field: '--energy-grid', expected: 'a file of bin edges in keV' });
-      try {
-        energies = parseEnergyEdges(readFileSync(gridFile, 'utf8'));
-      } catch (e) {
-        if (e instanceof KilnInputError) throw new KilnInputError(e.message, { ...e.where, file: gridFile });
-        throw e;
-      }
+      energies = parseEnergyEdges(readFileSync(gridFile, 'utf8'));
     } else energies = energiesText !== undefined ? parseEnergyRange(energiesText) : ({ kind: 'model' } as const);
     result = buildCase(doc, sha, {
       detector,
@@ -72,7 +67,7 @@ export async function runResponse(args: ParsedArgs, write: (s: string) => void =
       rsp: optFlag(args, 'rsp'),
     });
   } catch (e) {
-    asOption(e);
+    asOption(e, gridFile);
   }
   mkdirSync(outDir, { recursive: true });
   for (const f of result!.files) {

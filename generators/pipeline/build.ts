@@ -185,6 +185,8 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     sha256: p.sha256,
     kind: p.kind,
     detector: p.detector,
+    ...(p.node !== undefined ? { node: p.node } : {}),
+    ...(p.rowBand !== undefined ? { rowBand: p.rowBand } : {}),
     epoch: p.epoch,
     validFrom: p.validFrom,
     validTo: p.validTo,
@@ -260,7 +262,19 @@ function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSumm
       const gz = gzipProduct(f.fits);
       const path = `files/${f.name}`;
       writeFileSync(join(dir, path), gz);
-      products.push({ id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: gz.length, sha256: sha256Hex(gz), validFrom: f.validFrom, validTo: f.validTo });
+      products.push({
+        id: f.id,
+        kind: f.kind,
+        detector: f.detector,
+        ...(f.node !== undefined ? { node: f.node } : {}),
+        ...(f.rowBand !== undefined ? { rowBand: f.rowBand } : {}),
+        epoch: f.epoch,
+        path,
+        bytes: gz.length,
+        sha256: sha256Hex(gz),
+        validFrom: f.validFrom,
+        validTo: f.validTo,
+      });
     }
   return products;
 }

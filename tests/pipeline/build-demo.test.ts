@@ -11,7 +11,7 @@ import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 import { kiln, readTree, sha256, workspace, type CliResult, type Workspace } from './helpers.ts';
 
 /** Releases of the demo content (content/releases/); see content/README.md. */
-const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0'];
+const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0', '2.1.0'];
 
 interface ManifestFile {
   path: string;
