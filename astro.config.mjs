@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
 
 const DIR = resolve(process.env.KILN_OUT ?? '.kiln/out');
-const DOCS = ['manifest.json', 'validation.json', 'site.json'];
+const DOCS = ['manifest.json', 'validation.json', 'site.json', 'model.json', 'model.schema.json'];
 
 /** Copies the products and the machine-readable JSON documents next to the pages. */
 function kilnData() {
@@ -43,7 +43,24 @@ function kilnData() {
   };
 }
 
+/**
+ * The response page's worker reads element data from the model document (generators/physics/data/
+ * xray-elements-runtime.ts) instead of bundling the whole table: swapped in for worker bundles only.
+ */
+function workerElementTable() {
+  const runtime = fileURLToPath(new URL('./generators/physics/data/xray-elements-runtime.ts', import.meta.url));
+  return {
+    name: 'kiln-worker-element-table',
+    enforce: 'pre',
+    resolveId(source) {
+      if (source.endsWith('/xray-elements.ts')) return runtime;
+      return null;
+    },
+  };
+}
+
 export default defineConfig({
+  vite: { worker: { format: 'es', plugins: () => [workerElementTable()] } },
   output: 'static',
   outDir: 'dist',
   base: '/',

@@ -30,3 +30,7 @@ export const loadIndex = (): ReleaseIndex => readJson(join(outDir(), 'index.json
 export const loadSite = (id: string): ReleaseSite => readJson(join(outDir(), 'releases', id, 'site.json'), 'kiln/release-site/1');
 export const loadManifest = (id: string): ReleaseManifest => readJson(join(outDir(), 'releases', id, 'manifest.json'), 'kiln/release-manifest/1');
 export const loadValidation = (id: string): ValidationReport => readJson(join(outDir(), 'releases', id, 'validation.json'), 'kiln/validation/1');
+
+/** A release's model document (kiln/model/1), when the build wrote one. */
+export const loadModel = (id: string): import('../../generators/model/types.ts').ModelDocument | null =>
+  existsSync(join(outDir(), 'releases', id, 'model.json')) ? readJson(join(outDir(), 'releases', id, 'model.json'), 'kiln/model/1') : null;
