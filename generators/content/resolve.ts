@@ -106,6 +106,8 @@ export interface ResolveDetectorInput {
   lineFits: LineFitTable;
   /** Content-root-relative path of the line-fit file (for ResolvedDetector.lineFitsFile). */
   lineFitsPath: string;
+  /** regions.yaml, when the instrument's regions come from it (errors about nodes name it). */
+  regionsSource?: DocSource;
 }
 
 export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
@@ -219,14 +221,15 @@ function resolveRegions(det: DetectorDoc, mergedModel: unknown, spec: Redistribu
   const nodes = g.nodes.map((n, k) => {
     const fwhm = n.readNoiseE !== undefined ? { readNoiseE: n.readNoiseE } : undefined;
     const centroid = n.gainError !== undefined || n.offsetEv !== undefined ? { gainError: n.gainError, offsetEv: n.offsetEv } : undefined;
-    const prefix: FieldPath = ['detectors', index, 'regions', 'nodes', k];
-    const { merged } = mergeModel(mergedModel, { redistribution: JSON.parse(JSON.stringify({ fwhm, centroid })) }, x.instrumentSource, prefix);
+    const src = x.regionsSource ?? x.instrumentSource;
+    const prefix: FieldPath = x.regionsSource ? ['detectors', det.id, 'nodes', k] : ['detectors', index, 'regions', 'nodes', k];
+    const { merged } = mergeModel(mergedModel, { redistribution: JSON.parse(JSON.stringify({ fwhm, centroid })) }, src, prefix);
     const parsed = detectorModelSchema.safeParse(merged);
     if (!parsed.success) {
       const iss = parsed.error.issues[0];
       throw new KilnInputError(`node ${n.id} of detector ${det.id}: ${iss.message}`, {
-        file: x.instrumentSource.file,
-        line: x.instrumentSource.locate?.(prefix)?.line,
+        file: src.file,
+        line: src.locate?.(prefix)?.line,
         field: formatPath(prefix),
         value: n.id,
         expected: iss.code === 'unrecognized_keys' ? `no ${iss.keys.join(', ')} override: the detector's centroid comes from line fits` : 'overrides that keep the model valid',

@@ -21,6 +21,8 @@ import { isSemver } from './semver.ts';
 
 export const CONTENT_DIRS = { instruments: 'instruments', releases: 'releases', archive: 'archive' } as const;
 export const INSTRUMENT_FILE = 'instrument.yaml';
+/** Optional, beside instrument.yaml: readout nodes and row bands per detector (see regionsFileSchema). */
+export const REGIONS_FILE = 'regions.yaml';
 export const DEFAULT_MIRROR_AREA_FILE = 'mirror-area.csv';
 export const RELEASE_FILE = 'release.yaml';
 export const NOTES_FILE = 'notes.md';
@@ -309,6 +311,14 @@ export const regionsSchema = z
     });
   });
 export type RegionsDoc = z.output<typeof regionsSchema>;
+
+/**
+ * regions.yaml: the regions of each detector, kept beside instrument.yaml so that an instrument
+ * whose releases are already published gains regions without touching the file those releases
+ * were sealed with. A detector's regions are given here or in instrument.yaml, not both.
+ */
+export const regionsFileSchema = z.object({ detectors: z.record(safeId, regionsSchema) }).strict();
+export type RegionsFileDoc = z.output<typeof regionsFileSchema>;
 
 /** Which products a release builds for each detector: one per detector, per node, or per node × row band. */
 export const PRODUCTS_PER = ['detector', 'node', 'node-row'] as const;

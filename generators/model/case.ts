@@ -31,6 +31,8 @@ export interface CaseRequest {
   /** Channels merged per output channel; 1 = the model's channels. */
   group: number;
   rsp: boolean;
+  /** false: the ARF only (no matrix is built); the build's rebuild check uses it for later epochs. */
+  matrix?: boolean;
 }
 
 export interface CaseFile {
@@ -43,9 +45,10 @@ export interface CaseResult {
   files: CaseFile[];
   region: Region;
   epoch: string;
-  rmf: RmfData;
+  /** null when only the ARF was asked for. */
+  rmf: RmfData | null;
   arf: ArfData;
-  losses: RowLosses;
+  losses: RowLosses | null;
 }
 
 /** Largest number of energy bins a case may ask for (as the content schema allows). */
@@ -107,13 +110,12 @@ export function buildCase(doc: ModelDocument, modelSha256: string, req: CaseRequ
     bad('channel grouping does not divide the channels', 'group', req.group, `a divisor of ${channels} channels (1, 2, 4, …)`);
   const grid = caseGrid(doc, req.energies, () => modelGrid(job));
   const choice = { region, grid, group: req.group };
-  const red = regionRedistribution(job, choice, detectorValidity(job).validFrom, onProgress);
   const area = areaOnDate(job, grid.bins, grid.text, epoch!, req.date);
   const stem = fileStem(doc, region.label, req.date);
-  const files: CaseFile[] = [
-    { kind: 'rmf', name: `${stem}.rmf`, fits: writeRmf(red.rmf) },
-    { kind: 'arf', name: `${stem}.arf`, fits: writeArf(area.arf) },
-  ];
+  const arfFile: CaseFile = { kind: 'arf', name: `${stem}.arf`, fits: writeArf(area.arf) };
+  if (req.matrix === false) return { files: [arfFile], region, epoch: epoch!.id, rmf: null, arf: area.arf, losses: null };
+  const red = regionRedistribution(job, choice, detectorValidity(job).validFrom, onProgress);
+  const files: CaseFile[] = [{ kind: 'rmf', name: `${stem}.rmf`, fits: writeRmf(red.rmf) }, arfFile];
   if (req.rsp) files.push({ kind: 'rsp', name: `${stem}.rsp`, fits: writeRmf(fullResponse(red.rmf, area.arf, rspMetaFor(job, epoch!, area, choice))) });
   return { files, region, epoch: epoch!.id, rmf: red.rmf, arf: area.arf, losses: red.losses };
 }

@@ -23,23 +23,21 @@ export function rebuildChecks(doc: ModelDocument, modelSha256: string, detector:
   for (const f of files) if (f.kind !== 'arf') regions.set(`${f.node ?? ''}/${f.rowBand ?? ''}`, { node: f.node ?? null, rowBand: f.rowBand ?? null });
   if (regions.size === 0) regions.set('/', { node: null, rowBand: null });
   const rebuilt = new Map<string, CaseFile>();
+  const rsp = doc.release.products.includes('rsp');
+  let first = true;
   for (const reg of regions.values()) {
     const band = reg.rowBand === null ? null : det.regions!.rowBands.find((b) => b.id === reg.rowBand)!;
-    for (const epoch of det.epochs) {
-      const c = buildCase(doc, modelSha256, {
-        detector,
-        node: reg.node,
-        row: band ? band.firstTransfer : null,
-        date: epoch.date,
-        energies: { kind: 'model' },
-        group: 1,
-        rsp: doc.release.products.includes('rsp'),
-      });
+    det.epochs.forEach((epoch, k) => {
+      // The matrix is rebuilt once per region (and per epoch for an RSP); ARFs once per epoch.
+      const matrix = k === 0 || rsp;
+      if (!matrix && !first) return;
+      const c = buildCase(doc, modelSha256, { detector, node: reg.node, row: band ? band.firstTransfer : null, date: epoch.date, energies: { kind: 'model' }, group: 1, rsp, matrix });
       for (const f of c.files) {
         const key = f.kind === 'rmf' ? `rmf/${reg.node}/${reg.rowBand}` : f.kind === 'arf' ? `arf/${epoch.id}` : `rsp/${reg.node}/${reg.rowBand}/${epoch.id}`;
         if (!rebuilt.has(key)) rebuilt.set(key, f);
       }
-    }
+    });
+    first = false;
   }
   return files.map((f) => {
     const key = f.kind === 'rmf' ? `rmf/${f.node ?? null}/${f.rowBand ?? null}` : f.kind === 'arf' ? `arf/${f.epoch}` : `rsp/${f.node ?? null}/${f.rowBand ?? null}/${f.epoch}`;

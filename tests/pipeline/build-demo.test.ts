@@ -52,7 +52,7 @@ describe('kiln build of the demo content', () => {
       expect(manifests.get(id)!.files.map((m) => m.path).sort()).toEqual(files.map((f) => `files/${f}`).sort());
     }
     // Nothing outside the documented layout.
-    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|files\/[^/]+\.gz))$/);
+    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
@@ -70,7 +70,7 @@ describe('kiln build of the demo content', () => {
         n++;
       }
     }
-    expect(n).toBe(22); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch
+    expect(n).toBe(38); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch; + 16 (2.1.0): 8 per-node RMFs + 8 ARFs
   });
 
   it.runIf(runAstropyChecks)('astropy opens every gunzipped product: verify("exception") passes, CHECKSUM/DATASUM verify, no warnings', () => {
@@ -83,7 +83,7 @@ describe('kiln build of the demo content', () => {
       writeFileSync(file, gunzipSync(readFileSync(p.file)));
       return { file, kind: p.kind, name: `${p.release}/${p.path}` };
     });
-    expect(list.length).toBe(22);
+    expect(list.length).toBe(38);
     const code = `
 import json, sys, warnings
 from astropy.io import fits
@@ -128,7 +128,7 @@ print(json.dumps(out))
 
   it('`kiln check` passes on every product (exit 0)', () => {
     const files = products().map((p) => p.file);
-    expect(files.length).toBe(22);
+    expect(files.length).toBe(38);
     const r = kiln('check', ...files, '--json');
     expect(r.stderr).toBe('');
     expect(r.status, r.stdout.slice(0, 2000)).toBe(0);

@@ -28,8 +28,9 @@ describe('kiln build is deterministic', () => {
   it('two builds (different content and output paths) give byte-identical trees, --workers 1 vs --workers 2', () => {
     const one = buildTree('1', 'out-a');
     const two = buildTree('2', 'site-b');
-    // 22 products + 3 × 3 JSON files + index.json for the demo (content/releases/*/release.yaml).
-    expect(one.size).toBe(22 + 9 + 1);
+    // 38 products + 4 × 3 JSON files + 2 × 2 model documents and schemas (the built releases
+    // 2.0.0 and 2.1.0; the archives of 1.0.0 and 1.1.0 predate them) + index.json.
+    expect(one.size).toBe(38 + 12 + 4 + 1);
     expectSameTrees(one, two);
   });
 

@@ -64,7 +64,8 @@ export function requestFrom(f: FormChoice): CaseRequest {
 const ROW_FRACTIONS = [0.1, 0.35, 0.7];
 
 export async function generate(doc: ModelDocument, sha: string, req: CaseRequest, onProgress: (done: number, total: number) => void, digest: (b: Uint8Array) => Promise<string>): Promise<Generated> {
-  const c = buildCase(doc, sha, req, onProgress);
+  const c0 = buildCase(doc, sha, req, onProgress);
+  const c = { ...c0, rmf: c0.rmf! };
   const checks: Check[] = [];
   for (const f of c.files) checks.push(...checkFile(f.fits, f.name, { product: f.name, rmf: f.kind === 'arf' ? c.rmf : undefined }).checks);
   const lo = c.arf.energLoKeV;
