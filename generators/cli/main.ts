@@ -14,6 +14,7 @@ const VERBS: Record<string, { summary: string; load: () => Promise<{ command: Co
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },
   efficiency: { summary: 'print the layer-by-layer efficiency of a detector', load: () => import('./efficiency.ts') },
+  response: { summary: 'make the RMF and ARF of one detector position and date from a release\'s model document', load: () => import('./response.ts') },
   inspect: { summary: 'print the HDUs, key header values and columns of a FITS file', load: () => import('./inspect.ts') },
 };
 

@@ -18,6 +18,8 @@ export interface CsvColumn {
   type: 'number' | 'text';
   /** An empty cell is allowed and reads as null. */
   nullable?: boolean;
+  /** The column may be left out of the header (its key is then absent from every row). */
+  optional?: boolean;
 }
 
 export interface CsvRow {
@@ -99,7 +101,7 @@ function matchHeader(h: string, columns: readonly CsvColumn[]): { col: CsvColumn
 
 export function parseCsv(text: string, file: string, columns: readonly CsvColumn[]): CsvTable {
   const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
-  const expectedHeader = columns.map(headerName).join(',');
+  const expectedHeader = columns.map((c) => (c.optional ? `[${headerName(c)}]` : headerName(c))).join(',');
   let headerLine = 0;
   let order: CsvColumn[] | null = null;
   const rows: CsvRow[] = [];
@@ -126,7 +128,7 @@ export function parseCsv(text: string, file: string, columns: readonly CsvColumn
         seen.add(m.col.key);
         order.push(m.col);
       }
-      const missing = columns.filter((c) => !seen.has(c.key)).map(headerName);
+      const missing = columns.filter((c) => !seen.has(c.key) && !c.optional).map(headerName);
       if (missing.length)
         throw new KilnInputError(`missing column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`, { file, line, field: 'header', value: s, expected: `the header ${expectedHeader}` });
       return;

@@ -12,10 +12,10 @@ import { readRegularFile } from '../node/files.ts';
 import { LIMIT_NAMES, MAX_CSV_BYTES, MAX_NOTES_BYTES, MAX_YAML_BYTES } from './limits.ts';
 import { basename, dirname, join } from 'node:path';
 import { KilnInputError } from '../errors.ts';
-import { checkMirrorCoversGrid, parseInstrumentText, parseReleaseText } from './documents.ts';
+import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText } from './documents.ts';
 import { formatPath } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
-import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
 import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
@@ -76,6 +76,18 @@ interface LoadedInstrument {
   instrument: Instrument;
   source: DocSource;
   inputs: InputFile[];
+  /** regions.yaml, when present: its source for errors and its bytes (an input only of releases that use regions). */
+  regions: { source: DocSource; input: InputFile } | null;
+}
+
+/** Whether a path exists at all (a link or a folder named regions.yaml is then refused by readBytes). */
+async function exists(p: string): Promise<boolean> {
+  try {
+    await lstat(p);
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 async function loadInstrumentAt(root: string, file: string, rel: (p: string) => string): Promise<LoadedInstrument> {
@@ -86,6 +98,20 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
   const mirrorBytes = await readBytes(root, mirrorFile, 'csv', `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
   const mirror = parseMirrorArea(decode(mirrorBytes, mirrorFile), mirrorFile);
   checkMirrorCoversGrid(mirror, doc);
+  const regionsFile = join(dir, REGIONS_FILE);
+  let regions: LoadedInstrument['regions'] = null;
+  if (await exists(regionsFile)) {
+    const rb = await readBytes(root, regionsFile, 'yaml', `${REGIONS_FILE}, the readout nodes and row bands of the detectors`);
+    const parsedRegions = parseRegionsText(decode(rb, regionsFile), regionsFile);
+    const src: DocSource = { file: regionsFile, locate: parsedRegions.yaml.locate };
+    for (const [id, g] of Object.entries(parsedRegions.doc.detectors)) {
+      const d = doc.detectors.find((x) => x.id === id);
+      if (!d) throw releaseError(src, ['detectors', id], 'unknown detector', id, `a detector of ${doc.id}: ${doc.detectors.map((x) => x.id).join(', ')}`);
+      if (d.regions) throw releaseError(src, ['detectors', id], `regions of detector ${id} are also given in ${INSTRUMENT_FILE}`, id, 'regions in one of the two files');
+      d.regions = g;
+    }
+    regions = { source: src, input: { path: rel(regionsFile), bytes: rb } };
+  }
   return {
     instrument: { ...doc, dir, file, mirror },
     source: { file, locate: yaml.locate },
@@ -93,6 +119,7 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
       { path: rel(file), bytes },
       { path: rel(mirrorFile), bytes: mirrorBytes },
     ],
+    regions,
   };
 }
 
@@ -195,9 +222,12 @@ async function resolveRelease(
         detectorId,
         lineFits,
         lineFitsPath: rel(file),
+        regionsSource: ins.regions?.source,
       }),
     );
   }
+  // regions.yaml is an input of the releases whose products depend on it (as in the fingerprint).
+  if (ins.regions && (release.productsPer !== 'detector' || detectors.some((d) => d.redistribution.transferLoss !== undefined))) inputs.push(ins.regions.input);
   // A line-fit file no detector uses is most likely a detector left out of release.yaml.
   const lfDir = join(release.dir, LINEFITS_DIR);
   if (await isDirectory(lfDir))

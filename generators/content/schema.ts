@@ -21,6 +21,8 @@ import { isSemver } from './semver.ts';
 
 export const CONTENT_DIRS = { instruments: 'instruments', releases: 'releases', archive: 'archive' } as const;
 export const INSTRUMENT_FILE = 'instrument.yaml';
+/** Optional, beside instrument.yaml: readout nodes and row bands per detector (see regionsFileSchema). */
+export const REGIONS_FILE = 'regions.yaml';
 export const DEFAULT_MIRROR_AREA_FILE = 'mirror-area.csv';
 export const RELEASE_FILE = 'release.yaml';
 export const NOTES_FILE = 'notes.md';
@@ -200,6 +202,24 @@ export const centroidSchema = z.discriminatedUnion('source', [centroidLaw, lineF
 export const tailSchema = z.discriminatedUnion('source', [tailLaw, lineFitsSource]);
 export const shelfSchema = z.discriminatedUnion('source', [shelfLaw, lineFitsSource]);
 
+/**
+ * Charge lost in transfer (physics/transfer-loss.ts): f(E) = lossPerTransfer·(E/referenceKeV)^(−energyIndex),
+ * stated, or fitted to line fits measured in several row bands (`source: line-fits`; energyIndex
+ * fitted too unless given).
+ */
+/** A per-transfer loss beyond 1e-2 loses a third of the charge in 40 transfers: a units slip, not a detector. */
+const MAX_LOSS_PER_TRANSFER = 1e-2;
+/** |α| beyond 3 is not a packet-size dependence anyone has measured (common practice, no source). */
+const MAX_ABS_ENERGY_INDEX = 3;
+const energyIndexSchema = finite.gte(-MAX_ABS_ENERGY_INDEX).lte(MAX_ABS_ENERGY_INDEX);
+export const transferLossSchema = z.discriminatedUnion('source', [
+  z
+    .object({ source: z.literal('law'), lossPerTransfer: finite.gte(0).lt(MAX_LOSS_PER_TRANSFER), energyIndex: energyIndexSchema.default(0), referenceKeV: positive })
+    .strict(),
+  z.object({ source: z.literal('line-fits'), energyIndex: energyIndexSchema.optional(), referenceKeV: positive }).strict(),
+]);
+export type TransferLossInput = z.output<typeof transferLossSchema>;
+
 export const redistributionSchema = z
   .object({
     pairEnergyEv: positive,
@@ -210,6 +230,8 @@ export const redistributionSchema = z
     shelf: shelfSchema,
     escape: z.boolean(),
     siFluorescenceFraction: fractionBelowOne.default(0),
+    /** Absent: no loss in transfer (every release before regions existed). */
+    transferLoss: transferLossSchema.optional(),
   })
   .strict();
 
@@ -239,6 +261,68 @@ export const detectorModelSchema = z
   .object({ stack: stackInputSchema, redistribution: redistributionSchema })
   .strict()
   .superRefine(checkDetectorModel);
+
+// ---------------------------------------------------------------------------------------------
+// Regions of a detector: readout nodes (named regions with their own noise and gain) and row
+// bands (ranges of transfer count: row r of a frame makes r parallel transfers to the register).
+
+/** A readout node: overrides of read noise, gain error and offset, merged as release overrides are. */
+export const nodeSchema = z
+  .object({
+    id: safeId,
+    name: text,
+    readNoiseE: nonNegative.optional(),
+    gainError: finite.gt(-MAX_ABS_GAIN_ERROR).lt(MAX_ABS_GAIN_ERROR).optional(),
+    offsetEv: finite.optional(),
+  })
+  .strict();
+export type NodeDoc = z.output<typeof nodeSchema>;
+
+const transferCount = z.number().int().gte(0);
+export const rowBandSchema = z.object({ id: safeId, firstTransfer: transferCount, lastTransfer: transferCount }).strict();
+
+/** Upper bound on rows (transfers) of a frame: catches a stray digit. */
+const MAX_TRANSFERS = 100000;
+
+export const regionsSchema = z
+  .object({
+    /** Rows of a frame = the largest transfer count + 1; rows are numbered 0 … transfers − 1 from the register. */
+    transfers: z.number().int().gte(1).lte(MAX_TRANSFERS),
+    nodes: z.array(nodeSchema).min(1),
+    rowBands: z.array(rowBandSchema).min(1),
+  })
+  .strict()
+  .superRefine((g, ctx) => {
+    const unique = (list: { id: string }[], what: string) => {
+      const seen = new Map<string, number>();
+      list.forEach((x, i) => {
+        if (seen.has(x.id)) issue(ctx, `${what} id "${x.id}" is used twice (also ${what}s[${seen.get(x.id)}])`, `unique ${what} ids`, [`${what}s`, i, 'id']);
+        seen.set(x.id, i);
+      });
+    };
+    unique(g.nodes, 'node');
+    unique(g.rowBands, 'rowBand');
+    g.rowBands.forEach((b, i) => {
+      if (!(b.lastTransfer >= b.firstTransfer)) issue(ctx, 'row band is reversed', `lastTransfer ≥ firstTransfer = ${b.firstTransfer}`, ['rowBands', i, 'lastTransfer']);
+      if (!(b.lastTransfer < g.transfers)) issue(ctx, 'row band leaves the detector', `lastTransfer ≤ transfers − 1 = ${g.transfers - 1}`, ['rowBands', i, 'lastTransfer']);
+      const prev = g.rowBands[i - 1];
+      if (prev && !(b.firstTransfer > prev.lastTransfer))
+        issue(ctx, `row band overlaps the previous one (${prev.id}, to ${prev.lastTransfer})`, `bands in row order without overlap: firstTransfer > ${prev.lastTransfer}`, ['rowBands', i, 'firstTransfer']);
+    });
+  });
+export type RegionsDoc = z.output<typeof regionsSchema>;
+
+/**
+ * regions.yaml: the regions of each detector, kept beside instrument.yaml so that an instrument
+ * whose releases are already published gains regions without touching the file those releases
+ * were sealed with. A detector's regions are given here or in instrument.yaml, not both.
+ */
+export const regionsFileSchema = z.object({ detectors: z.record(safeId, regionsSchema) }).strict();
+export type RegionsFileDoc = z.output<typeof regionsFileSchema>;
+
+/** Which products a release builds for each detector: one per detector, per node, or per node × row band. */
+export const PRODUCTS_PER = ['detector', 'node', 'node-row'] as const;
+export type ProductsPer = (typeof PRODUCTS_PER)[number];
 
 // ---------------------------------------------------------------------------------------------
 // Grids.
@@ -281,6 +365,8 @@ export const detectorSchema = z
     description: text,
     stack: stackInputSchema,
     redistribution: redistributionSchema,
+    /** Absent: the detector is one region. */
+    regions: regionsSchema.optional(),
   })
   .strict()
   .superRefine(checkDetectorModel);
@@ -362,6 +448,15 @@ export const redistributionOverrideSchema = z
     shelf: z.object({ source: sourceEnum.optional(), fraction: fractionBelowOne.optional() }).strict().optional(),
     escape: z.boolean().optional(),
     siFluorescenceFraction: fractionBelowOne.optional(),
+    transferLoss: z
+      .object({
+        source: sourceEnum.optional(),
+        lossPerTransfer: finite.gte(0).lt(MAX_LOSS_PER_TRANSFER).optional(),
+        energyIndex: energyIndexSchema.optional(),
+        referenceKeV: positive.optional(),
+      })
+      .strict()
+      .optional(),
   })
   .strict();
 
@@ -403,6 +498,8 @@ export const releaseSchema = z
     validFrom: isoDate,
     validTo: isoDate.nullable(),
     products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
+    /** Products per detector (as before regions existed), per readout node, or per node × row band. */
+    productsPer: z.enum(PRODUCTS_PER).default('detector'),
     epochs: z.array(epochSchema).min(1),
     detectors: z.record(safeId, releaseDetectorSchema),
   })

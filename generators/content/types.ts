@@ -39,6 +39,17 @@ export interface ResolvedDetector {
   lineFitsFile: string;
   /** The epochs to build (the release's, or the subset listed for this detector), in time order. */
   epochs: Epoch[];
+  /** Line fits measured in row bands (the CSV's region column); they feed the transfer-loss fit. */
+  bandLineFits?: LineFit[];
+  regions?: ResolvedRegions;
+}
+
+/** A detector's readout nodes (each with its own resolved model) and row bands. */
+export interface ResolvedRegions {
+  /** Rows of a frame: transfer counts 0 … transfers − 1. */
+  transfers: number;
+  nodes: { id: string; name: string; redistribution: RedistributionSpec }[];
+  rowBands: { id: string; firstTransfer: number; lastTransfer: number }[];
 }
 
 /** A file the release was built from, for hashing (inputsSha256). */

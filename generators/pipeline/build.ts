@@ -42,6 +42,13 @@ import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
 import { checksPath } from '../site-data/paths.ts';
 export { gzipProduct } from './job-output.ts';
+import { canonicalJson } from './hash.ts';
+import { XRAY_TABLE } from '../physics/data/xray-elements.ts';
+import { jobsFromModel, modelDocumentOf } from '../model/document.ts';
+import { parseModelDocument } from '../model/parse.ts';
+import { MODEL_FILE, MODEL_SCHEMA_FILE } from '../model/types.ts';
+import { MODEL_JSON_SCHEMA } from '../model/model-schema.ts';
+import type { DetectorJob } from './job.ts';
 /** Statuses whose products are frozen in the archive. */
 const FROZEN_STATUSES = new Set(['published', 'superseded']);
 
@@ -132,7 +139,28 @@ export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   });
 }
 
+/** The release's model document in its output directory. */
+interface ModelRef {
+  path: string;
+  bytes: number;
+  sha256: string;
+}
+
+/**
+ * The release's model document (canonical JSON) and the jobs read back from it: the build's own
+ * products are made from the document, exactly as anything outside the build would remake them.
+ * Each job also carries the document to rebuild its products through the case path (rebuild check).
+ */
+export function modelJobs(r: ResolvedRelease): { jobs: DetectorJob[]; model: { text: string; bytes: number; sha256: string } } {
+  const text = canonicalJson(modelDocumentOf(jobsOf(r), XRAY_TABLE)) + '\n';
+  const sha256 = sha256Hex(text);
+  const doc = parseModelDocument(text, `${r.release.id}/${MODEL_FILE}`);
+  const jobs = jobsFromModel(doc, sha256).map((j) => ({ ...j, rebuildFrom: doc }));
+  return { jobs, model: { text, bytes: new TextEncoder().encode(text).length, sha256 } };
+}
+
 interface ReleaseWork {
+  model: ModelRef | null;
   r: ResolvedRelease;
   dir: string;
   outcome: ReleaseOutcome;
@@ -159,6 +187,7 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
     ...releaseHead(w.r.release),
     checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
     products: w.products,
+    ...(w.model ? { model: w.model } : {}),
   };
 }
 
@@ -170,6 +199,8 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     sha256: p.sha256,
     kind: p.kind,
     detector: p.detector,
+    ...(p.node !== undefined ? { node: p.node } : {}),
+    ...(p.rowBand !== undefined ? { rowBand: p.rowBand } : {}),
     epoch: p.epoch,
     validFrom: p.validFrom,
     validTo: p.validTo,
@@ -216,7 +247,7 @@ function serveArchive(
   r: ResolvedRelease,
   archive: VerifiedArchive,
   dir: string,
-): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
+): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown>; model: ModelRef | null } {
   const { bytes, site, report } = archive;
   mkdirSync(join(dir, 'files'), { recursive: true });
   for (const [path, b] of bytes) if (path.startsWith('files/')) writeFileSync(join(dir, path), b);
@@ -225,8 +256,16 @@ function serveArchive(
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
   writeSiteDocuments(dir, splitRelease(current, report.checks));
   writeJson(join(dir, 'validation.json'), report);
+  // Archives sealed since model documents exist carry theirs; older ones have none.
+  const modelBytes = bytes.get(MODEL_FILE);
+  let model: ModelRef | null = null;
+  if (modelBytes) {
+    writeFileSync(join(dir, MODEL_FILE), modelBytes);
+    writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+    model = { path: MODEL_FILE, bytes: modelBytes.length, sha256: sha256Hex(modelBytes) };
+  }
   const manifest = archive.manifest;
-  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
+  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters }, model };
 }
 
 /** What a release keeps of one job once its output is on disk: summaries only. */
@@ -247,7 +286,7 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
   const products: ProductSummary[] = m.files.map((f, i) => {
     const path = `files/${f.name}`;
     writeFileSync(join(dir, path), out.gz[i]);
-    return { id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: f.bytes, sha256: f.sha256, validFrom: f.validFrom, validTo: f.validTo };
+    return { id: f.id, kind: f.kind, detector: f.detector, ...(f.node !== undefined ? { node: f.node } : {}), ...(f.rowBand !== undefined ? { rowBand: f.rowBand } : {}), epoch: f.epoch, path, bytes: f.bytes, sha256: f.sha256, validFrom: f.validFrom, validTo: f.validTo };
   });
   const { entry, documents } = splitDetector(releaseId, m.site, m.parameters, products, []);
   const checksDoc = checksPath(m.site.id);
@@ -321,13 +360,19 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       let products: ProductSummary[];
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
+      let modelRef: ModelRef | null = null;
       if (frozen) {
         const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
+        modelRef = served.model;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
       } else {
-        const slots = await runReleaseJobs(r, dir, pool, ctx);
+        const { jobs, model } = modelJobs(r);
+        writeFileSync(join(dir, MODEL_FILE), model.text);
+        writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+        modelRef = { path: MODEL_FILE, bytes: model.bytes, sha256: model.sha256 };
+        const slots = await runReleaseJobs(r, jobs, dir, pool, ctx);
         products = slots.flatMap((x) => x.products);
         checks = slots.flatMap((x) => x.checks);
         nnz += slots.reduce((s, x) => s + x.nnz, 0);
@@ -353,6 +398,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         r,
         dir,
         products,
+        model: modelRef,
         outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
@@ -404,9 +450,9 @@ interface JobContext {
  * its verified entry is there, else run on the pool (and cached). Every output is written to disk
  * as it arrives and only its summary kept, in job order.
  */
-async function runReleaseJobs(r: ResolvedRelease, dir: string, pool: JobPool, ctx: JobContext): Promise<JobSlot[]> {
+async function runReleaseJobs(r: ResolvedRelease, jobs: DetectorJob[], dir: string, pool: JobPool, ctx: JobContext): Promise<JobSlot[]> {
   const rel = r.release;
-  const tasks = jobsOf(r).map((job) => ({ job, fingerprint: jobFingerprint(job, ctx.generator), generator: ctx.generator }));
+  const tasks = jobs.map((job) => ({ job, fingerprint: jobFingerprint(job, ctx.generator), generator: ctx.generator }));
   const slots: JobSlot[] = new Array(tasks.length);
   const t0 = performance.now();
   let done = 0;

@@ -6,9 +6,11 @@ import type { MirrorAreaTable } from '../physics/arf.ts';
 import type { ResolvedDetector } from '../content/types.ts';
 import type { ChannelGrid, EnergyGridSpec } from '../response/model-types.ts';
 import type { ProductKind } from '../site-data/types.ts';
+import type { ProductsPer } from '../model/regions.ts';
+import type { ModelDocument } from '../model/types.ts';
 
 export interface DetectorJob {
-  release: { id: string; date: string; validFrom: string; validTo: string | null; products: ProductKind[] };
+  release: { id: string; date: string; validFrom: string; validTo: string | null; products: ProductKind[]; productsPer?: ProductsPer };
   instrument: {
     id: string;
     telescope: string;
@@ -18,6 +20,10 @@ export interface DetectorJob {
     mirror: MirrorAreaTable;
   };
   detector: ResolvedDetector;
+  /** SHA-256 of the model document the job was read from (recorded in each product's HISTORY); absent for jobs made without one. */
+  modelSha256?: string;
+  /** The whole model document: when present, the job rebuilds each product from it through the case path and checks the bytes. */
+  rebuildFrom?: ModelDocument;
 }
 
 /** A product file before compression. */
@@ -27,6 +33,9 @@ export interface BuiltFile {
   detector: string;
   /** Epoch id; for an RMF valid across all of the detector's epochs, "all". */
   epoch: string;
+  /** Readout node and row band of a per-region product (absent: the whole detector). */
+  node?: string;
+  rowBand?: string;
   /** File name inside the release's files/ directory (compressed: ends in .gz). */
   name: string;
   fits: Uint8Array;

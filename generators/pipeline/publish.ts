@@ -11,7 +11,7 @@
  *   status-temp        release.yaml is the old or the new file (atomic rename), never partial.
  * One publish at a time per content tree (a lock beside content/archive).
  */
-import { mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { tmpdir } from 'node:os';
 import { loadContent } from '../content/index.ts';
@@ -25,6 +25,7 @@ import { build, verifyFrozen, type BuildOptions } from './build.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
 import { readReleaseSite } from './site-files.ts';
+import { MODEL_FILE } from '../model/types.ts';
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 
@@ -121,6 +122,8 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
     for (const name of readdirSync(join(built, 'files')).sort()) writeFileSynced(join(staged, 'files', name), readFileSync(join(built, 'files', name)));
     fsyncDir(join(staged, 'files'));
     writeFileSynced(join(staged, 'validation.json'), readFileSync(join(built, 'validation.json')));
+    // The model document is sealed with the products (its schema is the code's, written beside it on serving).
+    if (existsSync(join(built, MODEL_FILE))) writeFileSynced(join(staged, MODEL_FILE), readFileSync(join(built, MODEL_FILE)));
     // The archive records the release as it is from now on: published.
     // The build writes the site data split per detector; the archive keeps the whole release.
     const docs: Record<string, { status: string }> = {

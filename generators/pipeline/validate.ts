@@ -69,7 +69,8 @@ function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[]
     const r = checkFile(f.fits, f.name, { product: f.id, rmf: f.kind === 'arf' ? rmf : undefined });
     checks.push(...r.checks);
   }
-  const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
+  // Accounting and closure are of the whole detector's matrix: per-region releases do not ship it, so name it by the detector.
+  const rmfId = built.files.find((f) => f.kind === 'rmf' && f.node === undefined && f.rowBand === undefined)?.id ?? `${job.detector.id}-rmf`;
   checks.push(...accountingChecks(built, rmfId));
   // Measured line efficiencies are absolute (events in any channel per photon on the detector):
   // the model folds the stack's QE on the first epoch's date with the matrix row at the line.

@@ -25,6 +25,8 @@ export interface LineFit {
    */
   efficiency: number | null;
   efficiencyErr: number | null;
+  /** Row band the line was measured in (absent: the whole detector). */
+  region?: string;
 }
 
 /** FWHM law: σ² = (w·N_r)²·n_pix(E) + F·w·E + σ₀², n_pix(E) = a + b·E. */
@@ -78,7 +80,14 @@ export interface RedistributionSpec {
   escape: boolean;
   /** Optional Si Kα fluorescence line from the detector's own surface layers: fraction above the Si K edge. */
   siFluorescenceFraction: number;
+  /** Charge lost in transfer; absent = none. Resolved models (the model document) always hold the law. */
+  transferLoss?: TransferLossSpec;
 }
+
+/** f(E) = lossPerTransfer·(E/referenceKeV)^(−energyIndex) per transfer (physics/transfer-loss.ts). */
+export type TransferLossSpec =
+  | { source: 'law'; lossPerTransfer: number; energyIndex: number; referenceKeV: number }
+  | { source: 'line-fits'; energyIndex?: number; referenceKeV: number };
 
 /** The channel grid: PI channels of equal width in energy. */
 export interface ChannelGrid {

@@ -45,6 +45,9 @@ export interface ProductSummary {
   id: string;
   kind: ProductKind;
   detector: string;
+  /** Readout node and row band of a per-region product; absent for a whole-detector product. */
+  node?: string;
+  rowBand?: string;
   epoch: string;
   /** Release-relative path, e.g. "files/fi0_e2_v1.2.0.rmf.gz". */
   path: string;
@@ -66,6 +69,8 @@ export interface ReleaseSummary {
   supersedes: string | null;
   checks: { pass: number; fail: number; warn: number; review: number };
   products: ProductSummary[];
+  /** The release's model document (kiln/model/1), relative to the release; absent for archives sealed before model documents. */
+  model?: { path: string; bytes: number; sha256: string };
 }
 
 export interface ReleaseIndex {
@@ -81,6 +86,9 @@ export interface ManifestFile {
   sha256: string;
   kind: ProductKind;
   detector: string;
+  /** Readout node and row band of a per-region product; absent for a whole-detector product. */
+  node?: string;
+  rowBand?: string;
   epoch: string;
   validFrom: string;
   validTo: string | null;

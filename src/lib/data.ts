@@ -68,3 +68,7 @@ export function loadChecks(id: string): Check[] {
 
 /** One split document of a release by its release-relative path (not kept). */
 export const loadDoc = <T,>(id: string, path: string): T => reader(id)<T>(path);
+
+/** A release's model document (kiln/model/1), when the build wrote one. */
+export const loadModel = (id: string): import('../../generators/model/types.ts').ModelDocument | null =>
+  existsSync(join(relDir(id), 'model.json')) ? readJson(join(relDir(id), 'model.json'), 'kiln/model/1') : null;

@@ -11,7 +11,7 @@ import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 import { kiln, readTree, sha256, workspace, type CliResult, type Workspace } from './helpers.ts';
 
 /** Releases of the demo content (content/releases/); see content/README.md. */
-const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0'];
+const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0', '2.1.0'];
 
 interface ManifestFile {
   path: string;
@@ -61,7 +61,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
@@ -79,7 +79,7 @@ describe('kiln build of the demo content', () => {
         n++;
       }
     }
-    expect(n).toBe(22); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch
+    expect(n).toBe(38); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch; + 16 (2.1.0): 8 per-node RMFs + 8 ARFs
   });
 
   it.runIf(runAstropyChecks)('astropy opens every gunzipped product: verify("exception") passes, CHECKSUM/DATASUM verify, no warnings', () => {
@@ -92,7 +92,7 @@ describe('kiln build of the demo content', () => {
       writeFileSync(file, gunzipSync(readFileSync(p.file)));
       return { file, kind: p.kind, name: `${p.release}/${p.path}` };
     });
-    expect(list.length).toBe(22);
+    expect(list.length).toBe(38);
     const code = `
 import json, sys, warnings
 from astropy.io import fits
@@ -137,7 +137,7 @@ print(json.dumps(out))
 
   it('`kiln check` passes on every product (exit 0)', () => {
     const files = products().map((p) => p.file);
-    expect(files.length).toBe(22);
+    expect(files.length).toBe(38);
     const r = kiln('check', ...files, '--json');
     expect(r.stderr).toBe('');
     expect(r.status, r.stdout.slice(0, 2000)).toBe(0);

@@ -33,7 +33,8 @@ function canonical(v: unknown): string {
 }
 
 describe('kiln publish', () => {
-  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', () => {
+  // Several builds of the four-release demo on a shared machine: more than the default minute.
+  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', { timeout: 240_000 }, () => {
     const ws = fresh();
     // The candidate as built before publishing, for comparison.
     const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), '--quiet');
