@@ -15,6 +15,7 @@ import { formatPath } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
 import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
+import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
 import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
 
@@ -75,14 +76,36 @@ async function loadInstrumentAt(file: string, rel: (p: string) => string): Promi
   const mirrorBytes = await readBytes(mirrorFile, `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
   const mirror = parseMirrorArea(decode(mirrorBytes, mirrorFile), mirrorFile);
   checkMirrorCoversGrid(mirror, doc);
+  const sources = await loadSourcesIn(join(dir, SOURCES_DIR));
   return {
-    instrument: { ...doc, dir, file, mirror },
+    instrument: { ...doc, dir, file, mirror, sources },
     source: { file, locate: yaml.locate },
     inputs: [
       { path: rel(file), bytes },
       { path: rel(mirrorFile), bytes: mirrorBytes },
     ],
   };
+}
+
+/** One reference source document (sources/<id>.yaml). */
+export async function loadSourceFile(path: string): Promise<SourceSpec> {
+  const bytes = await readBytes(path, 'a source description (YAML)');
+  return parseSourceText(decode(bytes, path), path);
+}
+
+/** The reference sources of an instrument, sorted by file name; each id must equal its file name. */
+async function loadSourcesIn(dir: string): Promise<SourceSpec[]> {
+  if (!(await isDirectory(dir))) return [];
+  const out: SourceSpec[] = [];
+  for (const name of (await readdir(dir)).sort()) {
+    if (IGNORED_FILES.test(name)) continue;
+    const file = join(dir, name);
+    if (!name.endsWith('.yaml')) throw new KilnInputError(`unexpected file in ${SOURCES_DIR}/`, { file, expected: 'only <source-id>.yaml files (and README.md)' });
+    const s = await loadSourceFile(file);
+    if (s.doc.id !== name.slice(0, -'.yaml'.length)) throw new KilnInputError('source id differs from its file name', { file, field: 'id', value: s.doc.id, expected: `"${name.slice(0, -5)}" (or rename the file)` });
+    out.push(s);
+  }
+  return out;
 }
 
 /** One instrument.yaml (and its mirror table), e.g. for `kiln efficiency`. */
