@@ -132,7 +132,7 @@ export function parseSourceText(text: string, file: string): SourceSpec {
 export function checkSourceInRange(s: SourceSpec, energyMinKeV: number, energyMaxKeV: number): void {
   s.doc.components.forEach((c, i) => {
     if (c.kind === 'gaussian-line' && !(c.energyKeV >= energyMinKeV && c.energyKeV <= energyMaxKeV))
-      throw new KilnInputError('line outside the response energy range', { file: s.file, field: `components[${i}].energyKeV`, value: c.energyKeV, expected: `${energyMinKeV}–${energyMaxKeV} keV (ENERG_LO..ENERG_HI of the RMF)` });
+      throw new KilnInputError('line outside the response energy range', { file: s.file, field: `components[${i}].energyKeV`, value: c.energyKeV, expected: `${+energyMinKeV.toPrecision(6)}–${+energyMaxKeV.toPrecision(6)} keV (ENERG_LO..ENERG_HI of the RMF)` });
   });
 }
 
