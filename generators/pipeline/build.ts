@@ -29,6 +29,7 @@ import { countStatuses } from '../checks/index.ts';
 import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
 import { crossReleaseChecks } from './cross-release.ts';
+import { impactChecks, releaseSpectral } from './impact.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
@@ -255,11 +256,20 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       let products: ProductSummary[];
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
+      // Predicted rates of the reference sources and the impact of the change from the superseded release.
+      const older = works.find((w) => w.r.release.id === rel.supersedes) ?? null;
+      const spectralOf = (ps: ProductSummary[]) => {
+        const s = releaseSpectral(r.instrument, { id: rel.id, dir, products: ps }, older ? { id: older.r.release.id, dir: older.dir, products: older.products } : null, log);
+        if (s) writeJson(join(dir, 'spectral.json'), s);
+        return s;
+      };
       if (frozen) {
         const served = serveArchive(content, r, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
+        // A frozen release's validation report stays as archived; its impact is in spectral.json only.
+        spectralOf(products);
       } else {
         const jobs = jobsOf(r);
         const t0 = performance.now();
@@ -273,6 +283,8 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         nnz += results.reduce((s, x) => s + x.nnz, 0);
         const prev = works.length ? works[works.length - 1] : null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
+        const spectral = spectralOf(products);
+        if (spectral) checks.push(...impactChecks(spectral, products));
         const site: ReleaseSite = {
           schema: 'kiln/release-site/1',
           ...releaseHead(rel),

@@ -19,12 +19,14 @@ import type { FoldingResponse } from './response.ts';
 
 /** Rounds of the package's routine, iterations per round, and the C change that ends the fit. */
 const MAX_ROUNDS = 40;
-const ITERATIONS_PER_ROUND = 4;
+const ITERATIONS_PER_ROUND = 2;
 const C_CONVERGED = 1e-7;
 /** Largest projected gradient of C/2 in error-scaled units at a converged optimum (≈ that many σ from it). */
 const GRADIENT_CONVERGED = 1e-3;
 /** Rounds in a row without a lower C after which the fit stops. */
 const STALLED_ROUNDS = 3;
+/** Damping of the first round, in error-scaled units (where JᵀJ ≈ 1): nearly Gauss–Newton. */
+const INITIAL_DAMPING = 1e-2;
 /** Forward-difference step of the Jacobian: this fraction of a parameter's curvature error, or of its value before that is known. */
 const JACOBIAN_STEP_SIGMA = 1e-3;
 const JACOBIAN_STEP = 1e-5;
@@ -175,7 +177,7 @@ function minimise(p: Problem, theta0: readonly number[], idx: readonly number[])
   fisher = fisherOf(J.jac);
   let stalled = 0;
   c = J.r.reduce((s, x) => s + x * x, 0);
-  let damping = 1;
+  let damping = INITIAL_DAMPING;
   for (let round = 0; round < MAX_ROUNDS && nFree > 0; round++) {
     // Scale each free parameter by its curvature error: the routine then works in units of σ.
     const fi = fisher;
@@ -241,7 +243,8 @@ function minimise(p: Problem, theta0: readonly number[], idx: readonly number[])
       if (!atMin && !atMax) gmax = Math.max(gmax, Math.abs(gj));
     });
     stalled = improved ? 0 : stalled + 1;
-    if (change < C_CONVERGED && gmax < GRADIENT_CONVERGED) {
+    // Converged when the gradient says the optimum is within GRADIENT_CONVERGED σ, or C no longer moves and nearly so.
+    if (gmax < GRADIENT_CONVERGED || (change < C_CONVERGED && gmax < 10 * GRADIENT_CONVERGED)) {
       converged = true;
       break;
     }
@@ -279,13 +282,18 @@ function buildProblem(data: FitData, spec: FitSpec): Problem {
 }
 
 /** Profile distance from the optimum to ΔC = 1 on one side of parameter k. */
-function profileSide(p: Problem, best: SubResult, k: number, freeIdx: number[], start: number, sign: 1 | -1): { dist: number; atBound: boolean } {
+function profileSide(p: Problem, best: SubResult, k: number, freeIdx: number[], cov: number[][], start: number, sign: 1 | -1): { dist: number; atBound: boolean } {
   const others = freeIdx.filter((x) => x !== k);
   const bound = sign > 0 ? p.max[k] : p.min[k];
   const room = Math.abs(bound - best.theta[k]);
+  const jk = freeIdx.indexOf(k);
   const deltaAt = (dist: number): number => {
     const t = best.theta.slice();
     t[k] = best.theta[k] + sign * dist;
+    // Start the others where the quadratic approximation puts their conditional optimum.
+    freeIdx.forEach((x, j) => {
+      if (x !== k) t[x] = Math.min(p.max[x], Math.max(p.min[x], best.theta[x] + (cov[j][jk] / cov[jk][jk]) * sign * dist));
+    });
     return Math.max(0, minimise(p, t, others).c - best.c);
   };
   // Secant steps on g(δ) = √ΔC − 1, which is nearly linear in δ (exactly so for a quadratic C).
@@ -323,7 +331,7 @@ export function fitSpectrum(data: FitData, spec: FitSpec, opts: FitOptions = {})
     freeIdx.forEach((k, j) => {
       progress(`errors: ${p.names[k]} (${j + 1}/${freeIdx.length})`);
       const start = Number.isFinite(curv[j]) && curv[j] > 0 ? curv[j] : Math.abs(best.theta[k]) * 0.1 || 1;
-      prof.set(k, { low: profileSide(p, best, k, freeIdx, start, -1), high: profileSide(p, best, k, freeIdx, start, 1) });
+      prof.set(k, { low: profileSide(p, best, k, freeIdx, cov!, start, -1), high: profileSide(p, best, k, freeIdx, cov!, start, 1) });
     });
   }
   const expected = modelCounts(p, p.names, best.theta, new Float64Array(data.response.detchans));

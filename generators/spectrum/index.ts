@@ -15,3 +15,4 @@ export * from './cstat.ts';
 export * from './fit.ts';
 export * from './pileup.ts';
 export * from './simulate.ts';
+export * from './impact.ts';

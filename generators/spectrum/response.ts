@@ -23,7 +23,7 @@ export interface FoldingResponse {
   groupChannel: Int32Array;
   groupLength: Int32Array;
   groupOffset: Int32Array;
-  value: Float64Array;
+  value: Float32Array;
   /** Σ of each row's elements (the probability the photon is detected in some channel). */
   rowSum: Float64Array;
   /** Identity of the response (for messages and for matching a spectrum). */
@@ -82,7 +82,7 @@ export function foldingResponse(f: ResponseFiles): FoldingResponse {
   const groupChannel = new Int32Array(groups);
   const groupLength = new Int32Array(groups);
   const groupOffset = new Int32Array(groups);
-  const value = new Float64Array(nnz);
+  const value = new Float32Array(nnz);
   const rowSum = new Float64Array(n);
   let k = 0;
   let gi = 0;
