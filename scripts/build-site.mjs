@@ -1,28 +1,46 @@
 // Site build step of `npm run build`: runs Astro into a staging directory and swaps the complete
 // site into dist/ only when it succeeded, so a failed or killed build leaves the previous dist/.
-import { build } from 'astro';
-import { existsSync, renameSync, rmSync } from 'node:fs';
+// Same staging, swap, recovery and lock as `kiln build` (generators/pipeline/atomic.ts, lock.ts):
+// a killed run's staging is removed by the next run, a kill between the two renames of the swap
+// is repaired by the next run, and a second site build into the same dist/ refuses (exit 4).
+import { register } from 'tsx/esm/api';
 import { resolve } from 'node:path';
 
+register();
+const { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } = await import('../generators/pipeline/atomic.ts');
+const { acquireLock } = await import('../generators/pipeline/lock.ts');
+const { reached } = await import('../generators/pipeline/phase.ts');
+const { reportFailure } = await import('../generators/cli/main.ts');
+
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
-const target = resolve('dist');
-const staging = resolve(`.kiln/dist-staging-${process.pid}`);
-const previous = resolve('.kiln/dist-previous');
+const debug = process.argv.includes('--debug');
+const target = resolve(process.env.KILN_SITE_DIST ?? 'dist');
 
-// An earlier swap interrupted between its two renames left the old site aside: restore it.
-if (!existsSync(target) && existsSync(previous)) renameSync(previous, target);
-rmSync(previous, { recursive: true, force: true });
-rmSync(staging, { recursive: true, force: true });
-
+let lock;
+try {
+  lock = acquireLock(target, 'kiln site build');
+  // The site reads the build's output: repair an interrupted swap of it first.
+  recoverInterruptedSwap(resolve(process.env.KILN_OUT ?? '.kiln/out'));
+  recoverInterruptedSwap(target);
+  removeStaleStaging(target);
+} catch (e) {
+  process.exit(reportFailure('site', e, debug));
+}
+const staging = stagingDir(target);
 const t0 = performance.now();
 try {
   await build({ root: process.cwd(), outDir: staging, logLevel: process.env.KILN_SITE_LOG ?? 'warn' });
+  reached('site:staged');
+  swapInto(staging, target, 'site:swap');
 } catch (e) {
-  rmSync(staging, { recursive: true, force: true });
-  console.error(`kiln site: build failed, dist/ left as it was: ${e instanceof Error ? e.message : e}`);
-  process.exit(1);
+  removeStaleStaging(target);
+  lock.release();
+  process.exit(reportFailure('site', e, debug));
 }
-if (existsSync(target)) renameSync(target, previous);
-renameSync(staging, target);
-rmSync(previous, { recursive: true, force: true });
-console.log(`kiln site: dist/ written in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+lock.release();
+console.log(`kiln site: ${target} written in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+
+async function build(config) {
+  const astro = await import('astro');
+  await astro.build(config);
+}

@@ -20,7 +20,9 @@ export const command: CommandSpec = {
     try {
       const r = await publish({ contentDir, id: args.positionals[0], log });
       process.stdout.write(
-        `kiln publish: release ${r.release} frozen: ${r.files} files sealed in ${r.archiveDir}` +
+        (r.resumed
+          ? `kiln publish: release ${r.release}: finished an interrupted publish (archive in ${r.archiveDir} verified)`
+          : `kiln publish: release ${r.release} frozen: ${r.files} files sealed in ${r.archiveDir}`) +
           (r.statusChanged ? '; release.yaml status set to published' : '') +
           '\n',
       );
