@@ -44,7 +44,7 @@ describe('kiln build of the demo content', () => {
     const index = JSON.parse(tree.get('index.json')!.toString('utf8'));
     expect(index.releases.map((r: { id: string }) => r.id).sort()).toEqual(DEMO_RELEASES);
     for (const id of DEMO_RELEASES) {
-      for (const f of ['manifest.json', 'validation.json', 'site.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
+      for (const f of ['manifest.json', 'validation.json', 'site.json', 'spectral.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
       const files = readdirSync(join(ws.out, 'releases', id, 'files'));
       expect(files.length).toBeGreaterThan(0);
       for (const f of files) expect(f).toMatch(/\.(rmf|arf|rsp)\.gz$/);
@@ -52,7 +52,7 @@ describe('kiln build of the demo content', () => {
       expect(manifests.get(id)!.files.map((m) => m.path).sort()).toEqual(files.map((f) => `files/${f}`).sort());
     }
     // Nothing outside the documented layout.
-    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|files\/[^/]+\.gz))$/);
+    for (const p of tree.keys()) expect(p).toMatch(/^(index\.json|releases\/[^/]+\/(manifest\.json|validation\.json|site\.json|spectral\.json|files\/[^/]+\.gz))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {

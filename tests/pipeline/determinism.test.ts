@@ -28,8 +28,8 @@ describe('kiln build is deterministic', () => {
   it('two builds (different content and output paths) give byte-identical trees, --workers 1 vs --workers 2', () => {
     const one = buildTree('1', 'out-a');
     const two = buildTree('2', 'site-b');
-    // 22 products + 3 × 3 JSON files + index.json for the demo (content/releases/*/release.yaml).
-    expect(one.size).toBe(22 + 9 + 1);
+    // 22 products + 3 × 4 JSON files (manifest, validation, site, spectral) + index.json for the demo.
+    expect(one.size).toBe(22 + 12 + 1);
     expectSameTrees(one, two);
   });
 
