@@ -15,6 +15,9 @@ const VERBS: Record<string, { summary: string; load: () => Promise<{ command: Co
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },
   efficiency: { summary: 'print the layer-by-layer efficiency of a detector', load: () => import('./efficiency.ts') },
   response: { summary: 'make the RMF and ARF of one detector position and date from a release\'s model document', load: () => import('./response.ts') },
+  fold: { summary: 'fold a source through a response: expected counts, band rates, pile-up', load: () => import('./fold.ts') },
+  simulate: { summary: 'simulate a source spectrum through a response into a PHA file', load: () => import('./simulate.ts') },
+  fit: { summary: 'fit a source model to a PHA spectrum (C-statistic, ΔC = 1 errors)', load: () => import('./fit.ts') },
   inspect: { summary: 'print the HDUs, key header values and columns of a FITS file', load: () => import('./inspect.ts') },
 };
 

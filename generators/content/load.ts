@@ -17,6 +17,7 @@ import { formatPath } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
 import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
+import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
 import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
 
@@ -112,8 +113,9 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
     }
     regions = { source: src, input: { path: rel(regionsFile), bytes: rb } };
   }
+  const sources = await loadSourcesIn(root, join(dir, SOURCES_DIR));
   return {
-    instrument: { ...doc, dir, file, mirror },
+    instrument: { ...doc, dir, file, mirror, sources },
     source: { file, locate: yaml.locate },
     inputs: [
       { path: rel(file), bytes },
@@ -121,6 +123,27 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
     ],
     regions,
   };
+}
+
+/** One reference source document (sources/<id>.yaml). */
+export async function loadSourceFile(path: string, root: string = dirname(path)): Promise<SourceSpec> {
+  const bytes = await readBytes(root, path, 'yaml', 'a source description (YAML)');
+  return parseSourceText(decode(bytes, path), path);
+}
+
+/** The reference sources of an instrument, sorted by file name; each id must equal its file name. */
+async function loadSourcesIn(root: string, dir: string): Promise<SourceSpec[]> {
+  if (!(await isDirectory(dir))) return [];
+  const out: SourceSpec[] = [];
+  for (const name of (await readdir(dir)).sort()) {
+    if (IGNORED_FILES.test(name)) continue;
+    const file = join(dir, name);
+    if (!name.endsWith('.yaml')) throw new KilnInputError(`unexpected file in ${SOURCES_DIR}/`, { file, expected: 'only <source-id>.yaml files (and README.md)' });
+    const s = await loadSourceFile(file, root);
+    if (s.doc.id !== name.slice(0, -'.yaml'.length)) throw new KilnInputError('source id differs from its file name', { file, field: 'id', value: s.doc.id, expected: `"${name.slice(0, -5)}" (or rename the file)` });
+    out.push(s);
+  }
+  return out;
 }
 
 /** One instrument.yaml (and its mirror table), e.g. for `kiln efficiency`. */

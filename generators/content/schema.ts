@@ -354,6 +354,30 @@ export const energyGridSchema = z
   });
 
 // ---------------------------------------------------------------------------------------------
+// The instrument file's spectral section: bands for rates, pile-up inputs, impact tolerances.
+
+export const spectralSchema = z
+  .object({
+    bands: z.array(z.object({ name: safeId, loKeV: positive, hiKeV: positive }).strict().superRefine((b, ctx) => {
+      if (!(b.hiKeV > b.loKeV)) issue(ctx, 'band is empty or reversed', `> loKeV = ${b.loKeV}`, ['hiKeV']);
+    })).min(1),
+    pileup: z
+      .object({
+        frameTimeS: positive,
+        /** Fraction of a point source's image in its brightest event cell (e.g. 3×3 pixels). */
+        brightestCellFraction: finite.gt(0).lte(1),
+      })
+      .strict(),
+    /** Impact of a change of release beyond these is flagged for review. */
+    impact: z
+      .object({ shiftSigma: positive, rateRatio: positive.lt(1), reason: text })
+      .strict(),
+  })
+  .strict();
+
+export type SpectralDoc = z.output<typeof spectralSchema>;
+
+// ---------------------------------------------------------------------------------------------
 // instrument.yaml
 
 export const detectorSchema = z
@@ -385,6 +409,8 @@ export const instrumentSchema = z
     channels: channelGridSchema,
     energyGrid: energyGridSchema,
     detectors: z.array(detectorSchema).min(1),
+    /** Bands, pile-up inputs and impact tolerances of the spectral engine (optional). */
+    spectral: spectralSchema.optional(),
   })
   .strict()
   .superRefine((ins, ctx) => {

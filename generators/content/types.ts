@@ -3,6 +3,7 @@ import type { DetectorStack } from '../physics/types.ts';
 import type { LineFit, RedistributionSpec } from '../response/model-types.ts';
 import type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
 import type { MirrorArea } from './tables.ts';
+import type { SourceSpec } from './source-schema.ts';
 
 export type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
 export type { LineFitTable, MirrorArea } from './tables.ts';
@@ -17,6 +18,8 @@ export interface Instrument extends InstrumentDoc {
   dir: string;
   file: string;
   mirror: MirrorArea;
+  /** Reference sources of sources/*.yaml (not part of any release's fingerprint). */
+  sources?: SourceSpec[];
 }
 
 export interface Release extends ReleaseDoc {

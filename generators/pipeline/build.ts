@@ -24,6 +24,7 @@ import type {
   ReleaseSite,
   ReleaseSummary,
   ValidationReport,
+  ReleaseSpectral,
 } from '../site-data/types.ts';
 import { countStatuses } from '../checks/index.ts';
 import { archiveDirOf, hasArchive, readSeal, verifyArchive, type Seal, type VerifiedArchive } from './archive.ts';
@@ -31,6 +32,8 @@ import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 import { crossReleaseChecks } from './cross-release.ts';
+import { impactChecks, releaseSpectral, type ReleaseProducts } from './impact.ts';
+import { pruneSpectralEntries, readSpectralEntry, spectralKey, writeSpectralEntry, SPECTRAL_DIR } from './spectral-cache.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
 import { finderDocuments, splitRelease } from '../site-data/split.ts';
@@ -294,6 +297,24 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
   return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry };
 }
 
+/** A release's spectral section, from the cache when its key (sources, product hashes, generator) is unchanged. */
+function cachedSpectral(ctx: JobContext, root: string | null, used: Set<string>, ins: ResolvedRelease['instrument'], newer: ReleaseProducts, older: ReleaseProducts | null): ReleaseSpectral | null {
+  if (!ins.spectral) return null;
+  const key = spectralKey(ins, newer, older, ctx.generator);
+  used.add(key);
+  if (root && !ctx.noCache) {
+    const e = readSpectralEntry(root, key);
+    if (e.ok) {
+      ctx.log(`release ${newer.id}: spectral predictions and impact from cache`);
+      return e.doc;
+    }
+    if (!e.missing) ctx.warn(`cache entry of the spectral section of release ${newer.id} (${key.slice(0, 12)}) rejected: ${e.reason}; recomputing it`);
+  }
+  const doc = releaseSpectral(ins, newer, older, ctx.log);
+  if (doc && root) writeSpectralEntry(root, key, doc);
+  return doc;
+}
+
 /** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
   mkdirSync(dirname(opts.outDir), { recursive: true });
@@ -350,6 +371,8 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
     used: new Set(),
     counts: { built: 0, cached: 0, gathered: 0 },
   };
+  const spectralRoot = cacheDir === null ? null : join(cacheDir, SPECTRAL_DIR);
+  const spectralUsed = new Set<string>();
   try {
     for (const r of content.releases) {
       const rel = r.release;
@@ -361,12 +384,23 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
       let modelRef: ModelRef | null = null;
+      // Predicted rates of the reference sources and the impact of the change from the superseded release.
+      const older = works.find((w) => w.r.release.id === rel.supersedes) ?? null;
+      const spectralOf = (ps: ProductSummary[]) => {
+        const newerP = { id: rel.id, dir, products: ps };
+        const olderP = older ? { id: older.r.release.id, dir: older.dir, products: older.products } : null;
+        const s = cachedSpectral(ctx, spectralRoot, spectralUsed, r.instrument, newerP, olderP);
+        if (s) writeJson(join(dir, 'spectral.json'), s);
+        return s;
+      };
       if (frozen) {
         const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
         modelRef = served.model;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
+        // A frozen release's validation report stays as archived; its impact is in spectral.json only.
+        spectralOf(products);
       } else {
         const { jobs, model } = modelJobs(r);
         writeFileSync(join(dir, MODEL_FILE), model.text);
@@ -378,6 +412,8 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         nnz += slots.reduce((s, x) => s + x.nnz, 0);
         const prev = works.length ? works[works.length - 1] : null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
+        const spectral = spectralOf(products);
+        if (spectral) checks.push(...impactChecks(spectral, products));
         parameters = Object.fromEntries(slots.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
         // Checks go to their detector's document once the cross-release review has added its own.
         const byDet = checksByDetector(checks, products);
@@ -430,6 +466,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   swapInto(staging, opts.outDir, 'build:swap');
   // The cache keeps the jobs of the last successful build: bounded, and safe to delete.
   if (ctx.cacheRoot) pruneJobEntries(ctx.cacheRoot, ctx.used);
+  if (spectralRoot) pruneSpectralEntries(spectralRoot, spectralUsed);
   return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
 }
 

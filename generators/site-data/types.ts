@@ -15,6 +15,7 @@
  *   DIR/releases/<id>/detectors/<det>/checks.json        DetectorChecksDoc (checks of the detector's products)
  *   DIR/releases/<id>/detectors/<det>/epochs/<ep>.json   EpochDataDoc      (ARF side: one epoch's area and efficiency)
  *   DIR/releases/<id>/detectors/<det>/area.json          DetectorAreaDoc   (every epoch's effective area alone, for comparisons)
+ *   DIR/releases/<id>/spectral.json                      ReleaseSpectral (reference sources: predicted rates, impact)
  *   DIR/releases/<id>/files/<file>         the products (FITS, gzip-compressed: *.rmf.gz, *.arf.gz)
  */
 
@@ -331,4 +332,31 @@ export interface FinderDetectorDoc {
   detector: string;
   /** Newest first, as in the index; products filtered to this detector. */
   releases: ReleaseSummary[];
+}
+
+/**
+ * DIR/releases/<id>/spectral.json: the reference sources of the release's instrument, their
+ * predicted rates and pile-up through this release's responses, and the impact of the change from
+ * the release it supersedes (generators/pipeline/impact.ts, computed with generators/spectrum).
+ */
+export interface ReleaseSpectral {
+  schema: 'kiln/release-spectral/1';
+  release: string;
+  /** The release the impact is computed against (the one superseded), or null. */
+  comparedWith: string | null;
+  bands: { name: string; loKeV: number; hiKeV: number }[];
+  pileup: { frameTimeS: number; brightestCellFraction: number; leavesOut: string };
+  tolerance: { shiftSigma: number; rateRatio: number; reason: string };
+  sources: import('../spectrum/impact.ts').ReferenceSource[];
+  /** Per detector: the products used and the predictions of each source. */
+  predicted: SpectralPrediction[];
+  impact: import('../spectrum/impact.ts').SourceImpact[];
+}
+
+export interface SpectralPrediction {
+  detector: string;
+  rmf: string;
+  arf: string;
+  epoch: string;
+  sources: import('../spectrum/impact.ts').Prediction[];
 }

@@ -31,6 +31,8 @@ describe('job cache', () => {
     const again = build('again');
     expect(again.status, again.stderr).toBe(0);
     expect(again.stdout).toMatch(/\(0 jobs built, 4 from cache\)/);
+    // The spectral sections (predictions and impact fits) of all four releases are reused too.
+    expect(again.stderr.match(/spectral predictions and impact from cache/g)).toHaveLength(4);
     expect(digest('again')).toEqual(digest('clean'));
   });
 
@@ -81,6 +83,14 @@ describe('job cache', () => {
     const r = build('meta', '--quiet');
     expect(r.status, r.stderr).toBe(0);
     expect(r.stderr).toMatch(/rejected: meta\.json does not match its SHA-256 in entry\.json; rebuilding it/);
+    // A spectral entry whose document was edited is refused by its SHA-256 and recomputed.
+    const spectralDir = join(cache, 'spectral');
+    const sp = join(spectralDir, readdirSync(spectralDir)[0]);
+    writeFileSync(sp, readFileSync(sp, 'utf8').replace('"predicted', '"Predicted'));
+    const rs = build('spectral', '--quiet');
+    expect(rs.status, rs.stderr).toBe(0);
+    expect(rs.stderr).toMatch(/cache entry of the spectral section of release [\d.]+ \([0-9a-f]{12}\) rejected: document does not match its SHA-256; recomputing it/);
+    expect(digest('spectral')).toEqual(digest('clean2'));
     rmSync(cache, { recursive: true, force: true });
     const fresh = build('fresh', '--quiet');
     expect(fresh.status, fresh.stderr).toBe(0);

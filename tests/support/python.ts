@@ -26,7 +26,7 @@ export function pythonWith(module: string): string | null {
  * Returns a python that has `module`. Throws (so the test fails) when absent in CI; outside CI
  * the caller may choose to skip, and the skip is reported by vitest as a skip, not a pass.
  */
-export function requirePython(module: 'astropy' | 'xraylib'): string {
+export function requirePython(module: 'astropy' | 'xraylib' | 'scipy'): string {
   const py = pythonWith(module);
   if (!py) throw new Error(`python module ${module} not found (install Debian's python3-${module})`);
   return py;
@@ -37,9 +37,11 @@ export const haveXraylib = pythonWith('xraylib') !== null;
 /** Reference checks run whenever the library is present, and always in CI (where absence fails). */
 export const runAstropyChecks = haveAstropy || process.env.CI === 'true';
 export const runXraylibChecks = haveXraylib || process.env.CI === 'true';
+export const haveScipy = pythonWith('scipy') !== null;
+export const runScipyChecks = haveScipy || process.env.CI === 'true';
 
 /** Runs a python snippet with JSON on stdin, returns parsed JSON from stdout. */
-export function runPythonJson<T = unknown>(module: 'astropy' | 'xraylib', code: string, input: unknown = null): T {
+export function runPythonJson<T = unknown>(module: 'astropy' | 'xraylib' | 'scipy', code: string, input: unknown = null): T {
   const py = requirePython(module);
   const out = execFileSync(py, ['-c', code], {
     input: JSON.stringify(input),
