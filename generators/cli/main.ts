@@ -52,7 +52,7 @@ export async function main(argv: string[]): Promise<number> {
       return 2;
     }
     if (isInputError(e)) {
-      process.stderr.write(`kiln ${verb}: ${e.oneLine()}\n`);
+      for (const line of e.lines()) process.stderr.write(`kiln ${verb}: ${line}\n`);
       return 2;
     }
     throw e;

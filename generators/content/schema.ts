@@ -250,14 +250,15 @@ export const channelGridSchema = z
   })
   .strict();
 
-export const energyGridSchema = z
+const energyGridFields = z
   .object({
     minKeV: finite.gte(TABLE_ENERGY_MIN_KEV),
     maxKeV: finite.lte(TABLE_ENERGY_MAX_KEV),
     bins: z.number().int().gte(1).lte(MAX_ENERGY_BINS),
     spacing: z.enum(['linear', 'log']),
   })
-  .strict()
+  .strict();
+export const energyGridSchema = energyGridFields
   .superRefine((g, ctx) => {
     if (!(g.maxKeV > g.minKeV)) issue(ctx, 'energy grid is not increasing', `maxKeV > minKeV = ${g.minKeV}`, ['maxKeV']);
   });
@@ -385,6 +386,23 @@ export const releaseDetectorSchema = z
   })
   .strict();
 
+/**
+ * Instrument-level inputs a release restates (`overrides:` in release.yaml), so that a correction
+ * of anything — mirror table, grids, the base model of every detector — is a new release. Same
+ * merge rules as the per-detector `model`; the release's own `detectors.<id>.model` applies last.
+ */
+export const releaseOverridesSchema = z
+  .object({
+    /** Mirror table (`energy_keV,area_cm2`) relative to the release directory, replacing the instrument's. */
+    mirrorArea: relativeFile('.csv').optional(),
+    channels: channelGridSchema.partial().strict().optional(),
+    energyGrid: energyGridFields.partial().strict().optional(),
+    /** Applied to every detector of the release before its own override. */
+    model: modelOverrideSchema.optional(),
+  })
+  .strict();
+export type ReleaseOverrides = z.output<typeof releaseOverridesSchema>;
+
 export const releaseSchema = z
   .object({
     id: releaseId,
@@ -397,6 +415,7 @@ export const releaseSchema = z
     validTo: isoDate.nullable(),
     products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
     epochs: z.array(epochSchema).min(1),
+    overrides: releaseOverridesSchema.default({}),
     detectors: z.record(safeId, releaseDetectorSchema),
   })
   .strict()
