@@ -403,6 +403,19 @@ export const releaseOverridesSchema = z
   .strict();
 export type ReleaseOverrides = z.output<typeof releaseOverridesSchema>;
 
+/** A review item signed off: the check id and product it is about, why, and who (by role). */
+export const acceptedItemSchema = z
+  .object({
+    /** Check id as in the validation report, e.g. review.rmf.fwhm. */
+    check: text,
+    /** Product id as in the validation report (e.g. fi0-rmf), or null for a release-level check. */
+    product: text.nullable(),
+    reason: text,
+    role: text,
+  })
+  .strict();
+export type AcceptedItem = z.output<typeof acceptedItemSchema>;
+
 export const releaseSchema = z
   .object({
     id: releaseId,
@@ -416,6 +429,8 @@ export const releaseSchema = z
     products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
     epochs: z.array(epochSchema).min(1),
     overrides: releaseOverridesSchema.default({}),
+    /** Review items accepted for this release (shown as accepted; `kiln publish` requires all). */
+    accepted: z.array(acceptedItemSchema).default([]),
     detectors: z.record(safeId, releaseDetectorSchema),
   })
   .strict()

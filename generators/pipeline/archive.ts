@@ -29,6 +29,16 @@ export interface Seal {
   inputsSha256: string;
   inputFiles: Record<string, string>;
   files: SealFile[];
+  /** Review items accepted when publishing (absent in seals written before sign-off existed). */
+  signOff?: SignOffItem[];
+}
+
+export interface SignOffItem {
+  check: string;
+  product: string | null;
+  reason: string;
+  role: string;
+  source: 'release.yaml' | 'publish --accept-all';
 }
 
 export function archiveDirOf(contentRoot: string, releaseId: string): string {

@@ -25,7 +25,9 @@ import type {
   ReleaseSummary,
   ValidationReport,
 } from '../site-data/types.ts';
-import { countStatuses } from '../checks/index.ts';
+import { countStatuses, formatReleaseReport } from '../checks/index.ts';
+import { plural } from '../plural.ts';
+import { applySignOff, type AcceptAll } from './sign-off.ts';
 import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
 import { crossReleaseChecks } from './cross-release.ts';
@@ -50,6 +52,8 @@ export interface BuildOptions {
    * inputs even if its status is already published (it has no archive yet).
    */
   publishing?: string;
+  /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
+  acceptAll?: AcceptAll;
 }
 
 export interface ReleaseOutcome {
@@ -59,6 +63,10 @@ export interface ReleaseOutcome {
   files: number;
   checks: ReturnType<typeof countStatuses>;
   failures: Check[];
+  /** Review items nobody accepted yet (publishing needs none). */
+  reviews: Check[];
+  /** Every check of the release, in the build's order. */
+  all: Check[];
 }
 
 export interface BuildSummary {
@@ -143,7 +151,7 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
   const c = w.outcome.checks;
   return {
     ...releaseHead(w.r.release),
-    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
+    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review, accepted: c.accepted },
     products: w.products,
   };
 }
@@ -273,6 +281,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         nnz += results.reduce((s, x) => s + x.nnz, 0);
         const prev = works.length ? works[works.length - 1] : null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
+        checks = applySignOff(checks, rel.accepted, rel.id === opts.publishing ? (opts.acceptAll ?? null) : null);
         const site: ReleaseSite = {
           schema: 'kiln/release-site/1',
           ...releaseHead(rel),
@@ -291,11 +300,20 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         r,
         dir,
         products,
-        outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
+        outcome: {
+          id: rel.id,
+          status: rel.status,
+          source: frozen ? 'archive' : 'built',
+          files: products.length,
+          checks: counts,
+          failures: checks.filter((c) => c.status === 'fail'),
+          reviews: checks.filter((c) => c.status === 'review'),
+          all: checks,
+        },
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
       works.push(work);
-      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review`);
+      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`);
     }
   } catch (e) {
     await pool.close();
@@ -307,8 +325,8 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
   const refused = works.filter((w) => w.outcome.failures.length > 0 && w.r.release.status !== 'draft' && w.outcome.source === 'built');
   if (refused.length) {
     removeStaleStaging(opts.outDir);
-    const lines = refused.map((w) => `release ${w.outcome.id} (${w.outcome.status}) fails ${w.outcome.failures.length} checks: ${w.outcome.failures.slice(0, 8).map((c) => `${c.id}${c.product ? ` [${c.product}]` : ''}`).join(', ')}${w.outcome.failures.length > 8 ? ', …' : ''}`);
-    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown)`, works.map((w) => w.outcome));
+    const lines = refused.map((w) => formatReleaseReport(`release ${w.outcome.id} (${w.outcome.status}) fails ${plural(w.outcome.failures.length, 'check')}:`, w.outcome.all, { only: ['fail'] }));
+    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown; kiln report ID lists every check)`, works.map((w) => w.outcome));
   }
 
   const index: ReleaseIndex = {

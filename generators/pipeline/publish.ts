@@ -11,7 +11,11 @@ import { mkdtempSync } from 'node:fs';
 import { loadContent } from '../content/index.ts';
 import { KilnInputError } from '../errors.ts';
 import { archiveDirOf, hasArchive, SEAL_FILE, type Seal } from './archive.ts';
-import { build, type BuildOptions } from './build.ts';
+import { build, BuildRefused, type BuildOptions } from './build.ts';
+import { formatReleaseReport } from '../checks/index.ts';
+import { plural } from '../plural.ts';
+import { writeFileDurable } from './atomic.ts';
+import { signOffOf, type AcceptAll } from './sign-off.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
 
@@ -20,6 +24,10 @@ export interface PublishResult {
   archiveDir: string;
   files: number;
   statusChanged: boolean;
+  /** The published release this one superseded (its status now superseded), if any. */
+  superseded: string | null;
+  /** Review items recorded as accepted in the seal. */
+  accepted: number;
 }
 
 function listFiles(dir: string, base = dir): string[] {
@@ -32,16 +40,30 @@ function listFiles(dir: string, base = dir): string[] {
   return out;
 }
 
-/** Only the status line changes; comments and layout of release.yaml stay as the team wrote them. */
-function markPublished(file: string): boolean {
+/**
+ * Only the status line changes, written atomically; comments and layout of release.yaml stay as
+ * the team wrote them.
+ */
+function markStatus(file: string, from: string, to: string): boolean {
   const text = readFileSync(file, 'utf8');
-  const re = /^status:[ \t]*(["']?)candidate\1[ \t]*(#.*)?$/m;
+  const re = new RegExp(`^status:[ \\t]*(["']?)${from}\\1[ \\t]*(#.*)?$`, 'm');
   if (!re.test(text)) return false;
-  writeFileSync(file, text.replace(re, (_m, _q, comment) => `status: published${comment ? ' ' + comment : ''}`));
+  writeFileDurable(file, text.replace(re, (_m, _q, comment) => `status: ${to}${comment ? ' ' + comment : ''}`));
   return true;
 }
 
-export async function publish(opts: { contentDir: string; id: string; log?: BuildOptions['log'] }): Promise<PublishResult> {
+export interface PublishOptions {
+  contentDir: string;
+  id: string;
+  log?: BuildOptions['log'];
+  /** Accept every review item release.yaml does not accept, with this reason and role. */
+  acceptAll?: AcceptAll;
+}
+
+/** Publishing refused because review items are open (nothing archived). */
+export class ReviewOpen extends BuildRefused {}
+
+export async function publish(opts: PublishOptions): Promise<PublishResult> {
   const contentDir = resolve(opts.contentDir);
   const content = await loadContent(contentDir);
   const r = content.releases.find((x) => x.release.id === opts.id);
@@ -60,7 +82,14 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
   try {
     const out = join(tmp, 'out');
     // Refuses (BuildRefused) when the release fails a check.
-    await build({ contentDir, outDir: out, publishing: opts.id, log: opts.log });
+    const summary = await build({ contentDir, outDir: out, publishing: opts.id, log: opts.log, acceptAll: opts.acceptAll });
+    const outcome = summary.releases.find((x) => x.id === opts.id)!;
+    if (outcome.reviews.length)
+      throw new ReviewOpen(
+        `${formatReleaseReport(`release ${opts.id} has ${plural(outcome.reviews.length, 'review item')} nobody accepted:`, outcome.all, { only: ['review'] })}\n` +
+          `accept each in release.yaml (accepted: - { check, product, reason, role }) or publish with --accept-all --reason TEXT`,
+        summary.releases,
+      );
     const built = join(out, 'releases', opts.id);
     const staged = join(contentDir, 'archive', `.${opts.id}.staging-${process.pid}`);
     rmSync(staged, { recursive: true, force: true });
@@ -84,11 +113,15 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
       inputsSha256: inputsSha256(r),
       inputFiles: inputFileHashes(r),
       files,
+      signOff: signOffOf(outcome.all),
     };
     writeFileSync(join(staged, SEAL_FILE), JSON.stringify(seal, null, 2) + '\n');
     renameSync(staged, archiveDir);
-    const statusChanged = status === 'candidate' ? markPublished(r.release.file) : false;
-    return { release: opts.id, archiveDir, files: files.length, statusChanged };
+    const statusChanged = status === 'candidate' ? markStatus(r.release.file, 'candidate', 'published') : false;
+    // The release it supersedes stops being recommended: its status (never its archive) changes.
+    const old = r.release.supersedes ? content.releases.find((x) => x.release.id === r.release.supersedes) : undefined;
+    const superseded = old && old.release.status === 'published' && markStatus(old.release.file, 'published', 'superseded') ? old.release.id : null;
+    return { release: opts.id, archiveDir, files: files.length, statusChanged, superseded, accepted: seal.signOff?.length ?? 0 };
   } finally {
     rmSync(tmp, { recursive: true, force: true });
   }

@@ -13,7 +13,17 @@
 
 export type ReleaseStatus = 'draft' | 'candidate' | 'published' | 'superseded' | 'withdrawn';
 export type ProductKind = 'rmf' | 'arf' | 'rsp';
-export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review';
+/** `accepted`: a review item a release lists as signed off (release.yaml `accepted`, or `kiln publish --accept-all`). */
+export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review' | 'accepted';
+
+/** Who accepted a review item and why. */
+export interface Acceptance {
+  reason: string;
+  /** The role that accepted it, e.g. "instrument scientist". */
+  role: string;
+  /** Where the sign-off was given: release.yaml or `kiln publish --accept-all`. */
+  source: 'release.yaml' | 'publish --accept-all';
+}
 
 export interface DetectorSummary {
   id: string;
@@ -57,7 +67,8 @@ export interface ReleaseSummary {
   validFrom: string;
   validTo: string | null;
   supersedes: string | null;
-  checks: { pass: number; fail: number; warn: number; review: number };
+  /** `accepted` is absent in indexes of builds before review sign-off existed. */
+  checks: { pass: number; fail: number; warn: number; review: number; accepted?: number };
   products: ProductSummary[];
 }
 
@@ -104,6 +115,8 @@ export interface Check {
   tolerance: number | string | null;
   unit: string | null;
   message: string;
+  /** Present when status is `accepted`. */
+  acceptance?: Acceptance;
 }
 
 export interface ValidationReport {
