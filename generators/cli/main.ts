@@ -10,6 +10,7 @@ const VERBS: Record<string, { summary: string; load: () => Promise<{ command: Co
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
+  report: { summary: "print a release's checks, failed and review items first, measured vs allowed", load: () => import('./report.ts') },
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },
   efficiency: { summary: 'print the layer-by-layer efficiency of a detector', load: () => import('./efficiency.ts') },
   inspect: { summary: 'print the HDUs, key header values and columns of a FITS file', load: () => import('./inspect.ts') },

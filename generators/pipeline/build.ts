@@ -52,6 +52,8 @@ export interface BuildOptions {
    * inputs even if its status is already published (it has no archive yet).
    */
   publishing?: string;
+  /** Build releases up to and including this id only (`kiln report`). */
+  upTo?: string;
   /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
   acceptAll?: AcceptAll;
 }
@@ -222,10 +224,11 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
   const content = await loadContent(opts.contentDir);
-  if (opts.publishing !== undefined) {
-    const at = content.releases.findIndex((r) => r.release.id === opts.publishing);
+  const last = opts.publishing ?? opts.upTo;
+  if (last !== undefined) {
+    const at = content.releases.findIndex((r) => r.release.id === last);
     if (at < 0)
-      throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
+      throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
   const isFrozen = (r: ResolvedRelease) =>
