@@ -8,6 +8,7 @@ import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 /** Verb name → module path; loaded lazily so `kiln inspect` does not pay for the physics. */
 const VERBS: Record<string, { summary: string; load: () => Promise<{ command: CommandSpec }> }> = {
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
+  site: { summary: 'build products and the site for a content tree into a folder (--content, --out)', load: () => import('./site.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
   report: { summary: "print a release's checks, failed and review items first, measured vs allowed", load: () => import('./report.ts') },
