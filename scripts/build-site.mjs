@@ -1,46 +1,69 @@
-// Site step of `kiln site` (and so of `npm run build`): runs Astro into a staging directory beside
-// the target and swaps the complete site in only when it succeeded, so a failed or killed build
-// leaves the previous site as it was. Run from the project root (Astro's root); where to read and
-// write comes from the environment `kiln site` sets:
-//   KILN_OUT       the kiln build output the pages read (default .kiln/out)
-//   KILN_CONTENT   the content tree the content collections read (default content)
-//   KILN_SITE_OUT  the site folder to write (default dist)
-// Astro keeps its build cache in the project (node_modules/.astro): one site build per checkout at a time.
-import { build } from 'astro';
-import { cpSync, existsSync, mkdirSync, renameSync, rmSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+// Site step of `kiln site` (so of `npm run build`): runs Astro and swaps the complete site into
+// the target only when it succeeded, so a failed or killed build leaves the previous site.
+// Run from the project root (Astro's root); `kiln site` sets where to read and write:
+//   KILN_OUT        the kiln build output the pages read (default .kiln/out)
+//   KILN_CONTENT    the content tree the content collections read (default content)
+//   KILN_SITE_DIST  the site folder (default dist)
+// Astro writes into a folder inside the project (an outDir outside the root gains Astro's
+// content-layer files), then the site moves into the staging folder beside the target.
+// Same staging, swap, recovery and lock as `kiln build` (generators/pipeline/atomic.ts, lock.ts):
+// a killed run's staging is removed by the next run, a kill between the two renames of the swap
+// is repaired by the next run, and a second site build into the same dist/ refuses (exit 4).
+import { register } from 'tsx/esm/api';
+import { cpSync, renameSync, rmSync } from 'node:fs';
+import { resolve } from 'node:path';
+
+register();
+const { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } = await import('../generators/pipeline/atomic.ts');
+const { acquireLock } = await import('../generators/pipeline/lock.ts');
+const { reached } = await import('../generators/pipeline/phase.ts');
+const { reportFailure } = await import('../generators/cli/main.ts');
 
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
-const target = resolve(process.env.KILN_SITE_OUT ?? 'dist');
-const staging = join(dirname(target), `.${basename(target)}.staging-${process.pid}`);
-const previous = join(dirname(target), `.${basename(target)}.previous`);
+const debug = process.argv.includes('--debug');
+const target = resolve(process.env.KILN_SITE_DIST ?? 'dist');
 
-// An earlier swap interrupted between its two renames left the old site aside: restore it.
-if (!existsSync(target) && existsSync(previous)) renameSync(previous, target);
-rmSync(previous, { recursive: true, force: true });
-rmSync(staging, { recursive: true, force: true });
-
-// Astro writes into a folder inside the project (an outDir outside the root gains Astro's
-// content-layer files); the finished site then moves beside the target.
-const work = resolve(`.kiln/site-build-${process.pid}`);
+let lock;
+try {
+  lock = acquireLock(target, 'kiln site build');
+  // The site reads the build's output: repair an interrupted swap of it first.
+  recoverInterruptedSwap(resolve(process.env.KILN_OUT ?? '.kiln/out'));
+  recoverInterruptedSwap(target);
+  removeStaleStaging(target);
+} catch (e) {
+  process.exit(reportFailure('site', e, debug));
+}
+const staging = stagingDir(target);
 const t0 = performance.now();
 try {
-  await build({ root: process.cwd(), outDir: work, logLevel: process.env.KILN_SITE_LOG ?? 'warn' });
-  mkdirSync(dirname(target), { recursive: true });
+  const work = resolve(`.kiln/site-build-${process.pid}`);
   try {
-    renameSync(work, staging);
+    await build({ root: process.cwd(), outDir: work, logLevel: process.env.KILN_SITE_LOG ?? 'warn' });
+    moveInto(work, staging);
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
+  reached('site:staged');
+  swapInto(staging, target, 'site:swap');
+} catch (e) {
+  removeStaleStaging(target);
+  lock.release();
+  process.exit(reportFailure('site', e, debug));
+}
+lock.release();
+console.log(`kiln site: ${target} written in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+
+async function build(config) {
+  const astro = await import('astro');
+  await astro.build(config);
+}
+
+/** Moves a finished folder onto the (empty) staging folder; copies across file systems. */
+function moveInto(from, to) {
+  try {
+    renameSync(from, to);
   } catch (e) {
     if (e?.code !== 'EXDEV') throw e;
-    cpSync(work, staging, { recursive: true });
+    cpSync(from, to, { recursive: true });
   }
-} catch (e) {
-  rmSync(staging, { recursive: true, force: true });
-  console.error(`kiln site: build failed, ${target} left as it was: ${e instanceof Error ? e.message : e}`);
-  process.exit(1);
-} finally {
-  rmSync(work, { recursive: true, force: true });
 }
-if (existsSync(target)) renameSync(target, previous);
-renameSync(staging, target);
-rmSync(previous, { recursive: true, force: true });
-console.log(`kiln site: ${target} written in ${((performance.now() - t0) / 1000).toFixed(1)} s`);

@@ -1,8 +1,10 @@
 /**
  * kiln: the command line. Each verb lives in its own module (generators/cli/<verb>.ts) and is a
- * thin shell over the library in generators/. Exit codes: 0 ok, 1 findings, 2 bad input/usage.
+ * thin shell over the library in generators/. Every failure ends as one line on stderr (the stack
+ * trace only with --debug) and an exit code from EXIT: 0 ok, 1 findings, 2 bad input/usage,
+ * 3 file system (disk full, permission), 4 busy (a lock held), 70 a bug in Kiln.
  */
-import { isInputError } from '../errors.ts';
+import { EXIT, exitCodeOf, fromSystemError, isInputError } from '../errors.ts';
 import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 
 /** Verb name → module path; loaded lazily so `kiln inspect` does not pay for the physics. */
@@ -29,7 +31,12 @@ export function topHelp(): string {
   ].join('\n');
 }
 
-export async function main(argv: string[]): Promise<number> {
+/** Accepted by every verb: print stack traces of failures. */
+export const DEBUG_FLAG = '--debug';
+
+export async function main(argvIn: string[]): Promise<number> {
+  const debug = argvIn.includes(DEBUG_FLAG);
+  const argv = argvIn.filter((a) => a !== DEBUG_FLAG);
   const [verb, ...rest] = argv;
   if (!verb || verb === '--help' || verb === '-h' || verb === 'help') {
     process.stdout.write(topHelp() + '\n');
@@ -40,23 +47,41 @@ export async function main(argv: string[]): Promise<number> {
     process.stderr.write(`kiln: unknown verb "${verb}"\n\n${topHelp()}\n`);
     return 2;
   }
-  const { command } = await entry.load();
-  if (rest.includes('--help') || rest.includes('-h')) {
-    process.stdout.write(formatHelp(command) + '\n');
-    return 0;
-  }
   try {
+    const { command } = await entry.load();
+    if (rest.includes('--help') || rest.includes('-h')) {
+      process.stdout.write(formatHelp(command) + '\n');
+      return 0;
+    }
     const args = parseArgs(command, rest);
     return await command.run(args);
   } catch (e) {
-    if (e instanceof UsageError) {
-      process.stderr.write(`kiln ${verb}: ${e.message}\n`);
-      return 2;
-    }
-    if (isInputError(e)) {
-      for (const line of e.lines()) process.stderr.write(`kiln ${verb}: ${line}\n`);
-      return 2;
-    }
-    throw e;
+    return reportFailure(verb, e, debug);
   }
+}
+
+/** The one error path: one line naming file, what happened and what to do; the trace only with --debug. */
+export function reportFailure(verb: string, e: unknown, debug: boolean): number {
+  const trace = () => {
+    if (debug && e instanceof Error && e.stack) process.stderr.write(e.stack + '\n');
+  };
+  if (e instanceof UsageError) {
+    process.stderr.write(`kiln ${verb}: ${e.message}\n`);
+    return EXIT.input;
+  }
+  const known = isInputError(e) ? e : fromSystemError(e);
+  if (known) {
+    for (const line of known.lines()) process.stderr.write(`kiln ${verb}: ${line}\n`);
+    trace();
+    return exitCodeOf(known);
+  }
+  const msg = e instanceof Error ? `${e.name}: ${e.message}` : String(e);
+  process.stderr.write(`kiln ${verb}: internal error: ${firstLine(msg)} — this is a bug in Kiln; run again with ${DEBUG_FLAG} for the stack trace and report it\n`);
+  trace();
+  return EXIT.internal;
+}
+
+function firstLine(s: string): string {
+  const line = s.split('\n')[0];
+  return line.length > 300 ? line.slice(0, 297) + '...' : line;
 }

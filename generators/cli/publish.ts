@@ -33,7 +33,9 @@ export const command: CommandSpec = {
     try {
       const r = await publish({ contentDir, id: args.positionals[0], log, acceptAll: all ? { reason: reason!, role: role ?? DEFAULT_ROLE } : undefined });
       process.stdout.write(
-        `kiln publish: release ${r.release} frozen: ${plural(r.files, 'file')} sealed in ${r.archiveDir}` +
+        (r.resumed
+          ? `kiln publish: release ${r.release}: finished an interrupted publish (archive in ${r.archiveDir} verified)`
+          : `kiln publish: release ${r.release} frozen: ${plural(r.files, 'file')} sealed in ${r.archiveDir}`) +
           (r.accepted ? `, with ${plural(r.accepted, 'accepted review item')} recorded` : '') +
           (r.statusChanged ? '; release.yaml status set to published' : '') +
           (r.superseded ? `; release ${r.superseded} marked superseded in its release.yaml (its archive is unchanged)` : '') +

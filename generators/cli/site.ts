@@ -65,7 +65,7 @@ export const command: CommandSpec = {
         }
         throw e;
       }
-      const env: Record<string, string> = { KILN_OUT: dataDir, KILN_CONTENT: contentDir, KILN_SITE_OUT: siteDir };
+      const env: Record<string, string> = { KILN_OUT: dataDir, KILN_CONTENT: contentDir, KILN_SITE_DIST: siteDir };
       const code = await runSiteStep(env, quiet);
       if (code !== 0) {
         process.stderr.write(`kiln site: the site step failed (exit ${code}); ${siteDir} left as it was\n`);

@@ -60,8 +60,15 @@ const text = z.string().trim().min(1);
 export const safeId = z.string().superRefine((s, ctx) => {
   if (!isSafeId(s)) issue(ctx, 'not a safe id', SAFE_ID_EXPECTED);
 });
+/**
+ * Longest release id: it is written as the FITS string value of KILNREL, at most 68 characters
+ * (FITS Standard 4.0 §4.2.1.1), and into product file names.
+ */
+export const MAX_RELEASE_ID_CHARS = 68;
 export const releaseId = z.string().superRefine((s, ctx) => {
-  if (!isSemver(s))
+  if (s.length > MAX_RELEASE_ID_CHARS)
+    issue(ctx, `release id is longer than ${MAX_RELEASE_ID_CHARS} characters (${s.length})`, `at most ${MAX_RELEASE_ID_CHARS} characters: it becomes the FITS keyword value KILNREL and part of every file name`);
+  else if (!isSemver(s))
     issue(ctx, 'release id is not a strict semantic version', 'MAJOR.MINOR.PATCH with optional lower-case pre-release, e.g. 1.2.0 or 2.0.0-rc.1 (no "+build")');
 });
 const fitsString = z.string().superRefine((s, ctx) => {

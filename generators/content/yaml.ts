@@ -18,6 +18,9 @@ export interface YamlText {
   locate(path: FieldPath): Position | undefined;
 }
 
+/** Alias expansions allowed per document: content files need few; a bomb needs millions (common practice, no source). */
+export const MAX_ALIAS_COUNT = 100;
+
 export function parseYaml(text: string, file: string): YamlText {
   const lineCounter = new LineCounter();
   // YAML 1.2 core schema: dates stay strings; duplicate keys are errors.
@@ -32,7 +35,16 @@ export function parseYaml(text: string, file: string): YamlText {
       expected: 'well-formed YAML',
     });
   }
-  const value = doc.toJS({ maxAliasCount: 100 });
+  let value: unknown;
+  try {
+    value = doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
+  } catch (e) {
+    // The parser's own guard against alias bombs ("billion laughs") and other resolution errors.
+    throw new KilnInputError(`YAML could not be resolved: ${(e instanceof Error ? e.message : String(e)).split('\n')[0]}`, {
+      file,
+      expected: `well-formed YAML with at most ${MAX_ALIAS_COUNT} alias expansions`,
+    });
+  }
   const at = (offset: number): Position => {
     const p = lineCounter.linePos(offset);
     return { line: p.line, column: p.col };

@@ -10,7 +10,8 @@
  */
 import { gzipSync } from 'node:zlib';
 import { mkdirSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { isForwardOf, type ReleaseStatus } from '../content/status-line.ts';
+import { dirname, join } from 'node:path';
 import { loadContent } from '../content/index.ts';
 import type { ContentTree, ResolvedRelease } from '../content/types.ts';
 import { KilnInputError } from '../errors.ts';
@@ -28,11 +29,13 @@ import type {
 import { countStatuses, formatReleaseReport } from '../checks/index.ts';
 import { plural } from '../plural.ts';
 import { applySignOff, type AcceptAll } from './sign-off.ts';
-import { hasArchive, readSeal, readVerifiedArchive, type Seal } from './archive.ts';
+import { archiveDirOf, hasArchive, readSeal, verifyArchive, type Seal, type VerifiedArchive } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
+import { withLock } from './lock.ts';
+import { reached } from './phase.ts';
 import { crossReleaseChecks } from './cross-release.ts';
 import { sha256Hex } from './hash.ts';
-import { inputFileHashes, inputsSha256, jobsOf } from './inputs.ts';
+import { changedInputFiles, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import type { DetectorJobResult } from './run-job.ts';
 
@@ -114,13 +117,10 @@ function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
 }
 
 /** Checks that the frozen release still has the inputs it was published from. */
-function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
+export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   const now = inputsSha256(r);
   if (now === seal.inputsSha256) return;
-  const files = inputFileHashes(r);
-  const changed = Object.keys({ ...files, ...seal.inputFiles })
-    .filter((p) => files[p] !== seal.inputFiles[p])
-    .sort();
+  const changed = changedInputFiles(r, seal);
   throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
@@ -184,17 +184,36 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
   };
 }
 
-/** Serves a frozen release from its archive into `dir`. */
+/**
+ * An archive wins over any status edit: the release's status may only have moved forward from
+ * the one it was sealed with (published → superseded → withdrawn). Then its inputs and every
+ * archived byte are checked. Returns the verified archive.
+ */
+export function verifyFrozen(root: string, r: ResolvedRelease): VerifiedArchive {
+  const rel = r.release;
+  const seal = readSeal(root, rel.id);
+  const archive = verifyArchive(root, seal, rel);
+  if (!isForwardOf(archive.sealedStatus as ReleaseStatus, rel.status as ReleaseStatus)) {
+    const finish = rel.status === 'candidate' && archive.sealedStatus === 'published';
+    throw new KilnInputError(`release ${rel.id} is archived as ${archive.sealedStatus}; its status may only move forward (published → superseded → withdrawn)`, {
+      file: rel.file,
+      field: 'status',
+      value: rel.status,
+      expected: `${archive.sealedStatus}${archive.sealedStatus === 'withdrawn' ? '' : ' or a later status'}`,
+      todo: finish ? `if a publish was interrupted, \`kiln publish ${rel.id}\` finishes it` : `set status back to ${archive.sealedStatus}; to change the calibration make a new release`,
+    });
+  }
+  verifyFrozenInputs(r, seal);
+  return archive;
+}
+
+/** Serves a frozen release from its verified archive into `dir`. */
 function serveArchive(
-  content: ContentTree,
   r: ResolvedRelease,
+  archive: VerifiedArchive,
   dir: string,
 ): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
-  const seal = readSeal(content.root, r.release.id);
-  verifyFrozenInputs(r, seal);
-  const bytes = readVerifiedArchive(content.root, seal);
-  const site = JSON.parse(new TextDecoder().decode(bytes.get('site.json')!)) as ReleaseSite;
-  const report = JSON.parse(new TextDecoder().decode(bytes.get('validation.json')!)) as ValidationReport;
+  const { bytes, site, report } = archive;
   mkdirSync(join(dir, 'files'), { recursive: true });
   for (const [path, b] of bytes) if (path.startsWith('files/')) writeFileSync(join(dir, path), b);
   // Status, title and notes may change after publishing; the products and numbers may not.
@@ -202,7 +221,7 @@ function serveArchive(
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
   writeJson(join(dir, 'site.json'), current);
   writeJson(join(dir, 'validation.json'), report);
-  const manifest = bytes.has('manifest.json') ? (JSON.parse(new TextDecoder().decode(bytes.get('manifest.json')!)) as ReleaseManifest) : null;
+  const manifest = archive.manifest;
   return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
 }
 
@@ -219,7 +238,13 @@ function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSumm
   return products;
 }
 
+/** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
+  mkdirSync(dirname(opts.outDir), { recursive: true });
+  return withLock(opts.outDir, 'kiln build', () => buildLocked(opts));
+}
+
+async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const log = opts.log ?? (() => {});
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
@@ -231,10 +256,11 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
-  const isFrozen = (r: ResolvedRelease) =>
-    r.release.id !== opts.publishing && (FROZEN_STATUSES.has(r.release.status) || (r.release.status === 'withdrawn' && hasArchive(content.root, r.release.id)));
-  // Check every frozen release before any work: changed inputs or a missing or altered archived
-  // byte stop the build at once, before anything is built or written.
+  // An archive wins over any status: a release with one is always served from it.
+  const isFrozen = (r: ResolvedRelease) => r.release.id !== opts.publishing && hasArchive(content.root, r.release.id);
+  // Check every frozen release before any work: changed inputs, a status moved backwards, a
+  // missing, extra or altered archived file stop the build at once, before anything is written.
+  const archives = new Map<string, VerifiedArchive>();
   for (const r of content.releases) {
     if (r.release.id === opts.publishing) continue;
     if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
@@ -244,12 +270,9 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
         value: r.release.status,
         expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
       });
-    if (isFrozen(r)) {
-      const seal = readSeal(content.root, r.release.id);
-      verifyFrozenInputs(r, seal);
-      readVerifiedArchive(content.root, seal);
-    }
+    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
   }
+  reached('build:verified');
 
   removeStaleStaging(opts.outDir);
   const staging = stagingDir(opts.outDir);
@@ -267,7 +290,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
       if (frozen) {
-        const served = serveArchive(content, r, dir);
+        const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
@@ -338,6 +361,7 @@ export async function build(opts: BuildOptions): Promise<BuildSummary> {
     releases: works.map(releaseSummary).reverse(),
   };
   writeJson(join(staging, 'index.json'), index);
-  swapInto(staging, opts.outDir);
+  reached('build:staged');
+  swapInto(staging, opts.outDir, 'build:swap');
   return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz };
 }

@@ -1,55 +1,45 @@
 /**
  * kiln publish: freezes a release. Builds it (and checks it against the releases before it),
  * refuses on any failed check, then writes its products, site data and validation report into
- * <content>/archive/<id>/ with a seal of SHA-256 hashes. An existing archive is never touched.
- * A candidate release's status line in release.yaml becomes "published".
+ * <content>/archive/<id>/ with a seal (kiln/seal/2), and sets `status: published` in
+ * release.yaml. An existing archive is never touched.
+ *
+ * Every phase can be cut off (kill, full disk) and `kiln publish ID` run again:
+ *   built / staged     nothing is in place yet: the next run removes the litter and starts over;
+ *   archived           the archive is complete, release.yaml still says candidate: the next run
+ *                      verifies the archive and only sets the status (it "finishes" the publish);
+ *   status-temp        release.yaml is the old or the new file (atomic rename), never partial.
+ * One publish at a time per content tree (a lock beside content/archive).
  */
-import { cpSync, existsSync, mkdirSync, readFileSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { tmpdir } from 'node:os';
-import { mkdtempSync } from 'node:fs';
 import { loadContent } from '../content/index.ts';
+import { withStatus } from '../content/status-line.ts';
+import type { ResolvedRelease } from '../content/types.ts';
 import { KilnInputError } from '../errors.ts';
-import { archiveDirOf, hasArchive, SEAL_FILE, type Seal } from './archive.ts';
-import { build, BuildRefused, type BuildOptions } from './build.ts';
+import { ARCHIVE_DIR, archiveDirOf, hasArchive, SEAL_FILE, SEAL_V2, sealHash, type SealV2 } from './archive.ts';
+import { fsyncDir, removeStale, removeStaleTemps, writeContentFile, writeFileSynced } from './atomic.ts';
+import { build, BuildRefused, verifyFrozen, type BuildOptions } from './build.ts';
 import { formatReleaseReport } from '../checks/index.ts';
 import { plural } from '../plural.ts';
-import { writeFileDurable } from './atomic.ts';
 import { signOffOf, type AcceptAll } from './sign-off.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
+import { withLock } from './lock.ts';
+import { reached } from './phase.ts';
 
 export interface PublishResult {
   release: string;
   archiveDir: string;
   files: number;
   statusChanged: boolean;
+  /** The archive was already complete: this run only finished an interrupted publish. */
+  resumed: boolean;
   /** The published release this one superseded (its status now superseded), if any. */
   superseded: string | null;
   /** Review items recorded as accepted in the seal. */
   accepted: number;
-}
-
-function listFiles(dir: string, base = dir): string[] {
-  const out: string[] = [];
-  for (const name of readdirSync(dir).sort()) {
-    const p = join(dir, name);
-    if (statSync(p).isDirectory()) out.push(...listFiles(p, base));
-    else out.push(relative(base, p).split('\\').join('/'));
-  }
-  return out;
-}
-
-/**
- * Only the status line changes, written atomically; comments and layout of release.yaml stay as
- * the team wrote them.
- */
-function markStatus(file: string, from: string, to: string): boolean {
-  const text = readFileSync(file, 'utf8');
-  const re = new RegExp(`^status:[ \\t]*(["']?)${from}\\1[ \\t]*(#.*)?$`, 'm');
-  if (!re.test(text)) return false;
-  writeFileDurable(file, text.replace(re, (_m, _q, comment) => `status: ${to}${comment ? ' ' + comment : ''}`));
-  return true;
 }
 
 export interface PublishOptions {
@@ -63,22 +53,88 @@ export interface PublishOptions {
 /** Publishing refused because review items are open (nothing archived). */
 export class ReviewOpen extends BuildRefused {}
 
+/** Prefix of the temporary build folders of publish in the system temp directory. */
+const TEMP_PREFIX = 'kiln-publish-';
+
+function listFiles(dir: string, base = dir): string[] {
+  const out: string[] = [];
+  for (const name of readdirSync(dir).sort()) {
+    const p = join(dir, name);
+    if (statSync(p).isDirectory()) out.push(...listFiles(p, base));
+    else out.push(relative(base, p).split('\\').join('/'));
+  }
+  return out;
+}
+
+/** Sets status: published in release.yaml: only that line changes, written atomically. */
+function markPublished(root: string, r: ResolvedRelease): void {
+  const file = r.release.file;
+  const next = withStatus(readFileSync(file, 'utf8'), 'published');
+  if (next === null) throw noStatusLine(r);
+  writeContentFile(root, file, next, 'publish:status-temp');
+}
+
+/**
+ * The published release `r` supersedes stops being recommended: its release.yaml status becomes
+ * superseded (atomic write; its archive is never touched). Returns its id when it changed.
+ */
+function markSuperseded(root: string, releases: ResolvedRelease[], r: ResolvedRelease): string | null {
+  const old = r.release.supersedes ? releases.find((x) => x.release.id === r.release.supersedes) : undefined;
+  if (!old || old.release.status !== 'published') return null;
+  const next = withStatus(readFileSync(old.release.file, 'utf8'), 'superseded');
+  if (next === null) throw noStatusLine(old);
+  writeContentFile(root, old.release.file, next, 'publish:supersede-temp');
+  return old.release.id;
+}
+
+function noStatusLine(r: ResolvedRelease): KilnInputError {
+  return new KilnInputError('release.yaml has no plain `status:` line that kiln publish can change', {
+    file: r.release.file,
+    field: 'status',
+    expected: 'a line `status: candidate` of its own at the top level (no flow style, no anchors)',
+  });
+}
+
 export async function publish(opts: PublishOptions): Promise<PublishResult> {
   const contentDir = resolve(opts.contentDir);
+  const archiveRoot = join(contentDir, ARCHIVE_DIR);
+  mkdirSync(archiveRoot, { recursive: true });
+  return withLock(archiveRoot, 'kiln publish', () => publishLocked(contentDir, opts));
+}
+
+async function publishLocked(contentDir: string, opts: PublishOptions): Promise<PublishResult> {
+  // Litter of killed publishes: staging copies in the archive, temp build folders, release.yaml temps.
+  removeStale(join(contentDir, ARCHIVE_DIR), `.${opts.id}.staging-`, (p) => rmSync(p, { recursive: true, force: true }));
+  removeStale(tmpdir(), TEMP_PREFIX, (p) => rmSync(p, { recursive: true, force: true }));
   const content = await loadContent(contentDir);
   const r = content.releases.find((x) => x.release.id === opts.id);
   if (!r) throw new KilnInputError('no such release', { file: contentDir, value: opts.id, expected: `one of ${content.releases.map((x) => x.release.id).join(', ')}` });
+  removeStaleTemps(r.release.file);
   const archiveDir = archiveDirOf(contentDir, opts.id);
-  if (hasArchive(contentDir, opts.id) || existsSync(archiveDir))
+  const status = r.release.status;
+
+  if (hasArchive(contentDir, opts.id)) {
+    // Verifies the seal, every byte and the inputs; a status moved backwards is refused there,
+    // except candidate over a published archive: the one state an interrupted publish leaves.
+    if (status === 'candidate') {
+      verifyFrozen(contentDir, { ...r, release: { ...r.release, status: 'published' } });
+      const superseded = markSuperseded(contentDir, content.releases, r);
+      markPublished(contentDir, r);
+      opts.log?.(`release ${opts.id}: archive complete and verified; finished the interrupted publish`);
+      return { release: opts.id, archiveDir, files: readdirSync(join(archiveDir, 'files')).length, statusChanged: true, resumed: true, superseded, accepted: 0 };
+    }
+    verifyFrozen(contentDir, r);
     throw new KilnInputError(`release ${opts.id} is already published; a published release is never rewritten`, {
       file: archiveDir,
       expected: 'a new release (new id) for any change',
     });
-  const status = r.release.status;
-  if (status === 'draft' || status === 'withdrawn')
+  }
+  if (status !== 'candidate' && status !== 'published')
     throw new KilnInputError(`release ${opts.id} is a ${status}; only a candidate is published`, { file: r.release.file, field: 'status', value: status, expected: 'candidate' });
+  if (status === 'candidate' && withStatus(readFileSync(r.release.file, 'utf8'), 'published') === null) throw noStatusLine(r);
 
-  const tmp = mkdtempSync(join(tmpdir(), 'kiln-publish-'));
+  const tmp = mkdtempSync(join(tmpdir(), `${TEMP_PREFIX}${process.pid}-`));
+  const staged = join(contentDir, ARCHIVE_DIR, `.${opts.id}.staging-${process.pid}`);
   try {
     const out = join(tmp, 'out');
     // Refuses (BuildRefused) when the release fails a check.
@@ -87,42 +143,48 @@ export async function publish(opts: PublishOptions): Promise<PublishResult> {
     if (outcome.reviews.length)
       throw new ReviewOpen(
         `${formatReleaseReport(`release ${opts.id} has ${plural(outcome.reviews.length, 'review item')} nobody accepted:`, outcome.all, { only: ['review'] })}\n` +
-          `accept each in release.yaml (accepted: - { check, product, reason, role }) or publish with --accept-all --reason TEXT`,
+          'accept each in release.yaml (accepted: - { check, product, reason, role }) or publish with --accept-all --reason TEXT',
         summary.releases,
       );
+    reached('publish:built');
     const built = join(out, 'releases', opts.id);
-    const staged = join(contentDir, 'archive', `.${opts.id}.staging-${process.pid}`);
     rmSync(staged, { recursive: true, force: true });
-    mkdirSync(staged, { recursive: true });
-    cpSync(join(built, 'files'), join(staged, 'files'), { recursive: true });
-    cpSync(join(built, 'validation.json'), join(staged, 'validation.json'));
-    // The archive records the release as it is from now on: published (a candidate is promoted).
-    const archivedStatus = status === 'candidate' ? 'published' : status;
+    mkdirSync(join(staged, 'files'), { recursive: true });
+    for (const name of readdirSync(join(built, 'files')).sort()) writeFileSynced(join(staged, 'files', name), readFileSync(join(built, 'files', name)));
+    fsyncDir(join(staged, 'files'));
+    writeFileSynced(join(staged, 'validation.json'), readFileSync(join(built, 'validation.json')));
+    // The archive records the release as it is from now on: published.
     for (const doc of ['site.json', 'manifest.json']) {
       const value = JSON.parse(readFileSync(join(built, doc), 'utf8')) as { status: string };
-      writeFileSync(join(staged, doc), JSON.stringify({ ...value, status: archivedStatus }) + '\n');
+      writeFileSynced(join(staged, doc), JSON.stringify({ ...value, status: 'published' }) + '\n');
     }
     const files = listFiles(staged).map((path) => {
       const bytes = readFileSync(join(staged, path));
       return { path, bytes: bytes.length, sha256: sha256Hex(bytes) };
     });
-    const seal: Seal = {
-      schema: 'kiln/seal/1',
+    const unsigned: Omit<SealV2, 'sealSha256'> = {
+      schema: SEAL_V2,
       release: opts.id,
       date: r.release.date,
+      status: 'published',
       inputsSha256: inputsSha256(r),
       inputFiles: inputFileHashes(r),
       files,
       signOff: signOffOf(outcome.all),
     };
-    writeFileSync(join(staged, SEAL_FILE), JSON.stringify(seal, null, 2) + '\n');
+    const seal: SealV2 = { ...unsigned, sealSha256: sealHash(unsigned) };
+    writeFileSynced(join(staged, SEAL_FILE), JSON.stringify(seal, null, 2) + '\n');
+    fsyncDir(staged);
+    reached('publish:staged');
     renameSync(staged, archiveDir);
-    const statusChanged = status === 'candidate' ? markStatus(r.release.file, 'candidate', 'published') : false;
-    // The release it supersedes stops being recommended: its status (never its archive) changes.
-    const old = r.release.supersedes ? content.releases.find((x) => x.release.id === r.release.supersedes) : undefined;
-    const superseded = old && old.release.status === 'published' && markStatus(old.release.file, 'published', 'superseded') ? old.release.id : null;
-    return { release: opts.id, archiveDir, files: files.length, statusChanged, superseded, accepted: seal.signOff?.length ?? 0 };
+    fsyncDir(join(contentDir, ARCHIVE_DIR));
+    reached('publish:archived');
+    // The old release first: a publish cut off in between resumes (candidate over its archive).
+    const superseded = markSuperseded(contentDir, content.releases, r);
+    if (status === 'candidate') markPublished(contentDir, r);
+    return { release: opts.id, archiveDir, files: files.length, statusChanged: status === 'candidate', resumed: false, superseded, accepted: unsigned.signOff?.length ?? 0 };
   } finally {
+    rmSync(staged, { recursive: true, force: true });
     rmSync(tmp, { recursive: true, force: true });
   }
 }

@@ -1,4 +1,5 @@
 /** Download helpers: sizes and the checksum lines `sha256sum -c` reads. */
+import { esc as escAttr } from './escape.ts';
 import type { ManifestFile } from '../../generators/site-data/types.ts';
 
 /** File name inside the release's files/ directory. */
@@ -15,7 +16,6 @@ export function formatBytes(n: number): string {
   return `${(n / KIB / KIB).toFixed(2)} MiB`;
 }
 
-const escAttr = (s: string): string => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
 /**
  * Table cell content for a file's SHA-256: the full value stays in the element (select-and-copy,

@@ -16,8 +16,8 @@ export function colourAt(t: number): [number, number, number] {
 export function colourBar(x: number, y: number, widthPx: number, heightPx: number, lo: number, hi: number, title: string, gradientId: string): string {
   const stops = Array.from({ length: 11 }, (_, i) => `<stop offset="${i * 10}%" stop-color="${interpolateViridis(i / 10)}"/>`).join('');
   const parts = [
-    `<defs><linearGradient id="${gradientId}" x1="0" y1="1" x2="0" y2="0">${stops}</linearGradient></defs>`,
-    `<rect x="${x}" y="${y}" width="${widthPx}" height="${heightPx}" fill="url(#${gradientId})" stroke="#333" stroke-width="0.5"/>`,
+    `<defs><linearGradient id="${esc(gradientId)}" x1="0" y1="1" x2="0" y2="0">${stops}</linearGradient></defs>`,
+    `<rect x="${x}" y="${y}" width="${widthPx}" height="${heightPx}" fill="url(#${esc(gradientId)})" stroke="#333" stroke-width="0.5"/>`,
   ];
   const step = hi - lo > 8 ? 2 : 1;
   for (let v = Math.ceil(lo); v <= Math.floor(hi); v += step) {

@@ -15,10 +15,8 @@ export const roundSig = (v: number | null, digits = 4): number | null =>
 /** Axis title "Label (unit)". */
 export const axisTitle = (label: string, unit: string): string => (unit ? `${label} (${unit})` : label);
 
-/** SVG/HTML text escaping. */
-export function esc(s: string): string {
-  return s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
-}
+/** SVG/HTML text and attribute escaping: the site's one rule (src/lib/escape.ts). */
+export { esc } from '../escape.ts';
 
 /** Significant digits of an uncertainty as shown: two (common practice, no source). */
 const UNC_DIGITS = 2;
