@@ -138,6 +138,8 @@ export async function loadContent(root: string): Promise<ContentTree> {
 
   const relDir = join(root, CONTENT_DIRS.releases);
   const parsed: { release: Release; source: DocSource; inputs: InputFile[] }[] = [];
+  /** Release directories that failed to load: history checks do not guess about them. */
+  const brokenReleases = new Set<string>();
   for (const name of (await collecting(errors, () => entryDirs(relDir, 'release'))) ?? []) {
     const dir = join(relDir, name);
     const file = join(dir, RELEASE_FILE);
@@ -154,9 +156,10 @@ export async function loadContent(root: string): Promise<ContentTree> {
       return { release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] };
     });
     if (one) parsed.push(one);
+    else brokenReleases.add(name);
   }
   parsed.sort((a, b) => compareSemver(a.release.id, b.release.id));
-  errors.push(...checkReleaseHistory(parsed));
+  errors.push(...checkReleaseHistory(parsed, brokenReleases));
 
   const releases: ResolvedRelease[] = [];
   for (const p of parsed) {
@@ -179,13 +182,14 @@ export async function loadContent(root: string): Promise<ContentTree> {
   };
 }
 
-function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[]): KilnInputError[] {
+function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
   const errors: KilnInputError[] = [];
   const byId = new Map(list.map((p) => [p.release.id, p]));
   const supersededBy = new Map<string, string>();
   for (const { release: r, source } of list) {
     if (r.supersedes === null) continue;
     const old = byId.get(r.supersedes);
+    if (!old && broken.has(r.supersedes)) continue; // reported already, as its own error
     if (!old) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`));
     else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
     else if (old.release.instrument !== r.instrument)
@@ -193,7 +197,7 @@ function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[])
     else supersededBy.set(r.supersedes, r.id);
   }
   for (const { release: r, source } of list)
-    if (r.status === 'superseded' && !supersededBy.has(r.id))
+    if (r.status === 'superseded' && !supersededBy.has(r.id) && broken.size === 0)
       errors.push(releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`));
   return errors;
 }
