@@ -161,3 +161,22 @@ interface NodeJSErrnoLike {
   path?: string;
   dest?: string;
 }
+
+/**
+ * A system-call error as the user should read it: paths inside a private staging or temporary
+ * folder are shown as the target they stand for, and an error without a path (a write to an open
+ * file) names `target`. Returns `e` itself (changed in place) for rethrowing.
+ */
+export function inTermsOf(e: unknown, target: string, internal: string[] = []): unknown {
+  if (!(e instanceof Error)) return e;
+  const x = e as NodeJSErrnoLike;
+  if (typeof x.code !== 'string' || typeof x.syscall !== 'string') return e;
+  const map = (p: string | undefined) => {
+    if (p === undefined) return target;
+    for (const dir of internal) if (p === dir || p.startsWith(dir + '/')) return target + p.slice(dir.length);
+    return p;
+  };
+  x.path = map(x.path);
+  if (x.dest !== undefined) x.dest = map(x.dest);
+  return e;
+}

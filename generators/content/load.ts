@@ -7,7 +7,9 @@
  *
  * Every user mistake is a KilnInputError naming the file; nothing is written.
  */
-import { readdir, readFile, stat } from 'node:fs/promises';
+import { lstat, readdir } from 'node:fs/promises';
+import { readRegularFile } from '../node/files.ts';
+import { LIMIT_NAMES, MAX_CSV_BYTES, MAX_NOTES_BYTES, MAX_YAML_BYTES } from './limits.ts';
 import { basename, dirname, join } from 'node:path';
 import { KilnInputError, throwInputErrors } from '../errors.ts';
 import { checkMirrorCoversGrid, parseInstrumentText, parseReleaseText } from './documents.ts';
@@ -22,15 +24,15 @@ const UTF8 = new TextDecoder('utf-8', { fatal: true });
 /** Plain files allowed beside the entry directories (documentation). */
 const IGNORED_FILES = /^(\..*|README(\.md)?)$/;
 
-async function readBytes(file: string, expected: string): Promise<Uint8Array> {
-  try {
-    return new Uint8Array(await readFile(file));
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    if (code === 'ENOENT') throw new KilnInputError('file not found', { file, expected });
-    if (code === 'EISDIR') throw new KilnInputError('is a directory, not a file', { file, expected });
-    throw e;
-  }
+type FileKind = keyof typeof LIMIT_NAMES;
+const MAX_BYTES: Record<FileKind, number> = { yaml: MAX_YAML_BYTES, notes: MAX_NOTES_BYTES, csv: MAX_CSV_BYTES };
+
+/**
+ * A content file: a regular file inside the tree (symbolic links, FIFOs and devices refused), at
+ * most its kind's size limit.
+ */
+async function readBytes(root: string, file: string, kind: FileKind, expected: string): Promise<Uint8Array> {
+  return readRegularFile(file, { root, maxBytes: MAX_BYTES[kind], limitName: LIMIT_NAMES[kind], expected });
 }
 
 function decode(bytes: Uint8Array, file: string): string {
@@ -41,20 +43,29 @@ function decode(bytes: Uint8Array, file: string): string {
   }
 }
 
+/** A real directory (not a link to one: symbolic links are refused in the content tree). */
 async function isDirectory(p: string): Promise<boolean> {
+  let st;
   try {
-    return (await stat(p)).isDirectory();
+    st = await lstat(p);
   } catch {
     return false;
   }
+  if (st.isSymbolicLink())
+    throw new KilnInputError('is a symbolic link; symbolic links are refused in the content tree', { file: p, expected: 'a real folder (replace the link by the folder)' });
+  return st.isDirectory();
 }
 
-/** Entry directories under `dir`; stray plain files are errors (they would be silently ignored). */
+/** Entry directories under `dir`; stray plain files and hidden or linked folders are errors (they would be silently ignored). */
 async function entryDirs(dir: string, what: string): Promise<string[]> {
   if (!(await isDirectory(dir))) return [];
   const out: string[] = [];
   for (const d of await readdir(dir, { withFileTypes: true })) {
-    if (d.isDirectory() && !d.name.startsWith('.')) out.push(d.name);
+    if (d.isSymbolicLink())
+      throw new KilnInputError(`symbolic link in ${basename(dir)}/; symbolic links are refused in the content tree`, { file: join(dir, d.name), expected: `a real folder per ${what}` });
+    if (d.isDirectory() && d.name.startsWith('.'))
+      throw new KilnInputError(`hidden folder in ${basename(dir)}/ (its name starts with ".")`, { file: join(dir, d.name), expected: `a ${what} folder named by its id, or no such folder` });
+    if (d.isDirectory()) out.push(d.name);
     else if (!IGNORED_FILES.test(d.name))
       throw new KilnInputError(`unexpected file in ${basename(dir)}/`, { file: join(dir, d.name), expected: `only one directory per ${what} (and README.md)` });
   }
@@ -67,12 +78,12 @@ interface LoadedInstrument {
   inputs: InputFile[];
 }
 
-async function loadInstrumentAt(file: string, rel: (p: string) => string): Promise<LoadedInstrument> {
-  const bytes = await readBytes(file, `${INSTRUMENT_FILE}, the instrument description`);
+async function loadInstrumentAt(root: string, file: string, rel: (p: string) => string): Promise<LoadedInstrument> {
+  const bytes = await readBytes(root, file, 'yaml', `${INSTRUMENT_FILE}, the instrument description`);
   const { doc, yaml } = parseInstrumentText(decode(bytes, file), file);
   const dir = dirname(file);
   const mirrorFile = join(dir, doc.mirrorArea);
-  const mirrorBytes = await readBytes(mirrorFile, `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
+  const mirrorBytes = await readBytes(root, mirrorFile, 'csv', `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
   const mirror = parseMirrorArea(decode(mirrorBytes, mirrorFile), mirrorFile);
   checkMirrorCoversGrid(mirror, doc);
   return {
@@ -87,7 +98,7 @@ async function loadInstrumentAt(file: string, rel: (p: string) => string): Promi
 
 /** One instrument.yaml (and its mirror table), e.g. for `kiln efficiency`. */
 export async function loadInstrumentFile(path: string): Promise<Instrument> {
-  return (await loadInstrumentAt(path, (p) => p)).instrument;
+  return (await loadInstrumentAt(dirname(path), path, (p) => p)).instrument;
 }
 
 function releaseError(src: DocSource, path: (string | number)[], message: string, value: unknown, expected: string): KilnInputError {
@@ -123,7 +134,7 @@ export async function loadContent(root: string): Promise<ContentTree> {
   const broken = new Set<string>();
   const insDir = join(root, CONTENT_DIRS.instruments);
   for (const name of (await collecting(errors, () => entryDirs(insDir, 'instrument'))) ?? []) {
-    const loaded = await collecting(errors, () => loadInstrumentAt(join(insDir, name, INSTRUMENT_FILE), rel));
+    const loaded = await collecting(errors, () => loadInstrumentAt(root, join(insDir, name, INSTRUMENT_FILE), rel));
     if (!loaded) {
       broken.add(name);
       continue;
@@ -144,14 +155,14 @@ export async function loadContent(root: string): Promise<ContentTree> {
     const dir = join(relDir, name);
     const file = join(dir, RELEASE_FILE);
     const one = await collecting(errors, async () => {
-      const bytes = await readBytes(file, `${RELEASE_FILE}, the release description`);
+      const bytes = await readBytes(root, file, 'yaml', `${RELEASE_FILE}, the release description`);
       const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
       const source: DocSource = { file, locate: yaml.locate };
       if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
       if (!instruments.has(doc.instrument) && !broken.has(doc.instrument))
         throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys(), ...broken].sort().join(', ') || '(no instrument in the content tree)'}`);
       const notesFile = join(dir, NOTES_FILE);
-      const notesBytes = await readBytes(notesFile, `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
+      const notesBytes = await readBytes(root, notesFile, 'notes', `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
       const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
       return { release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] };
     });
@@ -167,11 +178,11 @@ export async function loadContent(root: string): Promise<ContentTree> {
       // The model cannot be resolved without its instrument; the line-fit tables can still be read.
       for (const detectorId of Object.keys(p.release.detectors)) {
         const file = join(p.release.dir, lineFitsFileOf(p.release, detectorId));
-        await collecting(errors, async () => parseLineFits(decode(await readBytes(file, `the line fits of detector ${detectorId}`), file), file));
+        await collecting(errors, async () => parseLineFits(decode(await readBytes(root, file, 'csv', `the line fits of detector ${detectorId}`), file), file));
       }
       continue;
     }
-    const r = await collecting(errors, () => resolveRelease(p, instruments, rel));
+    const r = await collecting(errors, () => resolveRelease(root, p, instruments, rel));
     if (r) releases.push(r);
   }
   throwInputErrors(errors);
@@ -203,6 +214,7 @@ function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[],
 }
 
 async function resolveRelease(
+  root: string,
   p: { release: Release; source: DocSource; inputs: InputFile[] },
   instruments: Map<string, LoadedInstrument>,
   rel: (p: string) => string,
@@ -210,7 +222,7 @@ async function resolveRelease(
   const { release, source } = p;
   const ins = instruments.get(release.instrument);
   if (!ins) throw releaseError(source, ['instrument'], 'unknown instrument', release.instrument, `one of ${[...instruments.keys()].join(', ') || '(no instrument in the content tree)'}`);
-  const instrument = await effectiveInstrument(ins, release, source, rel);
+  const instrument = await effectiveInstrument(root, ins, release, source, rel);
   const inputs = [...p.inputs, ...instrument.inputs];
   const used = new Set<string>();
   const detectors = [];
@@ -222,7 +234,7 @@ async function resolveRelease(
     const d = await collecting(errors, async () => {
       if (!ins.instrument.detectors.some((x) => x.id === detectorId))
         throw releaseError(source, ['detectors', detectorId], 'unknown detector', detectorId, `a detector of ${ins.instrument.id}: ${ins.instrument.detectors.map((x) => x.id).join(', ')}`);
-      const bytes = await readBytes(file, `the line fits of detector ${detectorId} (${relFile} in the release directory)`);
+      const bytes = await readBytes(root, file, 'csv', `the line fits of detector ${detectorId} (${relFile} in the release directory)`);
       const lineFits = parseLineFits(decode(bytes, file), file);
       inputs.push({ path: rel(file), bytes });
       return resolveDetector({
@@ -257,7 +269,7 @@ async function resolveRelease(
  * The instrument as this release sees it: its grids and mirror table with the release's
  * `overrides` applied (a restated mirror table replaces the instrument's, also as an input file).
  */
-async function effectiveInstrument(ins: LoadedInstrument, release: Release, source: DocSource, rel: (p: string) => string): Promise<{ instrument: Instrument; inputs: InputFile[] }> {
+async function effectiveInstrument(root: string, ins: LoadedInstrument, release: Release, source: DocSource, rel: (p: string) => string): Promise<{ instrument: Instrument; inputs: InputFile[] }> {
   const ov = release.overrides;
   if (!ov.mirrorArea && !ov.channels && !ov.energyGrid) return { instrument: ins.instrument, inputs: ins.inputs };
   const base = ins.instrument;
@@ -274,7 +286,7 @@ async function effectiveInstrument(ins: LoadedInstrument, release: Release, sour
   let inputs = ins.inputs;
   if (ov.mirrorArea) {
     const file = join(release.dir, ov.mirrorArea);
-    const bytes = await readBytes(file, `the mirror effective-area table named by overrides.mirrorArea of release ${release.id} (columns energy_keV,area_cm2)`);
+    const bytes = await readBytes(root, file, 'csv', `the mirror effective-area table named by overrides.mirrorArea of release ${release.id} (columns energy_keV,area_cm2)`);
     mirror = parseMirrorArea(decode(bytes, file), file);
     // The instrument's own table is not an input of this release any more.
     inputs = [...ins.inputs.filter((f) => f.path !== rel(base.mirror.file)), { path: rel(file), bytes }];

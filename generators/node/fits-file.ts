@@ -1,9 +1,8 @@
 /**
- * Node file access for FITS: read (plain or gzip-compressed) with a size bound, and write
- * atomically so that a failed write never leaves a partial product behind.
+ * Node file access for FITS: read (plain or gzip-compressed) with a size bound. Writes go through
+ * files.ts writeFileAtomic, so that a failed write never leaves a partial product behind.
  */
-import { closeSync, fsyncSync, openSync, readFileSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { readFileSync, statSync } from 'node:fs';
 import { gunzipSync } from 'node:zlib';
 import { KilnInputError } from '../errors.ts';
 import { readFits, type ChecksumPolicy, type FitsFile } from '../fits/index.ts';
@@ -31,8 +30,9 @@ export function readFitsBytes(path: string, opts: { maxBytes?: number } = {}): U
     raw = readFileSync(path);
   } catch (e) {
     if (e instanceof KilnInputError) throw e;
-    const code = (e as NodeJS.ErrnoException).code ?? 'error';
-    throw new KilnInputError(`cannot read file (${code})`, { file: path, expected: 'a readable FITS file' });
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === 'ENOENT' || code === 'ENOTDIR') throw new KilnInputError(`cannot read file (${code})`, { file: path, expected: 'a readable FITS file' });
+    throw e; // permission, I/O: an environment failure, reported as such by the CLI
   }
   if (raw.length >= 2 && raw[0] === GZIP_MAGIC[0] && raw[1] === GZIP_MAGIC[1]) {
     try {
@@ -51,41 +51,4 @@ export function readFitsBytes(path: string, opts: { maxBytes?: number } = {}): U
 /** Reads and parses a FITS file (gzip allowed); errors carry the path. */
 export function readFitsFile(path: string, opts: ReadFitsFileOptions = {}): FitsFile {
   return readFits(readFitsBytes(path, opts), { fileName: path, verifyChecksums: opts.verifyChecksums });
-}
-
-let tempCounter = 0;
-
-/** Writes bytes to a temporary file in the same directory, fsyncs it, then renames it over `path`. */
-export function writeFileAtomic(path: string, bytes: Uint8Array): void {
-  const dir = dirname(path);
-  const tmp = join(dir, `.${basename(path)}.${process.pid}.${++tempCounter}.tmp`);
-  let fd: number | undefined;
-  try {
-    fd = openSync(tmp, 'wx');
-    let done = 0;
-    while (done < bytes.length) done += writeSync(fd, bytes, done, bytes.length - done);
-    fsyncSync(fd);
-    closeSync(fd);
-    fd = undefined;
-    renameSync(tmp, path);
-  } catch (e) {
-    if (fd !== undefined) closeSync(fd);
-    try {
-      unlinkSync(tmp);
-    } catch {
-      /* already gone */
-    }
-    throw e;
-  }
-  try {
-    // Persist the rename itself; not all platforms allow fsync on a directory.
-    const dfd = openSync(dir, 'r');
-    try {
-      fsyncSync(dfd);
-    } finally {
-      closeSync(dfd);
-    }
-  } catch {
-    /* best effort */
-  }
 }

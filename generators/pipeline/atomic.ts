@@ -6,9 +6,9 @@
  * fsynced, and renamed over the old one: a kill or a full disk leaves the old file or the new,
  * never an empty or partial one.
  */
-import { closeSync, existsSync, fsyncSync, lstatSync, mkdirSync, openSync, readdirSync, realpathSync, renameSync, rmSync, unlinkSync, writeSync } from 'node:fs';
-import { dirname, basename, join, relative, isAbsolute } from 'node:path';
-import { KilnInputError } from '../errors.ts';
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, unlinkSync } from 'node:fs';
+import { dirname, basename, join } from 'node:path';
+import { assertContained, writeFileAtomic } from '../node/files.ts';
 import { processAlive } from './lock.ts';
 import { reached, type Phase } from './phase.ts';
 
@@ -45,73 +45,10 @@ export function swapInto(staging: string, target: string, phase?: Phase): void {
   rmSync(prev, { recursive: true, force: true });
 }
 
-/** fsync of a directory, so that a rename in it survives a power cut (POSIX; a no-op where unsupported). */
-export function fsyncDir(dir: string): void {
-  let fd: number | undefined;
-  try {
-    fd = openSync(dir, 'r');
-    fsyncSync(fd);
-  } catch {
-    // Some file systems refuse fsync on directories; the rename is still atomic.
-  } finally {
-    if (fd !== undefined) closeSync(fd);
-  }
-}
-
-/** Writes and fsyncs a file in place (inside a staging directory that is renamed later). */
-export function writeFileSynced(path: string, bytes: Uint8Array | string): void {
-  const data = typeof bytes === 'string' ? Buffer.from(bytes, 'utf8') : bytes;
-  const fd = openSync(path, 'w');
-  try {
-    let off = 0;
-    while (off < data.length) off += writeSync(fd, data, off, data.length - off);
-    fsyncSync(fd);
-  } finally {
-    closeSync(fd);
-  }
-}
-
-function tempNameOf(path: string): string {
-  return join(dirname(path), `.${basename(path)}.tmp-${process.pid}`);
-}
-
-/**
- * Writes a file durably: temp file in the same directory, fsync, rename, fsync of the directory.
- * On failure (a full disk, say) the temp file is removed and the old file stays as it was.
- * `phase` names the moment the temp file is complete and not yet renamed (test hook).
- */
+/** Atomic write (node/files.ts writeFileAtomic) into a folder created when missing (build outputs). */
 export function writeFileDurable(path: string, bytes: Uint8Array | string, phase?: Phase): void {
   mkdirSync(dirname(path), { recursive: true });
-  const tmp = tempNameOf(path);
-  try {
-    writeFileSynced(tmp, bytes);
-    if (phase) reached(phase);
-    renameSync(tmp, path);
-  } catch (e) {
-    rmSync(tmp, { force: true });
-    throw e;
-  }
-  fsyncDir(dirname(path));
-}
-
-/** `path` must lie inside `root` (after resolving links of both) and not be a link itself. */
-export function assertContained(root: string, path: string, what: string): void {
-  const realRoot = realpathSync(root);
-  let realParent: string;
-  try {
-    realParent = realpathSync(dirname(path));
-  } catch {
-    throw new KilnInputError(`${what}: its directory does not exist`, { file: path, expected: `a path inside ${root}` });
-  }
-  const rel = relative(realRoot, join(realParent, basename(path)));
-  if (rel === '' || rel.startsWith('..') || isAbsolute(rel))
-    throw new KilnInputError(`${what} lies outside the content tree`, { file: path, expected: `a path inside ${root}` });
-  try {
-    if (lstatSync(path).isSymbolicLink())
-      throw new KilnInputError(`${what} is a symbolic link; Kiln does not write through links`, { file: path, expected: 'a regular file (replace the link by the file)' });
-  } catch (e) {
-    if (e instanceof KilnInputError) throw e;
-  }
+  writeFileAtomic(path, bytes, phase ? () => reached(phase) : undefined);
 }
 
 /** The one way Kiln changes a file of the content tree: contained, atomic, durable. */

@@ -11,10 +11,10 @@
 import { gzipSync } from 'node:zlib';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { isForwardOf, type ReleaseStatus } from '../content/status-line.ts';
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { loadContent } from '../content/index.ts';
 import type { ContentTree, ResolvedRelease } from '../content/types.ts';
-import { KilnInputError } from '../errors.ts';
+import { inTermsOf, KilnInputError } from '../errors.ts';
 import type {
   Check,
   InstrumentSummary,
@@ -241,7 +241,12 @@ function writeBuiltFiles(dir: string, results: DetectorJobResult[]): ProductSumm
 /** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
   mkdirSync(dirname(opts.outDir), { recursive: true });
-  return withLock(opts.outDir, 'kiln build', () => buildLocked(opts));
+  try {
+    return await withLock(opts.outDir, 'kiln build', () => buildLocked(opts));
+  } catch (e) {
+    // A disk full in the staging directory is reported as a disk full at --out.
+    throw inTermsOf(e, opts.outDir, [join(dirname(opts.outDir), `.${basename(opts.outDir)}.staging-${process.pid}`)]);
+  }
 }
 
 async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {

@@ -17,9 +17,10 @@ import { tmpdir } from 'node:os';
 import { loadContent } from '../content/index.ts';
 import { withStatus } from '../content/status-line.ts';
 import type { ResolvedRelease } from '../content/types.ts';
-import { KilnInputError } from '../errors.ts';
+import { inTermsOf, KilnInputError } from '../errors.ts';
 import { ARCHIVE_DIR, archiveDirOf, hasArchive, SEAL_FILE, SEAL_V2, sealHash, type SealV2 } from './archive.ts';
-import { fsyncDir, removeStale, removeStaleTemps, writeContentFile, writeFileSynced } from './atomic.ts';
+import { fsyncDir, writeFileSynced } from '../node/files.ts';
+import { removeStale, removeStaleTemps, writeContentFile } from './atomic.ts';
 import { build, BuildRefused, verifyFrozen, type BuildOptions } from './build.ts';
 import { formatReleaseReport } from '../checks/index.ts';
 import { plural } from '../plural.ts';
@@ -99,7 +100,12 @@ export async function publish(opts: PublishOptions): Promise<PublishResult> {
   const contentDir = resolve(opts.contentDir);
   const archiveRoot = join(contentDir, ARCHIVE_DIR);
   mkdirSync(archiveRoot, { recursive: true });
-  return withLock(archiveRoot, 'kiln publish', () => publishLocked(contentDir, opts));
+  try {
+    return await withLock(archiveRoot, 'kiln publish', () => publishLocked(contentDir, opts));
+  } catch (e) {
+    const archiveDir = archiveDirOf(contentDir, opts.id);
+    throw inTermsOf(e, archiveDir, [join(archiveRoot, `.${opts.id}.staging-${process.pid}`)]);
+  }
 }
 
 async function publishLocked(contentDir: string, opts: PublishOptions): Promise<PublishResult> {

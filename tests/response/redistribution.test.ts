@@ -15,6 +15,12 @@ function bins(centresKeV: number[], halfWidthKeV: number) {
   return { loKeV: Float64Array.from(centresKeV, (e) => e - halfWidthKeV), hiKeV: Float64Array.from(centresKeV, (e) => e + halfWidthKeV) };
 }
 
+/** σ (keV) of the resolution law written out: σ² = (w·N_r)²·(a + b·E) + F·w·E + σ₀² (see lawFwhmEv below). */
+function lawSigmaKeV(spec: ReturnType<typeof gaussianOnlySpec>, eKeV: number): number {
+  const f = spec.fwhm;
+  return Math.sqrt((spec.pairEnergyEv * f.readNoiseE) ** 2 * (f.pixelsPerEvent.a + f.pixelsPerEvent.bPerKeV * eKeV) + f.fano * spec.pairEnergyEv * eKeV * 1000 + f.sigma0Ev ** 2) / 1000;
+}
+
 function dense(r: RedistributionResult, i: number): Float64Array {
   return expandRow(r.rmf.rows[i], r.rmf.detchans, r.rmf.firstChannel);
 }
@@ -87,15 +93,35 @@ describe('redistribution matrix: line shape', () => {
   const calib = [0.525, 1.487, 5.899, 8.048];
   const spec = gaussianOnlySpec({ centroid: { source: 'law', gainError: 0.002, offsetEv: 3, chargeLossEv: 0, chargeLossScaleKeV: 1 } });
 
-  it('a Gaussian refit to rows at calibration energies recovers the input centroid and FWHM within 0.5 eV', () => {
+  /**
+   * The resolution law written out (σ² = (w·N_r)²·n_pix + F·w·E + σ₀², n_pix = a + b·E; Fano, Phys.
+   * Rev. 72, 26 (1947) for the F·w·E term, read noise added in quadrature per pixel: common practice,
+   * no source), FWHM = 2√(2 ln 2)·σ (definition of the FWHM of a Gaussian): not physics/resolution.ts,
+   * so a wrong width there fails here too.
+   */
+  const lawFwhmEv = (eKeV: number) => {
+    const f = spec.fwhm;
+    const npix = f.pixelsPerEvent.a + f.pixelsPerEvent.bPerKeV * eKeV;
+    return 2 * Math.sqrt(2 * Math.LN2) * Math.sqrt((spec.pairEnergyEv * f.readNoiseE) ** 2 * npix + f.fano * spec.pairEnergyEv * eKeV * 1000 + f.sigma0Ev ** 2);
+  };
+  /**
+   * Measured deviation from the law: row moments ≤ 1.2e-7 eV centroid and ≤ 5.3e-5 eV FWHM (float32
+   * storage and the 1e-5 element cut); least-squares refit ≤ 1e-7 eV and ≤ 4.4e-6 eV. Tolerance
+   * 1e-3 eV for both (20× the largest measured margin). A core 0.3 % too wide moves the FWHM by
+   * ≥ 0.15 eV at these energies and fails.
+   */
+  const MOMENT_TOLERANCE_EV = 1e-3;
+  const LSQ_TOLERANCE_EV = 1e-3;
+
+  it('a Gaussian refit to rows at calibration energies recovers the input centroid and the law\'s FWHM (moments within 1e-3 eV)', () => {
     const r = buildRedistribution({ spec, lineFits: [], energy: bins(calib, 0.0005), channels: ch, meta: META });
     calib.forEach((e, i) => {
       const trueCentroidEv = (e * 1.002) * 1000 + 3;
-      const trueFwhm = fwhmEv(e, resolutionParamsOf(spec));
+      const trueFwhm = lawFwhmEv(e);
       const row = dense(r, i);
       const m = moments(row, ch);
-      expect(Math.abs(m.mean * 1000 - trueCentroidEv)).toBeLessThan(0.5);
-      expect(Math.abs(Math.sqrt(m.variance) * 1000 * FWHM_PER_SIGMA - trueFwhm)).toBeLessThan(0.5);
+      expect(Math.abs(m.mean * 1000 - trueCentroidEv)).toBeLessThan(MOMENT_TOLERANCE_EV);
+      expect(Math.abs(Math.sqrt(m.variance) * 1000 * FWHM_PER_SIGMA - trueFwhm)).toBeLessThan(MOMENT_TOLERANCE_EV);
       // least-squares Gaussian (density at channel centres × width) to the channels within ±4σ
       const xs: number[] = [];
       const ys: number[] = [];
@@ -115,20 +141,27 @@ describe('redistribution matrix: line shape', () => {
         scale: [1, 10, 10],
         model: ([a, c, s], x) => (a * 2 * Math.exp(-0.5 * ((x - c) / s) ** 2)) / (s * Math.sqrt(2 * Math.PI)),
       });
-      expect(Math.abs(fit.params.c - trueCentroidEv)).toBeLessThan(0.5);
       // sampled density ↔ channel integral: σ² differs by w²/12 (Sheppard), corrected here
       const fwhmFit = Math.sqrt(fit.params.s ** 2 - 4 / 12) * FWHM_PER_SIGMA;
-      expect(Math.abs(fwhmFit - trueFwhm)).toBeLessThan(0.5);
+      expect(Math.abs(fit.params.c - trueCentroidEv)).toBeLessThan(LSQ_TOLERANCE_EV);
+      expect(Math.abs(fwhmFit - trueFwhm)).toBeLessThan(LSQ_TOLERANCE_EV);
     });
   });
 
-  it('averages wide energy bins: variance = σ²(mid) + Δ²/12 (uniform spread of centroids; common practice, no source)', () => {
-    const r = buildRedistribution({ spec: gaussianOnlySpec(), lineFits: [], energy: bins([3.1], 0.1), channels: ch, meta: META });
+  /**
+   * A row for a spectrum flat across a wide bin: the line's centroid is uniform over the bin (variance
+   * Δ²/12) and its σ² is linear in E, so the row's variance is σ²(mid) + Δ²/12 exactly; 2-point
+   * Gauss–Legendre integrates both exactly (nodes ±1/√3: Abramowitz & Stegun 25.4.29, exact to
+   * degree 3). Measured |relative deviation| ≤ 4e-7 for bins 0.1–0.4 keV wide (float32 storage);
+   * tolerance 1e-5. Nodes at ±1/2 would give sub-interval variance h²/16 instead of h²/12: 2e-3.
+   */
+  it.each([0.05, 0.1, 0.2])('averages a bin of half-width %s keV: variance = σ²(mid) + Δ²/12 within 1e-5 relative', (halfKeV) => {
+    const r = buildRedistribution({ spec: gaussianOnlySpec(), lineFits: [], energy: bins([3.1], halfKeV), channels: ch, meta: META });
     const m = moments(dense(r, 0), ch);
-    const s = fwhmEv(3.1, resolutionParamsOf(gaussianOnlySpec())) / FWHM_PER_SIGMA / 1000;
-    expect(m.mean).toBeCloseTo(3.1, 5);
-    expect(m.variance / (s * s + 0.04 / 12) - 1).toBeLessThan(0.005);
-    expect(m.variance / (s * s + 0.04 / 12) - 1).toBeGreaterThan(-0.005);
+    const s = lawSigmaKeV(gaussianOnlySpec(), 3.1);
+    const expected = s * s + (2 * halfKeV) ** 2 / 12;
+    expect(Math.abs(m.mean - 3.1)).toBeLessThan(1e-9 * 1000);
+    expect(Math.abs(m.variance / expected - 1)).toBeLessThan(1e-5);
   });
 
   it('with high read noise soft events fall under the threshold and are lost (common practice, no source)', () => {

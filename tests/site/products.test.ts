@@ -1,0 +1,169 @@
+/**
+ * The curves the site plots against the published files. A fresh `kiln build` of the demo writes
+ * products and site data; Debian's python3-astropy reads every ARF and RMF of every release (built
+ * and archived), and scipy's curve_fit refits the Gaussian core of RMF rows. The release page's
+ * plot specs (src/lib/release-plots.ts, what the pages draw) must then equal what the files hold:
+ * - effective area: every epoch's curve = the ARF's SPECRESP at its bin centres (ENERG_LO+ENERG_HI)/2,
+ *   within the rounding the site applies (4 significant digits, DEVELOPERS.md "Site");
+ * - FWHM and centroid model curves = the core refitted to the published matrix rows, within the
+ *   bias a tail and shelf put on a Gaussian fit to the top of a row (measured, see TOLERANCES).
+ * So a wrong curve (the bare mirror area, another epoch's or detector's curve, σ for FWHM) cannot
+ * reach a page while the suite is green.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
+import { centroidPlot, effectiveAreaPlot, fwhmPlot } from '../../src/lib/release-plots.ts';
+import { kiln, workspace, type Workspace } from '../pipeline/helpers.ts';
+import { runAstropyChecks, runPythonJson } from '../support/python.ts';
+
+/** The site rounds plotted curves to 4 significant digits (site-detector.ts CURVE_DIGITS): half a unit of the 4th digit. */
+const CURVE_DIGITS = 4;
+/** SPECRESP is stored as 32-bit float (TFORM E; FITS 4.0 §7.3.3): relative 2^-24. */
+const FLOAT32_REL = 2 ** -24;
+/** 8 ln 2: FWHM² = 8 ln2 σ² for a Gaussian (definition of the FWHM). */
+const FWHM2_PER_SIGMA2 = 8 * Math.LN2;
+/** Fit the top of each row only: channels above this fraction of the peak (keeps the tail's influence small). */
+const CORE_FRACTION = 0.5;
+/**
+ * Bias of a Gaussian fit to the top half of a published row (at least 5 channels) against the model
+ * core, measured on the demo (every release and detector; channels 15 eV wide): ≤ 3.7 eV FWHM and
+ * ≤ 2.4 eV centroid below 3 keV, where the low-energy tail and shelf pull the fit (most on the
+ * back-illuminated sensor), and ≤ 0.36 eV FWHM / 0.11 eV centroid above. Tolerances: the measured
+ * margin plus ~30 %.
+ */
+const TOLERANCES = [
+  { belowKeV: 3, fwhmEv: 4.8, centroidEv: 3.2 },
+  { belowKeV: Infinity, fwhmEv: 0.5, centroidEv: 0.15 },
+];
+
+const READ_PRODUCTS = String.raw`
+import json, sys, numpy as np
+from astropy.io import fits
+from scipy.optimize import curve_fit
+d = json.load(sys.stdin)
+out = {'arf': {}, 'rmf': {}}
+for p in d['arfs']:
+    with fits.open(p) as f:
+        t = f['SPECRESP'].data
+        out['arf'][p] = {'lo': t['ENERG_LO'].astype(float).tolist(), 'hi': t['ENERG_HI'].astype(float).tolist(), 'area': t['SPECRESP'].astype(float).tolist()}
+def g(x, a, mu, s): return a * np.exp(-0.5 * ((x - mu) / s) ** 2)
+for p, energies in d['rmfs'].items():
+    with fits.open(p) as f:
+        m = f['MATRIX'].data; eb = f['EBOUNDS'].data
+        col = [i + 1 for i, n in enumerate(f['MATRIX'].columns.names) if n == 'F_CHAN'][0]
+        tlmin = int(f['MATRIX'].header.get('TLMIN%d' % col, 1))
+        lo = np.asarray(m['ENERG_LO'], float); hi = np.asarray(m['ENERG_HI'], float)
+        emin = np.asarray(eb['E_MIN'], float); emax = np.asarray(eb['E_MAX'], float)
+        x = 0.5 * (emin + emax); w = emax - emin
+        res = []
+        for e in energies:
+            i = int(np.searchsorted(hi, e, side='right'))
+            row = np.zeros(len(emin)); k = 0
+            mat = np.atleast_1d(m['MATRIX'][i])
+            for fc, nc in zip(np.atleast_1d(m['F_CHAN'][i]), np.atleast_1d(m['N_CHAN'][i])):
+                row[int(fc) - tlmin:int(fc) - tlmin + int(nc)] = mat[k:k + int(nc)]; k += int(nc)
+            dens = row / w
+            # The top of the row, and at least the five channels around its peak (narrow soft lines).
+            j = int(np.argmax(dens)); top = (dens >= d['coreFraction'] * dens[j]) | (np.abs(np.arange(len(dens)) - j) <= 2)
+            popt, _ = curve_fit(g, x[top], dens[top], p0=[dens[j], x[j], 0.05])
+            # Channel integration broadens by width²/12 (Sheppard's correction): remove it.
+            s = np.sqrt(popt[2] ** 2 - np.median(w[top]) ** 2 / 12)
+            res.append({'binLo': float(lo[i]), 'binHi': float(hi[i]), 'muKeV': float(popt[1]), 'sigmaKeV': float(s)})
+        out['rmf'][p] = res
+print(json.dumps(out))
+`;
+
+interface ArfRead { lo: number[]; hi: number[]; area: number[] }
+interface CoreRead { binLo: number; binHi: number; muKeV: number; sigmaKeV: number }
+
+/** Largest difference rounding to `digits` significant digits can make. */
+const roundingSlack = (v: number, digits: number) => (v === 0 ? 0 : 0.5 * 10 ** (Math.floor(Math.log10(Math.abs(v))) - digits + 1));
+
+let ws: Workspace;
+let sites: ReleaseSite[] = [];
+let read: { arf: Record<string, ArfRead>; rmf: Record<string, CoreRead[]> };
+/** Every 10th point of the plotted resolution curve, away from the grid's two ends. */
+const curveIndices = (n: number) => Array.from({ length: n }, (_, i) => i).filter((i) => i % 10 === 5);
+
+const productPath = (site: ReleaseSite, kind: string, detector: string, epoch: string) => {
+  const p = site.products.find((x) => x.kind === kind && x.detector === detector && x.epoch === epoch);
+  if (!p) throw new Error(`release ${site.id}: no ${kind} for ${detector}/${epoch}`);
+  return join(ws.out, 'releases', site.id, p.path);
+};
+
+describe.runIf(runAstropyChecks)('site curves against the published products (astropy, scipy)', () => {
+  beforeAll(() => {
+    ws = workspace();
+    const r = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
+    if (r.status !== 0) throw new Error(`demo build failed:\n${r.stderr}`);
+    const index = JSON.parse(readFileSync(join(ws.out, 'index.json'), 'utf8')) as { releases: { id: string }[] };
+    sites = index.releases.map((rel) => JSON.parse(readFileSync(join(ws.out, 'releases', rel.id, 'site.json'), 'utf8')) as ReleaseSite);
+    const arfs: string[] = [];
+    const rmfs: Record<string, number[]> = {};
+    for (const s of sites)
+      for (const d of s.detectors) {
+        for (const ep of d.epochs) arfs.push(productPath(s, 'arf', d.id, ep.id));
+        rmfs[productPath(s, 'rmf', d.id, 'all')] = curveIndices(d.resolution.energyKeV.length).map((i) => d.resolution.energyKeV[i]);
+      }
+    read = runPythonJson('astropy', READ_PRODUCTS, { arfs, rmfs, coreFraction: CORE_FRACTION });
+  });
+  afterAll(() => ws?.dispose());
+
+  it('covers every release of the demo, archived ones included', () => {
+    expect(sites.map((s) => s.id).sort()).toEqual(['1.0.0', '1.1.0', '2.0.0']);
+  });
+
+  it('each epoch\'s plotted effective area equals the ARF read by astropy, bin by bin, within the site\'s 4-digit rounding', () => {
+    let compared = 0;
+    for (const s of sites)
+      for (const d of s.detectors) {
+        const plot = effectiveAreaPlot(d, s.id);
+        for (const ep of d.epochs) {
+          const arf = read.arf[productPath(s, 'arf', d.id, ep.id)];
+          const series = plot.series.find((x) => x.label === `effective area, epoch ${ep.id}`)!;
+          expect(series, `${s.id} ${d.id} ${ep.id}: plotted`).toBeTruthy();
+          expect(series.x.length, `${s.id} ${d.id} ${ep.id}: one point per ARF bin`).toBe(arf.area.length);
+          for (let i = 0; i < arf.area.length; i++) {
+            const centre = 0.5 * (arf.lo[i] + arf.hi[i]);
+            // Energies: 6 significant digits in site JSON (site-detector.ts), 5 in the plot spec (plot/build.ts), float32 bounds in the file.
+            expect(Math.abs(series.x[i] - centre), `${s.id} ${d.id} ${ep.id} bin ${i} energy`).toBeLessThanOrEqual(roundingSlack(centre, 6) + roundingSlack(centre, 5) + 2 * FLOAT32_REL * centre);
+            const y = series.y[i]!;
+            expect(Math.abs(y - arf.area[i]), `${s.id} ${d.id} ${ep.id} bin ${i}: plotted ${y} vs SPECRESP ${arf.area[i]}`).toBeLessThanOrEqual(
+              roundingSlack(arf.area[i], CURVE_DIGITS) * (1 + 1e-9) + 2 * FLOAT32_REL * arf.area[i],
+            );
+            compared++;
+          }
+        }
+      }
+    expect(compared).toBeGreaterThan(1000);
+  });
+
+  it('the plotted FWHM and centroid model curves equal a Gaussian core refitted (scipy) to the published matrix rows', () => {
+    let compared = 0;
+    for (const s of sites)
+      for (const d of s.detectors as DetectorSite[]) {
+        const fw = fwhmPlot(d).series.find((x) => x.label === 'model')!;
+        const ce = centroidPlot(d).series.find((x) => x.label === 'model')!;
+        const cores = read.rmf[productPath(s, 'rmf', d.id, 'all')];
+        curveIndices(d.resolution.energyKeV.length).forEach((i, k) => {
+          const core = cores[k];
+          const e = fw.x[i];
+          const tol = TOLERANCES.find((t) => e < t.belowKeV)!;
+          // The row is for a spectrum flat across its energy bin: the centroid moves by about the bin
+          // width across it, adding width²/12 to σ² (variance of a uniform spread).
+          const binEv = (core.binHi - core.binLo) * 1000;
+          const modelFwhm = Math.sqrt(fw.y[i]! ** 2 + (FWHM2_PER_SIGMA2 * binEv ** 2) / 12);
+          const fittedFwhm = core.sigmaKeV * Math.sqrt(FWHM2_PER_SIGMA2) * 1000;
+          expect(Math.abs(fittedFwhm - modelFwhm), `${s.id} ${d.id} ${e.toFixed(3)} keV: refitted FWHM ${fittedFwhm.toFixed(2)} eV vs plotted ${modelFwhm.toFixed(2)} eV`).toBeLessThanOrEqual(tol.fwhmEv);
+          // The centroid plot shows centroid − photon energy; the row's photon energy is its bin centre.
+          const fittedShift = (core.muKeV - 0.5 * (core.binLo + core.binHi)) * 1000;
+          expect(ce.x[i]).toBe(e);
+          expect(Math.abs(fittedShift - ce.y[i]!), `${s.id} ${d.id} ${e.toFixed(3)} keV: refitted centroid offset ${fittedShift.toFixed(2)} eV vs plotted ${ce.y[i]} eV`).toBeLessThanOrEqual(tol.centroidEv);
+          compared++;
+        });
+      }
+    expect(compared).toBeGreaterThan(50);
+  });
+});

@@ -1,0 +1,25 @@
+/**
+ * The tests Stryker runs against each mutant (`npm run mutate`): the unit and reference tests of
+ * the browser-safe core and of the pipeline's atomic/archive code. Pipeline, site and browser
+ * tests spawn whole builds or a browser and are left out: per mutant they would cost minutes.
+ */
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    include: [
+      'tests/fits/**/*.test.ts',
+      'tests/ogip/**/*.test.ts',
+      'tests/physics/**/*.test.ts',
+      'tests/response/**/*.test.ts',
+      'tests/fit/**/*.test.ts',
+      'tests/checks/**/*.test.ts',
+      'tests/compare/**/*.test.ts',
+      'tests/engine/**/*.test.ts',
+      'tests/atomic/**/*.test.ts',
+    ],
+    testTimeout: 60_000,
+    hookTimeout: 300_000,
+    pool: 'forks',
+  },
+});
