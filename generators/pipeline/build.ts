@@ -124,7 +124,7 @@ export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
-    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — put changes into a new release`,
+    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — keep these inputs and restate the corrected ones in a new release (release.yaml overrides:, README "How to correct a published release")`,
   });
 }
 
