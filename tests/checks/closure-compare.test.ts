@@ -128,7 +128,7 @@ describe.runIf(runAstropyChecks)('Gaussian core, closure and comparison (scipy-g
     expect(r5.status).toBe('review');
     // A uniform 5 % change is one value, not a degenerate range "1.05–1.05".
     expect(r5.measured).toBe('1.05');
-    expect(r5.message).toMatch(/^area ratio 1\.05 at every compared energy .*allowed 1 ± 0\.02)$/);
+    expect(r5.message).toMatch(/^area ratio 1\.05 at every compared energy .*allowed 1 ± 0\.02\)$/);
     expect(compareArf(arf, up01, 'p')[0].status).toBe('pass');
   });
 });
