@@ -21,3 +21,4 @@ export * from './fits-view.ts';
 export * from './classify.ts';
 export * from './check-file.ts';
 export * from './report.ts';
+export * from './release-report.ts';

@@ -10,8 +10,10 @@ import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 /** Verb name → module path; loaded lazily so `kiln inspect` does not pay for the physics. */
 const VERBS: Record<string, { summary: string; load: () => Promise<{ command: CommandSpec }> }> = {
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
+  site: { summary: 'build products and the site for a content tree into a folder (--content, --out)', load: () => import('./site.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
+  report: { summary: "print a release's checks, failed and review items first, measured vs allowed", load: () => import('./report.ts') },
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },
   efficiency: { summary: 'print the layer-by-layer efficiency of a detector', load: () => import('./efficiency.ts') },
   response: { summary: 'make the RMF and ARF of one detector position and date from a release\'s model document', load: () => import('./response.ts') },
@@ -73,7 +75,7 @@ export function reportFailure(verb: string, e: unknown, debug: boolean): number 
   }
   const known = isInputError(e) ? e : fromSystemError(e);
   if (known) {
-    process.stderr.write(`kiln ${verb}: ${known.oneLine()}\n`);
+    for (const line of known.lines()) process.stderr.write(`kiln ${verb}: ${line}\n`);
     trace();
     return exitCodeOf(known);
   }

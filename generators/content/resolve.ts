@@ -8,7 +8,8 @@
  * - an override whose `source` (law | line-fits) or `kind` (contamination law) differs from the
  *   instrument's replaces that part whole, and must then be complete;
  * - layers (stack.filters, stack.surface) are addressed by name; layers cannot be added or removed.
- * An error in the merged model names release.yaml when the offending value came from the
+ * The release-wide `overrides.model` is merged first, then `detectors.<id>.model`.
+ * An error in the merged model names release.yaml when the offending value came from an
  * override, instrument.yaml otherwise.
  */
 import { KilnInputError } from '../errors.ts';
@@ -127,20 +128,28 @@ export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
   const rd = release.detectors[detectorId];
   const overridePrefix = [...releasePrefix, 'model'];
   const base = { stack: det.stack, redistribution: det.redistribution };
-  const { merged, provenance } = mergeModel(base, rd.model, x.releaseSource, overridePrefix);
+  // The release's model for every detector first, then this detector's own; the later one wins.
+  const sharedPrefix: FieldPath = ['overrides', 'model'];
+  const shared = mergeModel(base, release.overrides.model ?? {}, x.releaseSource, sharedPrefix);
+  const { merged, provenance } = mergeModel(shared.merged, rd.model, x.releaseSource, overridePrefix);
 
   const parsed = detectorModelSchema.safeParse(merged);
   if (!parsed.success) {
     const iss = parsed.error.issues[0];
     const lookup = iss.code === 'unrecognized_keys' ? [...iss.path, iss.keys[0]] : iss.path;
-    const op = fromOverride(lookup, provenance);
+    const own = fromOverride(lookup, provenance);
+    const fromShared = own ? null : fromOverride(lookup, shared.provenance);
     let err = issueToError(iss, { file: x.instrumentSource.file, raw: merged, locate: x.instrumentSource.locate, schema: detectorModelSchema }, ['detectors', index]);
-    if (op) {
-      const path = [...overridePrefix, ...op];
-      err = new KilnInputError(err.message, { ...err.where, file: x.releaseSource.file, line: x.releaseSource.locate?.(path)?.line, field: formatPath(path) });
-    }
+    const op = own ? [...overridePrefix, ...own] : fromShared ? [...sharedPrefix, ...fromShared] : null;
+    if (op) err = new KilnInputError(err.message, { ...err.where, file: x.releaseSource.file, line: x.releaseSource.locate?.(op)?.line, field: formatPath(op) });
     throw new KilnInputError(`${err.message} (after applying release ${release.id}'s model to detector ${detectorId})`, err.where);
   }
+  if (!(parsed.data.redistribution.thresholdKeV < instrument.energyGrid.maxKeV))
+    throw new KilnInputError(`threshold of detector ${detectorId} lies above the energy grid of release ${release.id}`, {
+      file: x.releaseSource.file,
+      value: parsed.data.redistribution.thresholdKeV,
+      expected: `< energyGrid.maxKeV = ${instrument.energyGrid.maxKeV}`,
+    });
   const wholeFits: LineFitTable = regionless(x.lineFits);
   checkLineFits(wholeFits, parsed.data.redistribution as RedistributionSpec, instrument, detectorId);
   const bandFits = x.lineFits.fits.filter((f) => f.region !== undefined);

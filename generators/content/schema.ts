@@ -341,14 +341,15 @@ export const channelGridSchema = z
   })
   .strict();
 
-export const energyGridSchema = z
+const energyGridFields = z
   .object({
     minKeV: finite.gte(TABLE_ENERGY_MIN_KEV),
     maxKeV: finite.lte(TABLE_ENERGY_MAX_KEV),
     bins: z.number().int().gte(1).lte(MAX_ENERGY_BINS),
     spacing: z.enum(['linear', 'log']),
   })
-  .strict()
+  .strict();
+export const energyGridSchema = energyGridFields
   .superRefine((g, ctx) => {
     if (!(g.maxKeV > g.minKeV)) issue(ctx, 'energy grid is not increasing', `maxKeV > minKeV = ${g.minKeV}`, ['maxKeV']);
   });
@@ -513,6 +514,36 @@ export const releaseDetectorSchema = z
   })
   .strict();
 
+/**
+ * Instrument-level inputs a release restates (`overrides:` in release.yaml), so that a correction
+ * of anything — mirror table, grids, the base model of every detector — is a new release. Same
+ * merge rules as the per-detector `model`; the release's own `detectors.<id>.model` applies last.
+ */
+export const releaseOverridesSchema = z
+  .object({
+    /** Mirror table (`energy_keV,area_cm2`) relative to the release directory, replacing the instrument's. */
+    mirrorArea: relativeFile('.csv').optional(),
+    channels: channelGridSchema.partial().strict().optional(),
+    energyGrid: energyGridFields.partial().strict().optional(),
+    /** Applied to every detector of the release before its own override. */
+    model: modelOverrideSchema.optional(),
+  })
+  .strict();
+export type ReleaseOverrides = z.output<typeof releaseOverridesSchema>;
+
+/** A review item signed off: the check id and product it is about, why, and who (by role). */
+export const acceptedItemSchema = z
+  .object({
+    /** Check id as in the validation report, e.g. review.rmf.fwhm. */
+    check: text,
+    /** Product id as in the validation report (e.g. fi0-rmf), or null for a release-level check. */
+    product: text.nullable(),
+    reason: text,
+    role: text,
+  })
+  .strict();
+export type AcceptedItem = z.output<typeof acceptedItemSchema>;
+
 export const releaseSchema = z
   .object({
     id: releaseId,
@@ -527,6 +558,9 @@ export const releaseSchema = z
     /** Products per detector (as before regions existed), per readout node, or per node × row band. */
     productsPer: z.enum(PRODUCTS_PER).default('detector'),
     epochs: z.array(epochSchema).min(1),
+    overrides: releaseOverridesSchema.default({}),
+    /** Review items accepted for this release (shown as accepted; `kiln publish` requires all). */
+    accepted: z.array(acceptedItemSchema).default([]),
     detectors: z.record(safeId, releaseDetectorSchema),
   })
   .strict()

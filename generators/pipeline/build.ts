@@ -26,7 +26,9 @@ import type {
   ValidationReport,
   ReleaseSpectral,
 } from '../site-data/types.ts';
-import { countStatuses } from '../checks/index.ts';
+import { countStatuses, formatReleaseReport } from '../checks/index.ts';
+import { plural } from '../plural.ts';
+import { applySignOff, type AcceptAll } from './sign-off.ts';
 import { archiveDirOf, hasArchive, readSeal, verifyArchive, type Seal, type VerifiedArchive } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
 import { withLock } from './lock.ts';
@@ -80,6 +82,10 @@ export interface BuildOptions {
   prebuilt?: (jobId: string, fingerprint: string) => JobOutput;
   /** Lines that must be seen even with --quiet (a cache entry rejected and rebuilt). */
   warn?: (line: string) => void;
+  /** Build releases up to and including this id only (`kiln report`). */
+  upTo?: string;
+  /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
+  acceptAll?: AcceptAll;
 }
 
 /**
@@ -96,6 +102,10 @@ export interface ReleaseOutcome {
   files: number;
   checks: ReturnType<typeof countStatuses>;
   failures: Check[];
+  /** Review items nobody accepted yet (publishing needs none). */
+  reviews: Check[];
+  /** Every check of the release, in the build's order. */
+  all: Check[];
 }
 
 export interface BuildSummary {
@@ -138,7 +148,7 @@ export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
-    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — put changes into a new release`,
+    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — keep these inputs and restate the corrected ones in a new release (release.yaml overrides:, README "How to correct a published release")`,
   });
 }
 
@@ -188,7 +198,7 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
   const c = w.outcome.checks;
   return {
     ...releaseHead(w.r.release),
-    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
+    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review, accepted: c.accepted },
     products: w.products,
     ...(w.model ? { model: w.model } : {}),
   };
@@ -331,10 +341,11 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
   const content = await loadContent(opts.contentDir);
-  if (opts.publishing !== undefined) {
-    const at = content.releases.findIndex((r) => r.release.id === opts.publishing);
+  const last = opts.publishing ?? opts.upTo;
+  if (last !== undefined) {
+    const at = content.releases.findIndex((r) => r.release.id === last);
     if (at < 0)
-      throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
+      throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
   // An archive wins over any status: a release with one is always served from it.
@@ -414,6 +425,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
         const spectral = spectralOf(products);
         if (spectral) checks.push(...impactChecks(spectral, products));
+        checks = applySignOff(checks, rel.accepted, rel.id === opts.publishing ? (opts.acceptAll ?? null) : null);
         parameters = Object.fromEntries(slots.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
         // Checks go to their detector's document once the cross-release review has added its own.
         const byDet = checksByDetector(checks, products);
@@ -435,11 +447,20 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         dir,
         products,
         model: modelRef,
-        outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
+        outcome: {
+          id: rel.id,
+          status: rel.status,
+          source: frozen ? 'archive' : 'built',
+          files: products.length,
+          checks: counts,
+          failures: checks.filter((c) => c.status === 'fail'),
+          reviews: checks.filter((c) => c.status === 'review'),
+          all: checks,
+        },
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
       works.push(work);
-      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review`);
+      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`);
     }
   } catch (e) {
     await pool.close();
@@ -451,8 +472,8 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const refused = works.filter((w) => w.outcome.failures.length > 0 && w.r.release.status !== 'draft' && w.outcome.source === 'built');
   if (refused.length) {
     removeStaleStaging(opts.outDir);
-    const lines = refused.map((w) => `release ${w.outcome.id} (${w.outcome.status}) fails ${w.outcome.failures.length} checks: ${w.outcome.failures.slice(0, 8).map((c) => `${c.id}${c.product ? ` [${c.product}]` : ''}`).join(', ')}${w.outcome.failures.length > 8 ? ', …' : ''}`);
-    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown)`, works.map((w) => w.outcome));
+    const lines = refused.map((w) => formatReleaseReport(`release ${w.outcome.id} (${w.outcome.status}) fails ${plural(w.outcome.failures.length, 'check')}:`, w.outcome.all, { only: ['fail'] }));
+    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown; kiln report ID lists every check)`, works.map((w) => w.outcome));
   }
 
   const index: ReleaseIndex = {

@@ -21,7 +21,17 @@
 
 export type ReleaseStatus = 'draft' | 'candidate' | 'published' | 'superseded' | 'withdrawn';
 export type ProductKind = 'rmf' | 'arf' | 'rsp';
-export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review';
+/** `accepted`: a review item a release lists as signed off (release.yaml `accepted`, or `kiln publish --accept-all`). */
+export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review' | 'accepted';
+
+/** Who accepted a review item and why. */
+export interface Acceptance {
+  reason: string;
+  /** The role that accepted it, e.g. "instrument scientist". */
+  role: string;
+  /** Where the sign-off was given: release.yaml or `kiln publish --accept-all`. */
+  source: 'release.yaml' | 'publish --accept-all';
+}
 
 export interface DetectorSummary {
   id: string;
@@ -68,7 +78,8 @@ export interface ReleaseSummary {
   validFrom: string;
   validTo: string | null;
   supersedes: string | null;
-  checks: { pass: number; fail: number; warn: number; review: number };
+  /** `accepted` is absent in indexes of builds before review sign-off existed. */
+  checks: { pass: number; fail: number; warn: number; review: number; accepted?: number };
   products: ProductSummary[];
   /** The release's model document (kiln/model/1), relative to the release; absent for archives sealed before model documents. */
   model?: { path: string; bytes: number; sha256: string };
@@ -120,6 +131,8 @@ export interface Check {
   tolerance: number | string | null;
   unit: string | null;
   message: string;
+  /** Present when status is `accepted`. */
+  acceptance?: Acceptance;
 }
 
 export interface ValidationReport {
@@ -245,7 +258,7 @@ export interface DetectorEntry {
   kind: string;
   epochs: { id: string; date: string; validFrom: string; validTo: string | null }[];
   products: number;
-  checks: { pass: number; fail: number; warn: number; review: number };
+  checks: { pass: number; fail: number; warn: number; review: number; accepted: number };
 }
 
 /** What a release page needs on load, independent of the number of products per detector. */
@@ -264,7 +277,7 @@ export interface ReleaseSummaryDoc {
   parameters: ParameterRow[];
   /** Release-level checks (product null, or a product no detector lists). */
   checks: Check[];
-  counts: { pass: number; fail: number; warn: number; review: number };
+  counts: { pass: number; fail: number; warn: number; review: number; accepted: number };
   products: number;
   detectors: DetectorEntry[];
 }

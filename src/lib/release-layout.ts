@@ -15,8 +15,8 @@ export const INLINE_DETECTORS = 2;
 export const INLINE_CHECKS = 400;
 
 /** Whether a release's detectors are shown on its own page (few detectors, not too many checks). */
-export function detectorsInline(summary: { detectors: readonly { checks: { pass: number; fail: number; warn: number; review: number } }[]; checks: readonly unknown[] }): boolean {
-  const checks = summary.checks.length + summary.detectors.reduce((n, d) => n + d.checks.pass + d.checks.fail + d.checks.warn + d.checks.review, 0);
+export function detectorsInline(summary: { detectors: readonly { checks: { pass: number; fail: number; warn: number; review: number; accepted?: number } }[]; checks: readonly unknown[] }): boolean {
+  const checks = summary.checks.length + summary.detectors.reduce((n, d) => n + d.checks.pass + d.checks.fail + d.checks.warn + d.checks.review + (d.checks.accepted ?? 0), 0);
   return summary.detectors.length <= INLINE_DETECTORS && checks <= INLINE_CHECKS;
 }
 

@@ -8,8 +8,8 @@ import { createHash } from 'node:crypto';
 import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
-import type { ReleaseIndex, ReleaseManifest, ReleaseSummaryDoc } from '../../generators/site-data/types.ts';
-import { detectorsInline } from '../../src/lib/release-layout.ts';
+import type { ReleaseIndex, ReleaseManifest } from '../../generators/site-data/types.ts';
+import { contentPages, isInline } from './support/release-pages.ts';
 import { DIST, requireDist } from './support/server.ts';
 import { launch, siteSession } from './support/browser.ts';
 
@@ -24,10 +24,9 @@ const MIN_LINE_POINTS = 12;
 requireDist();
 const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8')) as ReleaseIndex;
 const releaseIds = index.releases.map((r) => r.id);
-const summaryOf = (id: string) => JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'summary.json'), 'utf8')) as ReleaseSummaryDoc;
 /** The newest release drawn on its own page, and the newest whose detectors have pages of their own. */
-const inlineId = releaseIds.find((id) => detectorsInline(summaryOf(id)))!;
-const pagedId = releaseIds.find((id) => !detectorsInline(summaryOf(id)));
+const inlineId = releaseIds.find(isInline)!;
+const pagedId = releaseIds.find((id) => !isInline(id));
 const PAGES = ['/', '/compare/', '/finder/', '/inspect/', '/about/', ...releaseIds.map((id) => `/releases/${id}/`)];
 
 mkdirSync(SHOTS, { recursive: true });
@@ -54,7 +53,7 @@ describe('release page', () => {
     expect(inlineId).toBeDefined();
     expect(pagedId).toBeDefined();
   });
-  const drawn = [`/releases/${id}/`, ...(pagedId ? summaryOf(pagedId).detectors.map((d) => `/releases/${pagedId}/detectors/${d.id}/`) : [])];
+  const drawn = [`/releases/${id}/`, ...(pagedId ? contentPages(pagedId) : [])];
   for (const path of drawn)
   it(`draws every line plot with many points and the matrix image: ${path}`, async () => {
     const { page, problems } = await open(path);
@@ -128,7 +127,7 @@ describe('downloads', () => {
       const manifest = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'manifest.json'), 'utf8')) as ReleaseManifest;
       const { page } = await open(`/releases/${id}/`);
       // A release with a page per detector lists its downloads there.
-      const pages = detectorsInline(summaryOf(id)) ? [`/releases/${id}/`] : summaryOf(id).detectors.map((d) => `/releases/${id}/detectors/${d.id}/`);
+      const pages = contentPages(id);
       const links: { href: string; sha: string }[] = [];
       for (const p of pages) {
         await page.goto(site.url + p);
