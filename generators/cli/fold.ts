@@ -73,7 +73,7 @@ export const command: CommandSpec = {
     { name: 'source', arg: 'FILE', help: 'source description (YAML, see content/instruments/*/sources/)' },
     ...RESPONSE_OPTIONS,
     { name: 'exposure', arg: 'S', help: "exposure in seconds (default: the source's exposureS)" },
-    { name: 'instrument', arg: 'FILE', help: 'instrument.yaml whose spectral section gives the bands and pile-up inputs' },
+    { name: 'instrument', arg: 'FILE', help: 'instrument.yaml whose spectral.yaml beside it gives the bands and pile-up inputs' },
     { name: 'bands', arg: 'LIST', help: 'bands in keV, e.g. soft:0.3-2,hard:2-10 (default: the instrument\'s, else the whole response)' },
     { name: 'frame-time', arg: 'S', help: "frame time in seconds for the pile-up estimate (default: the instrument's)" },
     { name: 'json', help: 'print JSON, with the expected counts of every channel' },

@@ -6,7 +6,7 @@
  * valid.
  */
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { KilnInputError } from '../errors.ts';
 import { optFlag, optString, UsageError, type CommandSpec, type ParsedArgs } from './args.ts';
 
@@ -69,7 +69,9 @@ export async function runResponse(args: ParsedArgs, write: (s: string) => void =
   } catch (e) {
     asOption(e, gridFile);
   }
-  mkdirSync(outDir, { recursive: true });
+  // mkdir without `recursive` when the parent exists: a read-only disk then says so (EROFS)
+  // instead of the recursive form's misleading ENOENT.
+  if (!existsSync(outDir)) mkdirSync(outDir, { recursive: !existsSync(dirname(outDir)) });
   for (const f of result!.files) {
     writeFileAtomic(join(outDir, f.name), f.fits);
     write(`${join(outDir, f.name)}  ${f.fits.length} bytes  SHA-256 ${sha256Hex(f.fits)}\n`);

@@ -2,11 +2,11 @@
  * What `kiln fold`, `kiln simulate` and `kiln fit` share: reading a source document, a response
  * (RMF and ARF) and the bands and pile-up inputs of an instrument, with errors naming the file.
  */
-import { basename } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { KilnInputError } from '../errors.ts';
 import { readArf, readRmf } from '../ogip/index.ts';
 import { readFitsFile } from '../node/index.ts';
-import type { SourceSpec, SpectralDoc } from '../content/index.ts';
+import { SPECTRAL_FILE, type SourceSpec, type SpectralDoc } from '../content/index.ts';
 import { DEFAULT_ABUNDANCES, fluxGrid, foldingResponse, type Band, type FluxGrid, type FoldingResponse } from '../spectrum/index.ts';
 import { optString, UsageError, type OptionSpec, type ParsedArgs } from './args.ts';
 
@@ -44,7 +44,7 @@ export async function checkSourceFits(s: SourceSpec, r: FoldingResponse): Promis
 export async function loadSpectral(path: string): Promise<SpectralDoc> {
   const content = await import('../content/index.ts');
   const ins = await content.loadInstrumentFile(path);
-  if (!ins.spectral) throw new KilnInputError('the instrument states no spectral section', { file: path, field: 'spectral', expected: 'spectral: { bands, pileup, impact }' });
+  if (!ins.spectral) throw new KilnInputError('the instrument has no spectral settings', { file: join(dirname(path), SPECTRAL_FILE), expected: 'a spectral.yaml beside instrument.yaml with bands, pileup and impact (README "Reference sources and impact")' });
   return ins.spectral;
 }
 

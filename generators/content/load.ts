@@ -12,10 +12,10 @@ import { readRegularFile } from '../node/files.ts';
 import { LIMIT_NAMES, MAX_CSV_BYTES, MAX_NOTES_BYTES, MAX_YAML_BYTES } from './limits.ts';
 import { basename, dirname, join } from 'node:path';
 import { KilnInputError, throwInputErrors } from '../errors.ts';
-import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText } from './documents.ts';
+import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText, parseSpectralText } from './documents.ts';
 import { formatPath, valueAt } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
-import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
 import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
@@ -114,8 +114,12 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
     regions = { source: src, input: { path: rel(regionsFile), bytes: rb } };
   }
   const sources = await loadSourcesIn(root, join(dir, SOURCES_DIR));
+  const spectralFile = join(dir, SPECTRAL_FILE);
+  const spectral = (await exists(spectralFile))
+    ? parseSpectralText(decode(await readBytes(root, spectralFile, 'yaml', `${SPECTRAL_FILE}, the bands, pile-up inputs and impact tolerances of the reference sources`), spectralFile), spectralFile).doc
+    : undefined;
   return {
-    instrument: { ...doc, dir, file, mirror, sources },
+    instrument: { ...doc, dir, file, mirror, sources, ...(spectral ? { spectral } : {}) },
     source: { file, locate: yaml.locate },
     inputs: [
       { path: rel(file), bytes },

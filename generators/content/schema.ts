@@ -355,7 +355,10 @@ export const energyGridSchema = energyGridFields
   });
 
 // ---------------------------------------------------------------------------------------------
-// The instrument file's spectral section: bands for rates, pile-up inputs, impact tolerances.
+// spectral.yaml beside instrument.yaml (optional): bands for rates, pile-up inputs, impact
+// tolerances of the reference sources. A file of its own, like regions.yaml, so that adding it
+// leaves the instrument file that published releases sealed byte for byte as it was.
+export const SPECTRAL_FILE = 'spectral.yaml';
 
 export const spectralSchema = z
   .object({
@@ -410,8 +413,6 @@ export const instrumentSchema = z
     channels: channelGridSchema,
     energyGrid: energyGridSchema,
     detectors: z.array(detectorSchema).min(1),
-    /** Bands, pile-up inputs and impact tolerances of the spectral engine (optional). */
-    spectral: spectralSchema.optional(),
   })
   .strict()
   .superRefine((ins, ctx) => {

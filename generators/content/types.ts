@@ -1,7 +1,7 @@
 /** The loaded content tree: documents as validated, plus each release's effective per-detector inputs. */
 import type { DetectorStack } from '../physics/types.ts';
 import type { LineFit, RedistributionSpec } from '../response/model-types.ts';
-import type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
+import type { Epoch, InstrumentDoc, ReleaseDoc, SpectralDoc } from './schema.ts';
 import type { MirrorArea } from './tables.ts';
 import type { SourceSpec } from './source-schema.ts';
 
@@ -20,6 +20,8 @@ export interface Instrument extends InstrumentDoc {
   mirror: MirrorArea;
   /** Reference sources of sources/*.yaml (not part of any release's fingerprint). */
   sources?: SourceSpec[];
+  /** spectral.yaml: bands, pile-up inputs and impact tolerances (not part of any release's fingerprint). */
+  spectral?: SpectralDoc;
 }
 
 export interface Release extends ReleaseDoc {
