@@ -27,12 +27,24 @@ export const RMF_CASES: RmfCase[] = [
 /** The ARF uses the energy grid of the largest RMF. */
 export const ARF_CASE = { kind: 'arf' as const, name: 'arf-8192', energies: 8192 };
 export const SITE_CASE = { kind: 'site' as const, name: 'site-demo' };
+/**
+ * The generated large instrument (scripts/make-large-instrument.ts) at two sizes an order of
+ * magnitude apart: detectors × 12 epochs on a 256 × 200 grid (products = detectors × 13).
+ */
+export const LARGE_CASE = {
+  kind: 'large' as const,
+  name: 'large-instrument',
+  sizes: [
+    { detectors: 4, epochs: 12, channels: 256, bins: 200 },
+    { detectors: 40, epochs: 12, channels: 256, bins: 200 },
+  ],
+};
 
 /** Validation of a product is its own case, in its own process, reading the written file. */
 export const CHECK_PREFIX = 'check-';
 export const checkCaseOf = (productCase: string): string => `${CHECK_PREFIX}${productCase}`;
 
-export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name];
+export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name];
 
 /**
  * Profile with every component on: Gaussian core, low-energy tail, shelf, Si escape peak, Si

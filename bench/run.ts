@@ -11,17 +11,16 @@
  * of a commit): it rewrites .kiln/out and dist/ there.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { ARF_CASE, CASE_NAMES, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { ARF_CASE, CASE_NAMES, LARGE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { largeLines, timedRun } from './large.ts';
 import { filesUnder, totalSize } from './io.ts';
 import { round, type CaseResult } from './measure.ts';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
-/** GNU time reports the children's user/sys CPU and the peak RSS of the largest descendant. */
-const GNU_TIME = '/usr/bin/time';
 /** What the site build writes: the kiln build output (generators/cli/build.ts DEFAULT_OUT_DIR) and the Astro site. */
 const SITE_OUTPUTS = ['.kiln/out', 'dist'];
 const BYTES_PER_MB = 1024 * 1024;
@@ -39,6 +38,10 @@ const TARGET_RSS_ALLOWANCE_MB = 200;
 const TARGET_LINEAR_RESIDUAL = 0.2;
 const TARGET_NS_PER_NNZ_GROWTH = 1.2;
 const TARGET_SITE_S = 60;
+/** The issue's budgets at scale: no-change rebuild ≤ 10 % of clean; peak RSS not growing with size (our reading: ≤ 1.5× over 10× the products, and ≤ 1 GB). */
+const TARGET_NO_CHANGE_RATIO = 0.1;
+const TARGET_RSS_GROWTH = 1.5;
+const TARGET_RSS_MAX_MB = 1024;
 
 interface Options {
   only: Set<string>;
@@ -137,26 +140,12 @@ function productCases(name: string, tmp: string, o: Options): Line[] {
 }
 
 function siteCase(tmp: string, siteDir: string): Line {
-  const timeFile = join(tmp, 'site.time');
-  const haveTime = existsSync(GNU_TIME);
-  const cmd = haveTime ? GNU_TIME : 'npm';
-  const args = haveTime ? ['-f', '%e %U %S %M', '-o', timeFile, 'npm', 'run', 'build'] : ['run', 'build'];
-  const t0 = performance.now();
-  const r = spawnSync(cmd, args, { cwd: siteDir, encoding: 'utf8', maxBuffer: 64 * BYTES_PER_MB });
-  const wallS = (performance.now() - t0) / 1000;
-  if (r.status !== 0) throw new Error(`npm run build exited with ${r.status ?? r.signal}:\n${r.stdout}\n${r.stderr}`);
-  let cpuS: number | null = null;
-  let peakRssMB: number | null = null;
-  if (haveTime) {
-    const [, user, sys, maxKb] = readFileSync(timeFile, 'utf8').trim().split('\n').pop()!.split(' ').map(Number);
-    cpuS = round(user + sys);
-    peakRssMB = round(maxKb / 1024, 1);
-  }
+  const { wallS, cpuS, peakRssMB } = timedRun(['npm', 'run', 'build'], siteDir, join(tmp, 'site.time'));
   const files = SITE_OUTPUTS.map((d) => join(siteDir, d)).filter(existsSync).flatMap(filesUnder);
   const floor = floorOf(SITE_CASE.name, files, tmp);
   return {
     case: SITE_CASE.name,
-    wallS: round(wallS),
+    wallS,
     cpuS,
     peakRssMB,
     bytesWritten: totalSize(files),
@@ -227,12 +216,32 @@ function targets(lines: Map<string, Line>): void {
   if (site) verdict(`demo site in <= ${TARGET_SITE_S} s`, site.wallS <= TARGET_SITE_S, { wallS: site.wallS });
 }
 
+function largeTargets(large: Record<string, unknown>[]): void {
+  if (large.length < 2) return;
+  const [small, big] = large as { case: string; peakRssMB: number | null; noChangeRatio: number; wallS: number; products: number }[];
+  verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (large instrument)`, large.every((l) => (l.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO), {
+    ratios: Object.fromEntries(large.map((l) => [l.case, l.noChangeRatio])),
+  });
+  if (small.peakRssMB !== null && big.peakRssMB !== null)
+    verdict(`build peak RSS <= ${TARGET_RSS_GROWTH}x over ${round(big.products / small.products, 0)}x the products, and <= ${TARGET_RSS_MAX_MB} MB`, big.peakRssMB <= TARGET_RSS_GROWTH * small.peakRssMB && big.peakRssMB <= TARGET_RSS_MAX_MB, {
+      peakRssMB: { [small.case]: small.peakRssMB, [big.case]: big.peakRssMB },
+      growth: round(big.peakRssMB / small.peakRssMB, 2),
+      sPerProduct: { [small.case]: round(small.wallS / small.products, 4), [big.case]: round(big.wallS / big.products, 4) },
+    });
+}
+
 const o = parseArgs(process.argv.slice(2));
 const tmp = mkdtempSync(join(tmpdir(), 'kiln-bench-'));
 const lines = new Map<string, Line>();
 let crashed = false;
 for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
   try {
+    if (name === LARGE_CASE.name) {
+      const large = largeLines(ROOT, tmp, LARGE_CASE.sizes);
+      for (const line of large) console.log(JSON.stringify(line));
+      largeTargets(large);
+      continue;
+    }
     const out = name === SITE_CASE.name ? [siteCase(tmp, o.siteDir)] : productCases(name, tmp, o);
     for (const line of out) {
       lines.set(line.case, line);

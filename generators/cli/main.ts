@@ -11,6 +11,8 @@ import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 const VERBS: Record<string, { summary: string; load: () => Promise<{ command: CommandSpec }> }> = {
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
   site: { summary: 'build products and the site for a content tree into a folder (--content, --out)', load: () => import('./site.ts') },
+  plan: { summary: 'list the jobs of a build with their fingerprints (JSON, for a batch scheduler)', load: () => import('./plan.ts') },
+  gather: { summary: 'check the shards of a sharded build and write the output of the whole build', load: () => import('./gather.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
   report: { summary: "print a release's checks, failed and review items first, measured vs allowed", load: () => import('./report.ts') },

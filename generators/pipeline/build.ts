@@ -47,10 +47,8 @@ import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
 import { checksPath } from '../site-data/paths.ts';
 export { gzipProduct } from './job-output.ts';
-import { canonicalJson } from './hash.ts';
-import { XRAY_TABLE } from '../physics/data/xray-elements.ts';
-import { jobsFromModel, modelDocumentOf } from '../model/document.ts';
-import { parseModelDocument } from '../model/parse.ts';
+import { modelJobs } from './model-jobs.ts';
+export { modelJobs } from './model-jobs.ts';
 import { MODEL_FILE, MODEL_SCHEMA_FILE } from '../model/types.ts';
 import { MODEL_JSON_SCHEMA } from '../model/model-schema.ts';
 import type { DetectorJob } from './job.ts';
@@ -157,19 +155,6 @@ interface ModelRef {
   path: string;
   bytes: number;
   sha256: string;
-}
-
-/**
- * The release's model document (canonical JSON) and the jobs read back from it: the build's own
- * products are made from the document, exactly as anything outside the build would remake them.
- * Each job also carries the document to rebuild its products through the case path (rebuild check).
- */
-export function modelJobs(r: ResolvedRelease): { jobs: DetectorJob[]; model: { text: string; bytes: number; sha256: string } } {
-  const text = canonicalJson(modelDocumentOf(jobsOf(r), XRAY_TABLE)) + '\n';
-  const sha256 = sha256Hex(text);
-  const doc = parseModelDocument(text, `${r.release.id}/${MODEL_FILE}`);
-  const jobs = jobsFromModel(doc, sha256).map((j) => ({ ...j, rebuildFrom: doc }));
-  return { jobs, model: { text, bytes: new TextEncoder().encode(text).length, sha256 } };
 }
 
 interface ReleaseWork {
@@ -325,6 +310,33 @@ function cachedSpectral(ctx: JobContext, root: string | null, used: Set<string>,
   return doc;
 }
 
+/**
+ * Which releases are frozen (served from their archive) and their verified archives. An archive
+ * wins over any status: a release with one is always served from it. Every frozen release is
+ * checked before any work: changed inputs, a status moved backwards, a missing, extra or altered
+ * archived file stop the build at once, before anything is written. `kiln plan` uses the same
+ * rule, so a plan lists exactly the jobs a build runs.
+ */
+export function verifyFrozenReleases(
+  content: ContentTree,
+  publishing?: string,
+): { archives: Map<string, VerifiedArchive>; isFrozen: (r: ResolvedRelease) => boolean } {
+  const isFrozen = (r: ResolvedRelease) => r.release.id !== publishing && hasArchive(content.root, r.release.id);
+  const archives = new Map<string, VerifiedArchive>();
+  for (const r of content.releases) {
+    if (r.release.id === publishing) continue;
+    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
+      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
+        file: r.release.file,
+        field: 'status',
+        value: r.release.status,
+        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
+      });
+    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
+  }
+  return { archives, isFrozen };
+}
+
 /** One build at a time into one --out: a second refuses with one line (exit 4) while the first runs. */
 export async function build(opts: BuildOptions): Promise<BuildSummary> {
   mkdirSync(dirname(opts.outDir), { recursive: true });
@@ -348,22 +360,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
-  // An archive wins over any status: a release with one is always served from it.
-  const isFrozen = (r: ResolvedRelease) => r.release.id !== opts.publishing && hasArchive(content.root, r.release.id);
-  // Check every frozen release before any work: changed inputs, a status moved backwards, a
-  // missing, extra or altered archived file stop the build at once, before anything is written.
-  const archives = new Map<string, VerifiedArchive>();
-  for (const r of content.releases) {
-    if (r.release.id === opts.publishing) continue;
-    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
-      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
-        file: r.release.file,
-        field: 'status',
-        value: r.release.status,
-        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
-      });
-    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
-  }
+  const { archives, isFrozen } = verifyFrozenReleases(content, opts.publishing);
   reached('build:verified');
 
   removeStaleStaging(opts.outDir);
