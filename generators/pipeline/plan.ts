@@ -6,8 +6,9 @@
  *
  *   { schema: "kiln/plan/1", generator, planSha256, content, jobs: [{ id, release, detector, fingerprint }] }
  *
- * `planSha256` covers the generator and the jobs (not `content`, the path it was made from, which
- * is informative): two plans are the same plan exactly when their digests are equal.
+ * `planSha256` covers the generator and the jobs: two plans are the same plan exactly when their
+ * digests are equal. `content` (the tree's absolute path) is outside it and only names the cause
+ * of a mismatch: a plan of another tree.
  */
 import { loadContent } from '../content/index.ts';
 import type { ContentTree } from '../content/types.ts';
@@ -82,9 +83,10 @@ export function readPlan(file: string): BuildPlan {
   const ok =
     typeof doc.generator === 'string' &&
     typeof doc.planSha256 === 'string' &&
+    typeof doc.content === 'string' &&
     Array.isArray(doc.jobs) &&
     doc.jobs.every((j) => j && typeof j.id === 'string' && typeof j.fingerprint === 'string' && typeof j.release === 'string' && typeof j.detector === 'string');
-  if (!ok) throw new KilnInputError('malformed build plan', { file, expected: 'generator, planSha256 and jobs [{ id, release, detector, fingerprint }]' });
+  if (!ok) throw new KilnInputError('malformed build plan', { file, expected: 'generator, planSha256, content and jobs [{ id, release, detector, fingerprint }]' });
   const plan = doc as BuildPlan;
   if (planDigest(plan.generator, plan.jobs) !== plan.planSha256)
     throw new KilnInputError('plan file was edited: its jobs do not match its planSha256', { file, field: 'planSha256', value: plan.planSha256, expected: 'a plan as `kiln plan` wrote it' });
@@ -101,6 +103,9 @@ export function assertPlanCurrent(given: BuildPlan, fresh: BuildPlan, file: stri
   const todo = 'make a new plan with `kiln plan` and rebuild the shards from it';
   if (given.generator !== fresh.generator)
     throw new KilnInputError('plan was made by another Kiln version', { file, field: 'generator', value: given.generator, expected: fresh.generator, todo });
+  // Fingerprints include file paths: a plan of a tree elsewhere can never match, so say so.
+  if (given.content !== fresh.content)
+    throw new KilnInputError('plan was made from another content tree', { file, field: 'content', value: given.content, expected: fresh.content, todo });
   const now = new Map(fresh.jobs.map((j) => [j.id, j.fingerprint]));
   const then = new Set(given.jobs.map((j) => j.id));
   const changed = given.jobs.find((j) => now.has(j.id) && now.get(j.id) !== j.fingerprint);

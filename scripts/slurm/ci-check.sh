@@ -17,14 +17,18 @@ RESULTS="${1:?usage: ci-check.sh RESULTS_FILE}"
 WAIT_S=60
 work=$(mktemp -d /tmp/kiln-slurm-XXXXXX)
 : > "$RESULTS"
+checks=("cluster starts" "sharded build completes" "gathered output equals a local build" "gather refuses a missing shard, naming its job" "daemons stopped by their PIDs")
 record() { echo "$1 $2" >> "$RESULTS"; echo "slurm check: $1: $2"; }
-cleanup() { "$here/local-cluster.sh" stop; rm -rf "$work"; }
+# On any exit: a check that recorded nothing failed (never counted as passed or skipped).
+cleanup() {
+  "$here/local-cluster.sh" stop
+  rm -rf "$work"
+  for c in "${checks[@]}"; do grep -qxF -e "pass $c" -e "fail $c" "$RESULTS" || record fail "$c"; done
+}
 trap cleanup EXIT
 cd "$root"
 
-checks=("cluster starts" "sharded build completes" "gathered output equals a local build" "gather refuses a missing shard, naming its job")
 if ! "$here/local-cluster.sh" start; then
-  for c in "${checks[@]}"; do record fail "$c"; done
   tail -n 20 /var/log/slurm/slurmctld.log /var/log/slurm/slurmd.log 2>/dev/null
   exit 1
 fi
@@ -50,4 +54,11 @@ else
   if grep -q 'planned jobs missing: 2.0.0/bi1 (shard 2/3 not given or failed)' <<<"$log" && [ ! -e "$work/lost-out" ]; then record pass "${checks[3]}"
   else record fail "${checks[3]}"; fi
 fi
+
+# Stop now (the trap's stop is then a no-op) and require every daemon started here to be gone.
+pids=$(cat /run/slurmd.pid /run/slurmctld.pid /run/munge/munged.pid 2>/dev/null)
+"$here/local-cluster.sh" stop
+left=""
+for p in $pids; do kill -0 "$p" 2>/dev/null && left="$left $p"; done
+if [ -n "$pids" ] && [ -z "$left" ]; then record pass "${checks[4]}"; else echo "still running:${left:- (no pid files were found)}"; record fail "${checks[4]}"; fi
 ! grep -q '^fail ' "$RESULTS"

@@ -5,7 +5,7 @@
  * shard (content changed after planning) are refused with one line naming the job and the shard,
  * and nothing is written; bad --shard values are usage errors (exit 2, a usage line).
  */
-import { existsSync, readdirSync, readFileSync, writeFileSync, cpSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, rmSync, writeFileSync, cpSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { expectOneLine, kiln, treeDigest, workspace } from './helpers.ts';
@@ -118,6 +118,35 @@ describe('sharded build: plan, shards, gather', () => {
     const noOut = kiln('build', '--content', ws.content, '--shard', '1/2');
     expect(noOut.status).toBe(2);
     expect(expectOneLine(noOut.stderr)).toContain('--shard K/N needs --out');
+  });
+
+  it('a plan of another content tree, and an edited plan, are refused by kiln build --shard', () => {
+    // Another tree: the demo without detector bi1 in release 2.0.0.
+    const other = workspace();
+    try {
+      const rel = other.read(RELEASE);
+      const cut = rel.indexOf('\n  bi1:\n');
+      expect(cut).toBeGreaterThan(0);
+      other.write(RELEASE, rel.slice(0, cut + 1));
+      rmSync(other.path('releases/2.0.0/linefits/bi1.csv'));
+      const otherPlan = join(other.dir, 'plan.json');
+      const p = kiln('plan', '--content', other.content, '--out', otherPlan);
+      expect(p.status, p.stderr).toBe(0);
+      const r = kiln('build', '--content', ws.content, '--shard', '1/2', '--plan', otherPlan, '--out', at('foreign'));
+      expect(r.status).toBe(2);
+      const line = expectOneLine(r.stderr);
+      expect(line).toContain('plan was made from another content tree');
+      expect(line).toContain(other.content);
+    } finally {
+      other.dispose();
+    }
+    const edited = at('edited-plan.json');
+    const plan = JSON.parse(readFileSync(planFile, 'utf8')) as { jobs: unknown[] };
+    writeFileSync(edited, JSON.stringify({ ...plan, jobs: plan.jobs.slice(1) }));
+    const r = kiln('build', '--content', ws.content, '--shard', '1/2', '--plan', edited, '--out', at('edited'));
+    expect(r.status).toBe(2);
+    expect(expectOneLine(r.stderr)).toContain('plan file was edited');
+    for (const d of ['foreign', 'edited']) expect(existsSync(at(d))).toBe(false);
   });
 
   // Last: edits the content tree.
