@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
 
 const DIR = resolve(process.env.KILN_OUT ?? '.kiln/out');
-const DOCS = ['manifest.json', 'validation.json', 'summary.json', 'reexamined.json'];
+const DOCS = ['manifest.json', 'validation.json', 'summary.json', 'spectral.json', 'model.json', 'model.schema.json', 'reexamined.json'];
 /** Split per-detector documents the pages fetch; matrix.json only feeds the build's PNG. */
 const BUILD_ONLY = new Set(['matrix.json']);
 
@@ -48,7 +48,24 @@ function kilnData() {
   };
 }
 
+/**
+ * The response page's worker reads element data from the model document (generators/physics/data/
+ * xray-elements-runtime.ts) instead of bundling the whole table: swapped in for worker bundles only.
+ */
+function workerElementTable() {
+  const runtime = fileURLToPath(new URL('./generators/physics/data/xray-elements-runtime.ts', import.meta.url));
+  return {
+    name: 'kiln-worker-element-table',
+    enforce: 'pre',
+    resolveId(source) {
+      if (source.endsWith('/xray-elements.ts')) return runtime;
+      return null;
+    },
+  };
+}
+
 export default defineConfig({
+  vite: { worker: { format: 'es', plugins: () => [workerElementTable()] } },
   output: 'static',
   outDir: 'dist',
   base: '/',

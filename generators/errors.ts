@@ -34,6 +34,41 @@ export class KilnInputError extends Error {
     const tail = [got, exp].filter(Boolean).join('; ');
     return `${parts ? parts + ': ' : ''}${this.message}${tail ? ` (${tail})` : ''}${w.todo ? ` — ${w.todo}` : ''}`;
   }
+
+  /** Every problem, one line each (one for a single error). */
+  lines(): string[] {
+    return [this.oneLine()];
+  }
+}
+
+/** Most input problems listed at once; beyond it one line says how many more there are. */
+export const MAX_LISTED_INPUT_ERRORS = 50;
+
+/**
+ * Several input problems found in one pass (a whole content tree), in the order found. Behaves as
+ * its first error (`where`, `message`, `oneLine()`), and `lines()` lists them all.
+ */
+export class KilnInputErrors extends KilnInputError {
+  readonly errors: KilnInputError[];
+  constructor(errors: KilnInputError[]) {
+    super(errors[0].message, errors[0].where);
+    this.name = 'KilnInputError';
+    this.errors = errors.flatMap((e) => (e instanceof KilnInputErrors ? e.errors : [e]));
+  }
+
+  override lines(): string[] {
+    const shown = this.errors.slice(0, MAX_LISTED_INPUT_ERRORS).map((e) => e.oneLine());
+    const more = this.errors.length - shown.length;
+    if (more > 0) shown.push(`… and ${more} more problem${more === 1 ? '' : 's'} not listed (fix these first)`);
+    return shown;
+  }
+}
+
+/** Throws nothing for no errors, the error itself for one, a KilnInputErrors for several. */
+export function throwInputErrors(errors: KilnInputError[]): void {
+  const flat = errors.flatMap((e) => (e instanceof KilnInputErrors ? e.errors : [e]));
+  if (flat.length === 1) throw flat[0];
+  if (flat.length > 1) throw new KilnInputErrors(flat);
 }
 
 /** Longest bad value quoted in a message: room for a file size and a full SHA-256 digest. */

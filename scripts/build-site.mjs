@@ -1,9 +1,16 @@
-// Site build step of `npm run build`: runs Astro into a staging directory and swaps the complete
-// site into dist/ only when it succeeded, so a failed or killed build leaves the previous dist/.
+// Site step of `kiln site` (so of `npm run build`): runs Astro and swaps the complete site into
+// the target only when it succeeded, so a failed or killed build leaves the previous site.
+// Run from the project root (Astro's root); `kiln site` sets where to read and write:
+//   KILN_OUT        the kiln build output the pages read (default .kiln/out)
+//   KILN_CONTENT    the content tree the content collections read (default content)
+//   KILN_SITE_DIST  the site folder (default dist)
+// Astro writes into a folder inside the project (an outDir outside the root gains Astro's
+// content-layer files), then the site moves into the staging folder beside the target.
 // Same staging, swap, recovery and lock as `kiln build` (generators/pipeline/atomic.ts, lock.ts):
 // a killed run's staging is removed by the next run, a kill between the two renames of the swap
 // is repaired by the next run, and a second site build into the same dist/ refuses (exit 4).
 import { register } from 'tsx/esm/api';
+import { cpSync, renameSync, rmSync } from 'node:fs';
 import { resolve } from 'node:path';
 
 register();
@@ -29,7 +36,13 @@ try {
 const staging = stagingDir(target);
 const t0 = performance.now();
 try {
-  await build({ root: process.cwd(), outDir: staging, logLevel: process.env.KILN_SITE_LOG ?? 'warn' });
+  const work = resolve(`.kiln/site-build-${process.pid}`);
+  try {
+    await build({ root: process.cwd(), outDir: work, logLevel: process.env.KILN_SITE_LOG ?? 'warn' });
+    moveInto(work, staging);
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
   reached('site:staged');
   swapInto(staging, target, 'site:swap');
 } catch (e) {
@@ -43,4 +56,14 @@ console.log(`kiln site: ${target} written in ${((performance.now() - t0) / 1000)
 async function build(config) {
   const astro = await import('astro');
   await astro.build(config);
+}
+
+/** Moves a finished folder onto the (empty) staging folder; copies across file systems. */
+function moveInto(from, to) {
+  try {
+    renameSync(from, to);
+  } catch (e) {
+    if (e?.code !== 'EXDEV') throw e;
+    cpSync(from, to, { recursive: true });
+  }
 }

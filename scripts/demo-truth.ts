@@ -49,6 +49,16 @@ export interface DetectorTruth {
    * tail_scale_err_eV and shelf_fraction_err columns.
    */
   partialTruth?: { thicknessUm: number; collectionAtSurface: number };
+  /** Charge lost in transfer (physics/transfer-loss.ts); absent = none. */
+  transferLoss?: { lossPerTransfer: number; energyIndex: number; referenceKeV: number };
+}
+
+/** A row band of the demo detectors (instrument.yaml regions.rowBands) and the lines measured in it. */
+export interface BandTruth {
+  id: string;
+  firstTransfer: number;
+  lastTransfer: number;
+  lines: { line: LineName; counts: number }[];
 }
 
 export interface ReleaseTruth {
@@ -59,6 +69,9 @@ export interface ReleaseTruth {
   /** Counts in each line (peak + tail + shelf). */
   lines: { line: LineName; counts: number }[];
   detectors: Record<string, DetectorTruth>;
+  /** Lines measured per row band (the CSV's region column); the whole-detector rows span transfers 0 … wholeTransfers − 1. */
+  rowBands?: BandTruth[];
+  wholeTransfers?: number;
 }
 
 /** Fano factor of the demo's silicon: inside the ≈0.115–0.12 range measured for silicon (from memory). */
@@ -113,6 +126,26 @@ const REVISED_BI: DetectorTruth = {
   partialTruth: { thicknessUm: 0.056, collectionAtSurface: 0.78 },
 };
 
+/**
+ * 2.1.0: a mild charge-transfer loss has grown in flight (none measurable on the ground), fitted
+ * from the calibration source's lines in four row bands. Invented numbers.
+ */
+const CTI_FI: DetectorTruth = { ...REVISED_FI, transferLoss: { lossPerTransfer: 4e-6, energyIndex: 0.4, referenceKeV: 5.895 } };
+const CTI_BI: DetectorTruth = { ...REVISED_BI, transferLoss: { lossPerTransfer: 3e-6, energyIndex: 0.4, referenceKeV: 5.895 } };
+/** Rows of a TARNCAM frame (instrument.yaml regions.transfers) and its four row bands. */
+export const DEMO_TRANSFERS = 1024;
+const BAND_LINES: { line: LineName; counts: number }[] = [
+  { line: 'Al Ka', counts: 8000 },
+  { line: 'Ti Ka', counts: 6000 },
+  { line: 'Mn Ka', counts: 40000 },
+];
+export const DEMO_ROW_BANDS: BandTruth[] = [
+  { id: 'r1', firstTransfer: 0, lastTransfer: 255, lines: BAND_LINES },
+  { id: 'r2', firstTransfer: 256, lastTransfer: 511, lines: BAND_LINES },
+  { id: 'r3', firstTransfer: 512, lastTransfer: 767, lines: BAND_LINES },
+  { id: 'r4', firstTransfer: 768, lastTransfer: 1023, lines: BAND_LINES },
+];
+
 export const DEMO_TRUTH: ReleaseTruth[] = [
   {
     release: '1.0.0',
@@ -159,5 +192,22 @@ export const DEMO_TRUTH: ReleaseTruth[] = [
       { line: 'Cu Ka', counts: 6000 },
     ],
     detectors: { fi0: REVISED_FI, bi1: REVISED_BI },
+  },
+  {
+    release: '2.1.0',
+    seed: 0x51ee4,
+    setting: 'in flight, calibration source in four row bands plus the soft fluorescence target (invented)',
+    lines: [
+      { line: 'O Ka', counts: 3000 },
+      { line: 'F Ka', counts: 3000 },
+      { line: 'Al Ka', counts: 8000 },
+      { line: 'Si Ka', counts: 4000 },
+      { line: 'Ti Ka', counts: 8000 },
+      { line: 'Mn Ka', counts: 90000 },
+      { line: 'Mn Kb', counts: 13000 },
+    ],
+    detectors: { fi0: CTI_FI, bi1: CTI_BI },
+    rowBands: DEMO_ROW_BANDS,
+    wholeTransfers: DEMO_TRANSFERS,
   },
 ];

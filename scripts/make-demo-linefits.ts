@@ -30,6 +30,7 @@ const TAIL_SCALE_REL_SCATTER = 0.05;
 const TAIL_ERR_FLOOR_FRACTION = 1e-4;
 
 import { gaussian, mulberry32 } from './prng.ts';
+import { meanTransfers, transferShiftKeV, transferVarianceKeV2, type TransferBand } from '../generators/physics/transfer-loss.ts';
 
 export { mulberry32, gaussian };
 
@@ -85,6 +86,14 @@ export async function truePartialProfile(t: ReleaseTruth, detector: string): Pro
   };
 }
 
+/** A line after transfer over a band: centroid lowered by the charge lost, σ² raised by its variance (physics/transfer-loss.ts). */
+export function afterTransfer(d: DetectorTruth, e: number, centroidKeV: number, fwhmEv: number, band: TransferBand | null): { centroidKeV: number; fwhmEv: number } {
+  if (!d.transferLoss || !band) return { centroidKeV, fwhmEv };
+  const shift = transferShiftKeV(d.transferLoss, e, centroidKeV, meanTransfers(band));
+  const varEv2 = transferVarianceKeV2(d.transferLoss, e, centroidKeV, band, d.pairEnergyEv) * EV_PER_KEV * EV_PER_KEV;
+  return { centroidKeV: centroidKeV - shift, fwhmEv: Math.sqrt(fwhmEv * fwhmEv + FWHM_PER_SIGMA * FWHM_PER_SIGMA * varEv2) };
+}
+
 /** Half-width of the one-bin energy grid used to take the true detected fraction at a line (keV). */
 const LINE_BIN_HALF_WIDTH_KEV = 0.0005;
 
@@ -131,19 +140,25 @@ export function makeLineFitsCsv(
   // One stream per detector, so adding a detector does not change the others.
   const detIndex = Object.keys(t.detectors).indexOf(detector);
   const g = gaussian(mulberry32(t.seed + 7919 * (detIndex + 1)));
-  const rows = t.lines.map(({ line, counts }) => {
+  const whole: TransferBand | null = t.wholeTransfers ? { firstTransfer: 0, lastTransfer: t.wholeTransfers - 1 } : null;
+  const measured = [
+    ...t.lines.map((l) => ({ ...l, band: whole, region: null as string | null })),
+    ...(t.rowBands ?? []).flatMap((b) => b.lines.map((l) => ({ ...l, band: { firstTransfer: b.firstTransfer, lastTransfer: b.lastTransfer } as TransferBand, region: b.id as string | null }))),
+  ];
+  const rows = measured.map(({ line, counts, band, region }) => {
     const e = LINE_ENERGIES_KEV[line];
     const prof = profileAt?.(e);
     const tail = prof ? prof.tailFraction : truthTailFraction(d, e);
     const trueScaleEv = prof ? prof.tailScaleEv : d.tail.tailScaleEv;
     const trueShelf = prof ? prof.shelfFraction : d.shelf.fraction;
     const peakCounts = counts * (1 - tail - trueShelf);
-    const fwhm = truthFwhmEv(d, e);
+    const moved = afterTransfer(d, e, truthCentroidKeV(d, e), truthFwhmEv(d, e), band);
+    const fwhm = moved.fwhmEv;
     const sigma = fwhm / FWHM_PER_SIGMA;
     const centroidErr = Math.hypot(sigma / Math.sqrt(peakCounts), CENTROID_FLOOR_EV);
     const fwhmErr = Math.hypot(fwhm / Math.sqrt(2 * peakCounts), FWHM_FLOOR_EV);
     const tailErr = Math.sqrt((Math.max(tail, TAIL_ERR_FLOOR_FRACTION) * (1 - tail)) / counts);
-    const centroid = truthCentroidKeV(d, e) + (centroidErr * g()) / EV_PER_KEV;
+    const centroid = moved.centroidKeV + (centroidErr * g()) / EV_PER_KEV;
     const fwhmMeasured = fwhm + fwhmErr * g();
     // A fit cannot return a negative fraction: it stops at the boundary.
     const tailMeasured = Math.max(0, tail + tailErr * g());
@@ -171,13 +186,14 @@ export function makeLineFitsCsv(
       shelf.toFixed(5),
       ...eff,
       ...(prof ? [(TAIL_SCALE_REL_SCATTER * trueScaleEv).toFixed(1), shelfErr.toFixed(5)] : []),
+      ...(t.rowBands ? [region ?? ''] : []),
     ].join(',');
   });
   return [
     `# INVENTED demo data (fictional QUILLON telescope, TARNCAM camera, detector ${detector}), release ${t.release}.`,
     `# Setting: ${t.setting}.`,
     '# Drawn by scripts/make-demo-linefits.ts from the truth in scripts/demo-truth.ts; errors are 1 sigma.',
-    HEADER + (profileAt ? EXTRA_HEADER : ''),
+    HEADER + (profileAt ? EXTRA_HEADER : '') + (t.rowBands ? ',region' : ''),
     ...rows,
     '',
   ].join('\n');

@@ -452,7 +452,7 @@ releases.forEach((rel, ri) => {
     checks.push({ id: 'fit.fwhm.chi2', title: `FWHM law χ²/dof (${ds.name})`, product: null, status: chi > 2 ? 'warn' : 'pass', measured: round(chi, 3), tolerance: 2, unit: null, message: 'reduced χ² of the FWHM law fit' });
     checks.push({ id: 'fit.mnka.fwhm', title: `FWHM at Mn Kα vs Fano limit (${ds.name})`, product: null, status: 'review', measured: ds.lineFits[4].fwhmEv, tolerance: '≥ 117', unit: 'eV', message: 'check against the Fano limit by eye' });
   });
-  const counts = { pass: 0, fail: 0, warn: 0, review: 0 };
+  const counts = { pass: 0, fail: 0, warn: 0, review: 0, accepted: 0 };
   for (const c of checks) counts[c.status]++;
 
   const site: ReleaseSite = {

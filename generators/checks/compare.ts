@@ -9,6 +9,7 @@ import { arfAt, bracket, lerpAt } from './interpolate.ts';
 import { fmt, makeCheck } from './make-check.ts';
 import { rowSums } from './numbers-rmf.ts';
 import { expandRow } from '../response/compress.ts';
+import { plural } from '../plural.ts';
 import { DEFAULT_COMPARE_TOLERANCES, type CompareTolerances } from './tolerances.ts';
 import type { Check } from './types.ts';
 
@@ -32,12 +33,12 @@ function overlap(aLo: Float64Array, aHi: Float64Array, bLo: Float64Array, bHi: F
   return hi > lo ? [lo, hi] : null;
 }
 
-/** "compare.arf.area-ratio": extremes of new/old area at the old grid's bin centres inside the common range. */
+/** "review.arf.area-ratio": extremes of new/old area at the old grid's bin centres inside the common range. */
 export function compareArf(older: ArfData, newer: ArfData, product: string | null, opts: CompareOptions = {}): Check[] {
   const tol = { ...DEFAULT_COMPARE_TOLERANCES, ...opts.tolerances };
   const label = opts.label ? `${opts.label}: ` : '';
   const range = overlap(older.energLoKeV, older.energHiKeV, newer.energLoKeV, newer.energHiKeV);
-  const base = { id: 'compare.arf.area-ratio', title: 'effective area ratio new/old', product, tolerance: `1 ± ${tol.areaRatio}`, unit: 'ratio' };
+  const base = { id: 'review.arf.area-ratio', title: 'effective area ratio new/old', product, tolerance: `1 ± ${tol.areaRatio}`, unit: 'ratio' };
   if (!range) return [makeCheck('review', { ...base, message: `${label}the two ARFs share no energy range` })];
   let peak = 0;
   for (const v of older.specrespCm2) if (Number.isFinite(v) && v > peak) peak = v;
@@ -52,11 +53,15 @@ export function compareArf(older: ArfData, newer: ArfData, product: string | nul
   }
   if (!Number.isFinite(rMin)) return [makeCheck('review', { ...base, message: `${label}no energy with usable area in both ARFs` })];
   const worst = Math.max(Math.abs(rMin - 1), Math.abs(rMax - 1));
+  // One value when the extremes agree at the shown precision: no "from 1 at E to 1 at E".
+  const flat = fmt(rMin) === fmt(rMax);
   return [
     makeCheck(worst > tol.areaRatio ? 'review' : 'pass', {
       ...base,
-      measured: `${fmt(rMin)}–${fmt(rMax)}`,
-      message: `${label}area ratio from ${fmt(rMin)} at ${fmt(eMin)} keV to ${fmt(rMax)} at ${fmt(eMax)} keV`,
+      measured: flat ? fmt(rMin) : `${fmt(rMin)}–${fmt(rMax)}`,
+      message: flat
+        ? `${label}area ratio ${fmt(rMin)} at every compared energy (${fmt(range[0])}–${fmt(range[1])} keV; allowed 1 ± ${tol.areaRatio})`
+        : `${label}area ratio from ${fmt(rMin)} at ${fmt(eMin)} keV to ${fmt(rMax)} at ${fmt(eMax)} keV (allowed 1 ± ${tol.areaRatio})`,
     }),
   ];
 }
@@ -93,8 +98,8 @@ function lowShareAt(rmf: RmfData, e: number, core: { centroidKeV: number; fwhmEv
 }
 
 /**
- * Five checks: "compare.rmf.channels" (same channel count and bounds), "compare.rmf.centroid",
- * "compare.rmf.fwhm" (fitted Gaussian core), "compare.rmf.row-sum" and "compare.rmf.low-share"
+ * Five checks: "review.rmf.channels" (same channel count and bounds), "review.rmf.centroid",
+ * "review.rmf.fwhm" (fitted Gaussian core), "review.rmf.row-sum" and "review.rmf.low-share"
  * (the share of the row below the older core, where a changed soft tail shows), each reporting the
  * largest difference over the probe energies and where it occurs.
  */
@@ -108,7 +113,7 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
     older.ebounds.eMinKeV.every((v, i) => Math.abs(v - newer.ebounds.eMinKeV[i]) <= 1e-6 * Math.max(Math.abs(v), 1e-6));
   out.push(
     makeCheck(sameChannels ? 'pass' : 'review', {
-      id: 'compare.rmf.channels',
+      id: 'review.rmf.channels',
       title: 'same channels and channel bounds',
       product,
       measured: `${older.detchans} → ${newer.detchans}`,
@@ -119,7 +124,7 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
   );
   const range = overlap(older.energLoKeV, older.energHiKeV, newer.energLoKeV, newer.energHiKeV);
   if (!range) {
-    out.push(makeCheck('review', { id: 'compare.rmf.energy-range', title: 'common energy range', product, message: `${label}the matrices share no energy range` }));
+    out.push(makeCheck('review', { id: 'review.rmf.energy-range', title: 'common energy range', product, message: `${label}the matrices share no energy range` }));
     return out;
   }
   const energies = (opts.energiesKeV ?? logSpaced(Math.max(range[0], 1e-3), range[1], DEFAULT_RMF_PROBES)).filter((e) => e >= range[0] && e <= range[1]);
@@ -145,36 +150,37 @@ export function compareRmf(older: RmfData, newer: RmfData, product: string | nul
     if (Math.abs(dl) > Math.abs(worst.low.d)) worst.low = { d: dl, e, a: la };
   }
   const at = (w: { e: number }) => (Number.isFinite(w.e) ? ` at ${fmt(w.e)} keV` : '');
-  const coreNote = fitted === 0 ? 'no energy where both cores could be fitted' : `over ${fitted} probe energies`;
+  const probes = plural(energies.length, 'probe energy', 'probe energies');
+  const coreNote = fitted === 0 ? `no energy of ${probes} where both cores could be fitted` : fitted === energies.length ? `over ${probes}` : `over the ${fitted} of ${probes} where both cores could be fitted`;
   out.push(
     makeCheck(fitted === 0 || Math.abs(worst.centroid.d) > tol.centroidEv ? 'review' : 'pass', {
-      id: 'compare.rmf.centroid',
+      id: 'review.rmf.centroid',
       title: 'largest change of the core centroid',
       product,
       measured: worst.centroid.d,
       tolerance: tol.centroidEv,
       unit: 'eV',
-      message: `${label}largest centroid change ${fmt(worst.centroid.d)} eV${at(worst.centroid)} (${coreNote})`,
+      message: `${label}largest centroid change ${fmt(worst.centroid.d)} eV${at(worst.centroid)} (${coreNote}; allowed ±${fmt(tol.centroidEv)} eV)`,
     }),
     makeCheck(fitted === 0 || Math.abs(worst.fwhm.d) > tol.fwhmEv ? 'review' : 'pass', {
-      id: 'compare.rmf.fwhm',
+      id: 'review.rmf.fwhm',
       title: 'largest change of the core FWHM',
       product,
       measured: worst.fwhm.d,
       tolerance: tol.fwhmEv,
       unit: 'eV',
-      message: `${label}largest FWHM change ${fmt(worst.fwhm.d)} eV${at(worst.fwhm)} (${coreNote})`,
+      message: `${label}largest FWHM change ${fmt(worst.fwhm.d)} eV${at(worst.fwhm)} (${coreNote}; allowed ±${fmt(tol.fwhmEv)} eV)`,
     }),
     makeCheck(Math.abs(worst.sum.d) > tol.rowSum ? 'review' : 'pass', {
-      id: 'compare.rmf.row-sum',
+      id: 'review.rmf.row-sum',
       title: 'largest change of the row sum (redistribution efficiency)',
       product,
       measured: worst.sum.d,
       tolerance: tol.rowSum,
-      message: `${label}largest row-sum change ${fmt(worst.sum.d)}${at(worst.sum)} over ${energies.length} probe energies`,
+      message: `${label}largest row-sum change ${fmt(worst.sum.d)}${at(worst.sum)} (over ${probes}; allowed ±${fmt(tol.rowSum)})`,
     }),
     makeCheck(fitted > 0 && Math.abs(worst.low.d) > tol.lowShare ? 'review' : 'pass', {
-      id: 'compare.rmf.low-share',
+      id: 'review.rmf.low-share',
       title: 'largest change of the share below the core (centroid − 2σ: soft tail, shelf, escape)',
       product,
       measured: worst.low.d,

@@ -22,3 +22,4 @@ export * from './classify.ts';
 export * from './check-file.ts';
 export * from './report.ts';
 export * from './reexamined.ts';
+export * from './release-report.ts';

@@ -6,7 +6,7 @@
 import type { Check, CheckStatus, ReexaminedCounts, ReexaminedFinding } from '../site-data/types.ts';
 
 /** Severity order: a finding is a status above the published one. */
-const RANK: Record<CheckStatus, number> = { pass: 0, review: 1, warn: 2, fail: 3 };
+const RANK: Record<CheckStatus, number> = { pass: 0, accepted: 1, review: 1, warn: 2, fail: 3 };
 
 const keyOf = (c: Pick<Check, 'id' | 'product'>) => `${c.id}\u0000${c.product ?? ''}`;
 

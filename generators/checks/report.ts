@@ -6,7 +6,7 @@ import type { Check, CheckStatus } from './types.ts';
 export type StatusCounts = Record<CheckStatus, number>;
 
 export function countStatuses(checks: readonly Check[]): StatusCounts {
-  const c: StatusCounts = { pass: 0, fail: 0, warn: 0, review: 0 };
+  const c: StatusCounts = { pass: 0, fail: 0, warn: 0, review: 0, accepted: 0 };
   for (const k of checks) c[k.status]++;
   return c;
 }
@@ -26,7 +26,7 @@ export function formatCheckLine(c: Check): string {
 }
 
 export function summaryLine(counts: StatusCounts, total: number): string {
-  return `${total} checks: ${counts.pass} pass, ${counts.fail} fail, ${counts.warn} warn, ${counts.review} review`;
+  return `${total} checks: ${counts.pass} pass, ${counts.fail} fail, ${counts.warn} warn, ${counts.review} review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`;
 }
 
 export interface FormatOptions {

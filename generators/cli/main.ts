@@ -10,12 +10,18 @@ import { formatHelp, parseArgs, UsageError, type CommandSpec } from './args.ts';
 /** Verb name → module path; loaded lazily so `kiln inspect` does not pay for the physics. */
 const VERBS: Record<string, { summary: string; load: () => Promise<{ command: CommandSpec }> }> = {
   build: { summary: 'build every release in the content tree into products, reports and site data', load: () => import('./build.ts') },
+  site: { summary: 'build products and the site for a content tree into a folder (--content, --out)', load: () => import('./site.ts') },
   plan: { summary: 'list the jobs of a build with their fingerprints (JSON, for a batch scheduler)', load: () => import('./plan.ts') },
   gather: { summary: 'check the shards of a sharded build and write the output of the whole build', load: () => import('./gather.ts') },
   check: { summary: 'validate RMF, ARF or PHA files (any origin)', load: () => import('./check.ts') },
   compare: { summary: 'compare two releases or two response files', load: () => import('./compare.ts') },
+  report: { summary: "print a release's checks, failed and review items first, measured vs allowed", load: () => import('./report.ts') },
   publish: { summary: 'freeze a release: archive its products with checksums', load: () => import('./publish.ts') },
   efficiency: { summary: 'print the layer-by-layer efficiency of a detector', load: () => import('./efficiency.ts') },
+  response: { summary: 'make the RMF and ARF of one detector position and date from a release\'s model document', load: () => import('./response.ts') },
+  fold: { summary: 'fold a source through a response: expected counts, band rates, pile-up', load: () => import('./fold.ts') },
+  simulate: { summary: 'simulate a source spectrum through a response into a PHA file', load: () => import('./simulate.ts') },
+  fit: { summary: 'fit a source model to a PHA spectrum (C-statistic, ΔC = 1 errors)', load: () => import('./fit.ts') },
   inspect: { summary: 'print the HDUs, key header values and columns of a FITS file', load: () => import('./inspect.ts') },
 };
 
@@ -71,7 +77,7 @@ export function reportFailure(verb: string, e: unknown, debug: boolean): number 
   }
   const known = isInputError(e) ? e : fromSystemError(e);
   if (known) {
-    process.stderr.write(`kiln ${verb}: ${known.oneLine()}\n`);
+    for (const line of known.lines()) process.stderr.write(`kiln ${verb}: ${line}\n`);
     trace();
     return exitCodeOf(known);
   }

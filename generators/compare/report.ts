@@ -1,4 +1,6 @@
 /** The comparison report of `kiln compare`: JSON form and readable text (pure). */
+import { reportLine } from '../checks/release-report.ts';
+import { plural } from '../plural.ts';
 import type { Check } from '../site-data/types.ts';
 import type { ParameterDiff } from './parameters.ts';
 import type { ArfDiffRow, RmfDiffRow } from './tables.ts';
@@ -46,7 +48,7 @@ export function formatCompareText(r: CompareReport): string {
       out.push('  energy keV   area A cm²   area B cm²   ratio B/A');
       for (const x of p.arf) out.push(`  ${num(x.energyKeV, 4, 10)}   ${num(x.areaACm2, 3, 10)}   ${num(x.areaBCm2, 3, 10)}   ${num(x.ratio, 5, 9)}`);
     }
-    for (const c of p.checks) out.push(`  ${c.status === 'pass' ? 'within tolerance' : 'REVIEW'}  ${c.id}: ${c.message}`);
+    for (const c of p.checks) out.push(`  ${c.status === 'pass' ? `within tolerance  ${c.id}: ${c.message}` : reportLine(c)}`);
   }
   if (r.parameters.length) {
     out.push('', 'parameter changes (A → B):');
@@ -55,6 +57,6 @@ export function formatCompareText(r: CompareReport): string {
   }
   if (r.unmatched.length) out.push('', `only on one side: ${r.unmatched.join(', ')}`);
   const n = r.pairs.reduce((s, p) => s + p.checks.filter((c) => c.status !== 'pass').length, 0);
-  out.push('', n ? `${n} differences beyond the review tolerances` : 'all differences within the review tolerances');
+  out.push('', n ? `${plural(n, 'difference')} beyond the review tolerances` : 'all differences within the review tolerances');
   return out.join('\n');
 }

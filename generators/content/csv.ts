@@ -101,7 +101,7 @@ function matchHeader(h: string, columns: readonly CsvColumn[]): { col: CsvColumn
 
 export function parseCsv(text: string, file: string, columns: readonly CsvColumn[]): CsvTable {
   const lines = text.replace(/^\uFEFF/, '').split(/\r?\n/);
-  const expectedHeader = columns.map(headerName).join(',');
+  const expectedHeader = columns.map((c) => (c.optional ? `[${headerName(c)}]` : headerName(c))).join(',');
   let headerLine = 0;
   let order: CsvColumn[] | null = null;
   const rows: CsvRow[] = [];

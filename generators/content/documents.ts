@@ -1,7 +1,7 @@
 /** instrument.yaml and release.yaml from text: YAML with positions → schema → KilnInputError. Pure. */
 import { KilnInputError } from '../errors.ts';
 import { parseWith } from './issues.ts';
-import { instrumentSchema, releaseSchema, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { instrumentSchema, regionsFileSchema, releaseSchema, spectralSchema, type InstrumentDoc, type RegionsFileDoc, type ReleaseDoc, type SpectralDoc } from './schema.ts';
 import type { MirrorArea } from './tables.ts';
 import { parseYaml, type YamlText } from './yaml.ts';
 
@@ -18,6 +18,16 @@ export function parseInstrumentText(text: string, file: string): Parsed<Instrume
 export function parseReleaseText(text: string, file: string): Parsed<ReleaseDoc> {
   const yaml = parseYaml(text, file);
   return { doc: parseWith(releaseSchema, yaml.value, { file, locate: yaml.locate }), yaml };
+}
+
+export function parseSpectralText(text: string, file: string): Parsed<SpectralDoc> {
+  const yaml = parseYaml(text, file);
+  return { doc: parseWith(spectralSchema, yaml.value, { file, locate: yaml.locate }), yaml };
+}
+
+export function parseRegionsText(text: string, file: string): Parsed<RegionsFileDoc> {
+  const yaml = parseYaml(text, file);
+  return { doc: parseWith(regionsFileSchema, yaml.value, { file, locate: yaml.locate }), yaml };
 }
 
 /** The mirror table must span the response energy grid: Kiln interpolates, never extrapolates. */

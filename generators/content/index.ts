@@ -8,4 +8,5 @@ export * from './issues.ts';
 export * from './documents.ts';
 export * from './resolve.ts';
 export * from './types.ts';
-export { loadContent, loadInstrumentFile } from './load.ts';
+export * from './source-schema.ts';
+export { loadContent, loadInstrumentFile, loadSourceFile } from './load.ts';

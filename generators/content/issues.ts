@@ -3,7 +3,7 @@
  * YAML line, the value found and what was expected. Pure.
  */
 import { z } from 'zod';
-import { KilnInputError } from '../errors.ts';
+import { KilnInputError, throwInputErrors } from '../errors.ts';
 import type { FieldPath, Position } from './yaml.ts';
 
 /** `a.b[2].c` from ['a', 'b', 2, 'c']. */
@@ -122,8 +122,8 @@ export function issueToError(iss: z.ZodIssue, cx: IssueContext, pathPrefix: Fiel
 }
 
 /**
- * Parses `raw` with `schema`; on failure throws the issue that comes first in the file, its
- * message noting how many more there are.
+ * Parses `raw` with `schema`; on failure throws every issue (a KilnInputErrors when there are
+ * several), the one that comes first in the file first.
  */
 export function parseWith<S extends z.ZodTypeAny>(schema: S, raw: unknown, cx: Omit<IssueContext, 'raw' | 'schema'>, pathPrefix: FieldPath = []): z.output<S> {
   const r = schema.safeParse(raw);
@@ -131,8 +131,6 @@ export function parseWith<S extends z.ZodTypeAny>(schema: S, raw: unknown, cx: O
   // A misspelt field also shows up as a missing one: report the unknown name first, then by line.
   const ranked = r.error.issues.map((i) => ({ unknown: i.code === 'unrecognized_keys' ? 0 : 1, err: issueToError(i, { ...cx, raw, schema }, pathPrefix) }));
   ranked.sort((a, b) => a.unknown - b.unknown || (a.err.where.line ?? Infinity) - (b.err.where.line ?? Infinity));
-  const errors = ranked.map((x) => x.err);
-  const first = errors[0];
-  if (errors.length === 1) throw first;
-  throw new KilnInputError(`${first.message} (and ${errors.length - 1} more problem${errors.length > 2 ? 's' : ''} in this file)`, first.where);
+  throwInputErrors(ranked.map((x) => x.err));
+  throw new Error('unreachable: a failed parse has at least one issue');
 }

@@ -11,12 +11,13 @@ import { lstat, readdir } from 'node:fs/promises';
 import { readRegularFile } from '../node/files.ts';
 import { LIMIT_NAMES, MAX_CSV_BYTES, MAX_NOTES_BYTES, MAX_YAML_BYTES } from './limits.ts';
 import { basename, dirname, join } from 'node:path';
-import { KilnInputError } from '../errors.ts';
-import { checkMirrorCoversGrid, parseInstrumentText, parseReleaseText } from './documents.ts';
-import { formatPath } from './issues.ts';
+import { KilnInputError, throwInputErrors } from '../errors.ts';
+import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText, parseSpectralText } from './documents.ts';
+import { formatPath, valueAt } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
-import { CONTENT_DIRS, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, RELEASE_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
+import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
 import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
 
@@ -76,6 +77,18 @@ interface LoadedInstrument {
   instrument: Instrument;
   source: DocSource;
   inputs: InputFile[];
+  /** regions.yaml, when present: its source for errors and its bytes (an input only of releases that use regions). */
+  regions: { source: DocSource; input: InputFile } | null;
+}
+
+/** Whether a path exists at all (a link or a folder named regions.yaml is then refused by readBytes). */
+async function exists(p: string): Promise<boolean> {
+  try {
+    await lstat(p);
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 async function loadInstrumentAt(root: string, file: string, rel: (p: string) => string): Promise<LoadedInstrument> {
@@ -86,14 +99,55 @@ async function loadInstrumentAt(root: string, file: string, rel: (p: string) => 
   const mirrorBytes = await readBytes(root, mirrorFile, 'csv', `the mirror effective-area table named by ${formatPath(['mirrorArea'])} (columns energy_keV,area_cm2)`);
   const mirror = parseMirrorArea(decode(mirrorBytes, mirrorFile), mirrorFile);
   checkMirrorCoversGrid(mirror, doc);
+  const regionsFile = join(dir, REGIONS_FILE);
+  let regions: LoadedInstrument['regions'] = null;
+  if (await exists(regionsFile)) {
+    const rb = await readBytes(root, regionsFile, 'yaml', `${REGIONS_FILE}, the readout nodes and row bands of the detectors`);
+    const parsedRegions = parseRegionsText(decode(rb, regionsFile), regionsFile);
+    const src: DocSource = { file: regionsFile, locate: parsedRegions.yaml.locate };
+    for (const [id, g] of Object.entries(parsedRegions.doc.detectors)) {
+      const d = doc.detectors.find((x) => x.id === id);
+      if (!d) throw releaseError(src, ['detectors', id], 'unknown detector', id, `a detector of ${doc.id}: ${doc.detectors.map((x) => x.id).join(', ')}`);
+      if (d.regions) throw releaseError(src, ['detectors', id], `regions of detector ${id} are also given in ${INSTRUMENT_FILE}`, id, 'regions in one of the two files');
+      d.regions = g;
+    }
+    regions = { source: src, input: { path: rel(regionsFile), bytes: rb } };
+  }
+  const sources = await loadSourcesIn(root, join(dir, SOURCES_DIR));
+  const spectralFile = join(dir, SPECTRAL_FILE);
+  const spectral = (await exists(spectralFile))
+    ? parseSpectralText(decode(await readBytes(root, spectralFile, 'yaml', `${SPECTRAL_FILE}, the bands, pile-up inputs and impact tolerances of the reference sources`), spectralFile), spectralFile).doc
+    : undefined;
   return {
-    instrument: { ...doc, dir, file, mirror },
+    instrument: { ...doc, dir, file, mirror, sources, ...(spectral ? { spectral } : {}) },
     source: { file, locate: yaml.locate },
     inputs: [
       { path: rel(file), bytes },
       { path: rel(mirrorFile), bytes: mirrorBytes },
     ],
+    regions,
   };
+}
+
+/** One reference source document (sources/<id>.yaml). */
+export async function loadSourceFile(path: string, root: string = dirname(path)): Promise<SourceSpec> {
+  const bytes = await readBytes(root, path, 'yaml', 'a source description (YAML)');
+  return parseSourceText(decode(bytes, path), path);
+}
+
+/** The reference sources of an instrument, sorted by file name; each id must equal its file name. */
+async function loadSourcesIn(root: string, dir: string): Promise<SourceSpec[]> {
+  if (!(await isDirectory(dir))) return [];
+  const out: SourceSpec[] = [];
+  for (const name of (await readdir(dir)).sort()) {
+    if (IGNORED_FILES.test(name)) continue;
+    const file = join(dir, name);
+    if (!name.endsWith('.yaml')) throw new KilnInputError(`unexpected file in ${SOURCES_DIR}/`, { file, expected: 'only <source-id>.yaml files (and README.md)' });
+    const s = await loadSourceFile(file, root);
+    if (s.doc.id !== name.slice(0, -'.yaml'.length)) throw new KilnInputError('source id differs from its file name', { file, field: 'id', value: s.doc.id, expected: `"${name.slice(0, -5)}" (or rename the file)` });
+    out.push(s);
+  }
+  return out;
 }
 
 /** One instrument.yaml (and its mirror table), e.g. for `kiln efficiency`. */
@@ -105,42 +159,87 @@ function releaseError(src: DocSource, path: (string | number)[], message: string
   return new KilnInputError(message, { file: src.file, line: src.locate?.(path)?.line, field: formatPath(path), value, expected });
 }
 
-/** Loads, validates and resolves the whole tree. Throws the first KilnInputError found. */
+/** Runs `fn`; an input error is collected (and undefined returned) so that loading goes on. */
+async function collecting<T>(errors: KilnInputError[], fn: () => T | Promise<T>): Promise<T | undefined> {
+  try {
+    return await fn();
+  } catch (e) {
+    if (e instanceof KilnInputError) {
+      errors.push(e);
+      return undefined;
+    }
+    throw e;
+  }
+}
+
+/**
+ * Loads, validates and resolves the whole tree. Every input problem found is reported at once
+ * (a KilnInputErrors when there are several, in the order found); a part that depends on a
+ * broken one (a release of an unreadable instrument) is skipped, not reported twice.
+ */
 export async function loadContent(root: string): Promise<ContentTree> {
   if (!(await isDirectory(root)))
     throw new KilnInputError('content directory not found', { file: root, expected: `a directory with ${CONTENT_DIRS.instruments}/ and ${CONTENT_DIRS.releases}/` });
   const rel = (p: string) => p.slice(root.length).replace(/^[\\/]+/, '').split(/[\\/]/).join('/');
+  const errors: KilnInputError[] = [];
 
   const instruments = new Map<string, LoadedInstrument>();
+  /** Instruments that exist but failed to load: their releases are not checked further. */
+  const broken = new Set<string>();
   const insDir = join(root, CONTENT_DIRS.instruments);
-  for (const name of await entryDirs(insDir, 'instrument')) {
-    const loaded = await loadInstrumentAt(root, join(insDir, name, INSTRUMENT_FILE), rel);
-    if (loaded.instrument.id !== name)
-      throw releaseError(loaded.source, ['id'], 'instrument id differs from its directory name', loaded.instrument.id, `"${name}" (or rename the directory)`);
+  for (const name of (await collecting(errors, () => entryDirs(insDir, 'instrument'))) ?? []) {
+    const loaded = await collecting(errors, () => loadInstrumentAt(root, join(insDir, name, INSTRUMENT_FILE), rel));
+    if (!loaded) {
+      broken.add(name);
+      continue;
+    }
+    if (loaded.instrument.id !== name) {
+      errors.push(releaseError(loaded.source, ['id'], 'instrument id differs from its directory name', loaded.instrument.id, `"${name}" (or rename the directory)`));
+      broken.add(name);
+      continue;
+    }
     instruments.set(name, loaded);
   }
 
   const relDir = join(root, CONTENT_DIRS.releases);
   const parsed: { release: Release; source: DocSource; inputs: InputFile[] }[] = [];
-  for (const name of await entryDirs(relDir, 'release')) {
+  /** Release directories that failed to load: history checks do not guess about them. */
+  const brokenReleases = new Set<string>();
+  for (const name of (await collecting(errors, () => entryDirs(relDir, 'release'))) ?? []) {
     const dir = join(relDir, name);
     const file = join(dir, RELEASE_FILE);
-    const bytes = await readBytes(root, file, 'yaml', `${RELEASE_FILE}, the release description`);
-    const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
-    const source: DocSource = { file, locate: yaml.locate };
-    if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
-    if (!instruments.has(doc.instrument))
-      throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys()].join(', ') || '(no instrument in the content tree)'}`);
-    const notesFile = join(dir, NOTES_FILE);
-    const notesBytes = await readBytes(root, notesFile, 'notes', `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
-    const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
-    parsed.push({ release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] });
+    const one = await collecting(errors, async () => {
+      const bytes = await readBytes(root, file, 'yaml', `${RELEASE_FILE}, the release description`);
+      const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
+      const source: DocSource = { file, locate: yaml.locate };
+      if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
+      if (!instruments.has(doc.instrument) && !broken.has(doc.instrument))
+        throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys(), ...broken].sort().join(', ') || '(no instrument in the content tree)'}`);
+      const notesFile = join(dir, NOTES_FILE);
+      const notesBytes = await readBytes(root, notesFile, 'notes', `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
+      const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
+      return { release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] };
+    });
+    if (one) parsed.push(one);
+    else brokenReleases.add(name);
   }
   parsed.sort((a, b) => compareSemver(a.release.id, b.release.id));
-  checkReleaseHistory(parsed);
+  errors.push(...checkReleaseHistory(parsed, brokenReleases));
 
   const releases: ResolvedRelease[] = [];
-  for (const p of parsed) releases.push(await resolveRelease(root, p, instruments, rel));
+  for (const p of parsed) {
+    if (broken.has(p.release.instrument)) {
+      // The model cannot be resolved without its instrument; the line-fit tables can still be read.
+      for (const detectorId of Object.keys(p.release.detectors)) {
+        const file = join(p.release.dir, lineFitsFileOf(p.release, detectorId));
+        await collecting(errors, async () => parseLineFits(decode(await readBytes(root, file, 'csv', `the line fits of detector ${detectorId}`), file), file));
+      }
+      continue;
+    }
+    const r = await collecting(errors, () => resolveRelease(root, p, instruments, rel));
+    if (r) releases.push(r);
+  }
+  throwInputErrors(errors);
   return {
     root,
     instruments: [...instruments.values()].map((l) => l.instrument),
@@ -148,21 +247,24 @@ export async function loadContent(root: string): Promise<ContentTree> {
   };
 }
 
-function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[]): void {
+function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
+  const errors: KilnInputError[] = [];
   const byId = new Map(list.map((p) => [p.release.id, p]));
   const supersededBy = new Map<string, string>();
   for (const { release: r, source } of list) {
     if (r.supersedes === null) continue;
     const old = byId.get(r.supersedes);
-    if (!old) throw releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`);
-    if (compareSemver(r.supersedes, r.id) >= 0) throw releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`);
-    if (old.release.instrument !== r.instrument)
-      throw releaseError(source, ['supersedes'], `supersedes a release of another instrument (${old.release.instrument})`, r.supersedes, `a release of ${r.instrument}`);
-    supersededBy.set(r.supersedes, r.id);
+    if (!old && broken.has(r.supersedes)) continue; // reported already, as its own error
+    if (!old) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`));
+    else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
+    else if (old.release.instrument !== r.instrument)
+      errors.push(releaseError(source, ['supersedes'], `supersedes a release of another instrument (${old.release.instrument})`, r.supersedes, `a release of ${r.instrument}`));
+    else supersededBy.set(r.supersedes, r.id);
   }
   for (const { release: r, source } of list)
-    if (r.status === 'superseded' && !supersededBy.has(r.id))
-      throw releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`);
+    if (r.status === 'superseded' && !supersededBy.has(r.id) && broken.size === 0)
+      errors.push(releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`));
+  return errors;
 }
 
 async function resolveRelease(
@@ -174,39 +276,79 @@ async function resolveRelease(
   const { release, source } = p;
   const ins = instruments.get(release.instrument);
   if (!ins) throw releaseError(source, ['instrument'], 'unknown instrument', release.instrument, `one of ${[...instruments.keys()].join(', ') || '(no instrument in the content tree)'}`);
-  const inputs = [...p.inputs, ...ins.inputs];
+  const instrument = await effectiveInstrument(root, ins, release, source, rel);
+  const inputs = [...p.inputs, ...instrument.inputs];
   const used = new Set<string>();
   const detectors = [];
+  const errors: KilnInputError[] = [];
   for (const detectorId of Object.keys(release.detectors)) {
     const relFile = lineFitsFileOf(release, detectorId);
     const file = join(release.dir, relFile);
     used.add(file);
-    if (!ins.instrument.detectors.some((d) => d.id === detectorId))
-      throw releaseError(source, ['detectors', detectorId], 'unknown detector', detectorId, `a detector of ${ins.instrument.id}: ${ins.instrument.detectors.map((d) => d.id).join(', ')}`);
-    const bytes = await readBytes(root, file, 'csv', `the line fits of detector ${detectorId} (${relFile} in the release directory)`);
-    const lineFits = parseLineFits(decode(bytes, file), file);
-    inputs.push({ path: rel(file), bytes });
-    detectors.push(
-      resolveDetector({
-        instrument: ins.instrument as InstrumentDoc,
+    const d = await collecting(errors, async () => {
+      if (!ins.instrument.detectors.some((x) => x.id === detectorId))
+        throw releaseError(source, ['detectors', detectorId], 'unknown detector', detectorId, `a detector of ${ins.instrument.id}: ${ins.instrument.detectors.map((x) => x.id).join(', ')}`);
+      const bytes = await readBytes(root, file, 'csv', `the line fits of detector ${detectorId} (${relFile} in the release directory)`);
+      const lineFits = parseLineFits(decode(bytes, file), file);
+      inputs.push({ path: rel(file), bytes });
+      return resolveDetector({
+        instrument: instrument.instrument as InstrumentDoc,
         instrumentSource: ins.source,
         release,
         releaseSource: source,
         detectorId,
         lineFits,
         lineFitsPath: rel(file),
-      }),
-    );
+        regionsSource: ins.regions?.source,
+      });
+    });
+    if (d) detectors.push(d);
   }
+  // regions.yaml is an input of the releases whose products depend on it (as in the fingerprint).
+  if (ins.regions && (release.productsPer !== 'detector' || detectors.some((d) => d.redistribution.transferLoss !== undefined))) inputs.push(ins.regions.input);
   // A line-fit file no detector uses is most likely a detector left out of release.yaml.
   const lfDir = join(release.dir, LINEFITS_DIR);
   if (await isDirectory(lfDir))
     for (const f of (await readdir(lfDir)).sort())
       if (f.endsWith('.csv') && !used.has(join(lfDir, f)))
-        throw new KilnInputError('line-fit file not used by any detector of the release', {
-          file: join(lfDir, f),
-          expected: `a detector entry in ${RELEASE_FILE} (detectors.${f.slice(0, -4)}) or removal of the file`,
-        });
+        errors.push(
+          new KilnInputError('line-fit file not used by any detector of the release', {
+            file: join(lfDir, f),
+            expected: `a detector entry in ${RELEASE_FILE} (detectors.${f.slice(0, -4)}) or removal of the file`,
+          }),
+        );
+  throwInputErrors(errors);
   inputs.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
-  return { release, instrument: ins.instrument, detectors, inputs };
+  return { release, instrument: instrument.instrument, detectors, inputs };
+}
+
+/**
+ * The instrument as this release sees it: its grids and mirror table with the release's
+ * `overrides` applied (a restated mirror table replaces the instrument's, also as an input file).
+ */
+async function effectiveInstrument(root: string, ins: LoadedInstrument, release: Release, source: DocSource, rel: (p: string) => string): Promise<{ instrument: Instrument; inputs: InputFile[] }> {
+  const ov = release.overrides;
+  if (!ov.mirrorArea && !ov.channels && !ov.energyGrid) return { instrument: ins.instrument, inputs: ins.inputs };
+  const base = ins.instrument;
+  const channels = { ...base.channels, ...ov.channels };
+  const gridRaw = { ...base.energyGrid, ...ov.energyGrid };
+  const grid = energyGridSchema.safeParse(gridRaw);
+  if (!grid.success) {
+    const iss = grid.error.issues[0];
+    const path = ['overrides', 'energyGrid', ...iss.path];
+    throw releaseError(source, path, `${iss.message} (release ${release.id}'s energy grid after its overrides)`, valueAt(gridRaw, iss.path), (iss as { params?: { expected?: string } }).params?.expected ?? 'a valid energy grid');
+  }
+  const energyGrid = grid.data;
+  let mirror = base.mirror;
+  let inputs = ins.inputs;
+  if (ov.mirrorArea) {
+    const file = join(release.dir, ov.mirrorArea);
+    const bytes = await readBytes(root, file, 'csv', `the mirror effective-area table named by overrides.mirrorArea of release ${release.id} (columns energy_keV,area_cm2)`);
+    mirror = parseMirrorArea(decode(bytes, file), file);
+    // The instrument's own table is not an input of this release any more.
+    inputs = [...ins.inputs.filter((f) => f.path !== rel(base.mirror.file)), { path: rel(file), bytes }];
+  }
+  const instrument: Instrument = { ...base, channels, energyGrid, mirror };
+  checkMirrorCoversGrid(mirror, instrument);
+  return { instrument, inputs };
 }

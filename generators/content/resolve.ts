@@ -8,7 +8,8 @@
  * - an override whose `source` (law | line-fits) or `kind` (contamination law) differs from the
  *   instrument's replaces that part whole, and must then be complete;
  * - layers (stack.filters, stack.surface) are addressed by name; layers cannot be added or removed.
- * An error in the merged model names release.yaml when the offending value came from the
+ * The release-wide `overrides.model` is merged first, then `detectors.<id>.model`.
+ * An error in the merged model names release.yaml when the offending value came from an
  * override, instrument.yaml otherwise.
  */
 import { KilnInputError } from '../errors.ts';
@@ -27,7 +28,10 @@ import {
   type ReleaseDoc,
 } from './schema.ts';
 import type { LineFitTable } from './tables.ts';
-import type { ResolvedDetector } from './types.ts';
+import type { ResolvedDetector, ResolvedRegions } from './types.ts';
+import { fitTransferLoss } from '../fit/transfer-loss.ts';
+import { meanTransfers } from '../physics/transfer-loss.ts';
+import type { LineFit } from '../response/model-types.ts';
 import type { FieldPath, Position } from './yaml.ts';
 
 /** Where a document came from, to point errors at it. */
@@ -103,6 +107,8 @@ export interface ResolveDetectorInput {
   lineFits: LineFitTable;
   /** Content-root-relative path of the line-fit file (for ResolvedDetector.lineFitsFile). */
   lineFitsPath: string;
+  /** regions.yaml, when the instrument's regions come from it (errors about nodes name it). */
+  regionsSource?: DocSource;
 }
 
 export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
@@ -122,22 +128,42 @@ export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
   const rd = release.detectors[detectorId];
   const overridePrefix = [...releasePrefix, 'model'];
   const base = { stack: det.stack, redistribution: det.redistribution };
-  const { merged, provenance } = mergeModel(base, rd.model, x.releaseSource, overridePrefix);
+  // The release's model for every detector first, then this detector's own; the later one wins.
+  const sharedPrefix: FieldPath = ['overrides', 'model'];
+  const shared = mergeModel(base, release.overrides.model ?? {}, x.releaseSource, sharedPrefix);
+  const { merged, provenance } = mergeModel(shared.merged, rd.model, x.releaseSource, overridePrefix);
 
   const parsed = detectorModelSchema.safeParse(merged);
   if (!parsed.success) {
     const iss = parsed.error.issues[0];
     const lookup = iss.code === 'unrecognized_keys' ? [...iss.path, iss.keys[0]] : iss.path;
-    const op = fromOverride(lookup, provenance);
+    const own = fromOverride(lookup, provenance);
+    const fromShared = own ? null : fromOverride(lookup, shared.provenance);
     let err = issueToError(iss, { file: x.instrumentSource.file, raw: merged, locate: x.instrumentSource.locate, schema: detectorModelSchema }, ['detectors', index]);
-    if (op) {
-      const path = [...overridePrefix, ...op];
-      err = new KilnInputError(err.message, { ...err.where, file: x.releaseSource.file, line: x.releaseSource.locate?.(path)?.line, field: formatPath(path) });
-    }
+    const op = own ? [...overridePrefix, ...own] : fromShared ? [...sharedPrefix, ...fromShared] : null;
+    if (op) err = new KilnInputError(err.message, { ...err.where, file: x.releaseSource.file, line: x.releaseSource.locate?.(op)?.line, field: formatPath(op) });
     throw new KilnInputError(`${err.message} (after applying release ${release.id}'s model to detector ${detectorId})`, err.where);
   }
-  const redistribution = parsed.data.redistribution as RedistributionSpec;
-  checkLineFits(x.lineFits, redistribution, instrument, detectorId);
+  if (!(parsed.data.redistribution.thresholdKeV < instrument.energyGrid.maxKeV))
+    throw new KilnInputError(`threshold of detector ${detectorId} lies above the energy grid of release ${release.id}`, {
+      file: x.releaseSource.file,
+      value: parsed.data.redistribution.thresholdKeV,
+      expected: `< energyGrid.maxKeV = ${instrument.energyGrid.maxKeV}`,
+    });
+  const wholeFits: LineFitTable = regionless(x.lineFits);
+  checkLineFits(wholeFits, parsed.data.redistribution as RedistributionSpec, instrument, detectorId);
+  const bandFits = x.lineFits.fits.filter((f) => f.region !== undefined);
+  checkBandFits(x.lineFits, det, detectorId);
+  const redistribution = resolveTransferLoss(parsed.data.redistribution as RedistributionSpec, det, bandFits, x, index);
+  if (release.productsPer !== 'detector' && !det.regions)
+    throw new KilnInputError(`detector ${detectorId} has no regions to build per-${release.productsPer} products for`, {
+      file: x.releaseSource.file,
+      line: x.releaseSource.locate?.(['productsPer'])?.line,
+      field: 'productsPer',
+      value: release.productsPer,
+      expected: `detector (or define regions for ${detectorId} in ${x.instrumentSource.file})`,
+    });
+  const regions = det.regions ? resolveRegions(det, merged, redistribution, x, index) : undefined;
 
   const wanted = rd.epochs ? new Set(rd.epochs) : null;
   const epochs: Epoch[] = release.epochs.filter((e) => !wanted || wanted.has(e.id));
@@ -148,10 +174,80 @@ export function resolveDetector(x: ResolveDetectorInput): ResolvedDetector {
     description: det.description,
     stack: stackFromInput(parsed.data.stack),
     redistribution,
-    lineFits: x.lineFits.fits,
+    lineFits: wholeFits.fits,
     lineFitsFile: x.lineFitsPath,
     epochs,
+    // Present only when defined, so detectors without regions fingerprint as before.
+    ...(bandFits.length ? { bandLineFits: bandFits } : {}),
+    ...(regions ? { regions } : {}),
   };
+}
+
+/** The table without the rows measured in a row band (those feed the transfer-loss fit). */
+function regionless(t: LineFitTable): LineFitTable {
+  const keep = t.fits.map((f) => f.region === undefined);
+  return { file: t.file, fits: t.fits.filter((_f, i) => keep[i]), lines: t.lines.filter((_l, i) => keep[i]) };
+}
+
+function checkBandFits(t: LineFitTable, det: DetectorDoc, detectorId: string): void {
+  t.fits.forEach((f, i) => {
+    if (f.region === undefined) return;
+    const bands = det.regions?.rowBands.map((b) => b.id) ?? [];
+    if (!bands.includes(f.region))
+      throw new KilnInputError(`line ${f.line} names an unknown row band`, {
+        file: t.file,
+        line: t.lines[i],
+        field: 'region',
+        value: f.region,
+        expected: bands.length ? `empty (whole detector) or a row band of ${detectorId}: ${bands.join(', ')}` : `empty: detector ${detectorId} defines no row bands`,
+      });
+  });
+}
+
+/** A fitted transfer-loss law replaces `source: line-fits` (the model document holds the numbers used). */
+function resolveTransferLoss(spec: RedistributionSpec, det: DetectorDoc, bandFits: LineFit[], x: ResolveDetectorInput, index: number): RedistributionSpec {
+  const t = spec.transferLoss;
+  if (!t) return spec;
+  if (!det.regions)
+    throw new KilnInputError(`detector ${det.id} has a transfer-loss law but no regions`, {
+      file: x.instrumentSource.file,
+      line: x.instrumentSource.locate?.(['detectors', index, 'redistribution', 'transferLoss'])?.line,
+      field: formatPath(['detectors', index, 'regions']),
+      expected: 'regions with transfers, nodes and rowBands (the law needs the transfer counts)',
+    });
+  if (t.source === 'law') return spec;
+  const bands = new Map(det.regions.rowBands.map((b) => [b.id, b]));
+  const fit = fitTransferLoss(
+    bandFits.map((f) => ({ fit: f, meanTransfers: meanTransfers(bands.get(f.region!)!) })),
+    { referenceKeV: t.referenceKeV, energyIndex: t.energyIndex, file: x.lineFits.file },
+  );
+  return { ...spec, transferLoss: { source: 'law', lossPerTransfer: fit.lossPerTransfer, energyIndex: fit.energyIndex, referenceKeV: fit.referenceKeV } };
+}
+
+/** Each node's model: the detector's with the node's read noise, gain error and offset merged in (release override rules). */
+function resolveRegions(det: DetectorDoc, mergedModel: unknown, spec: RedistributionSpec, x: ResolveDetectorInput, index: number): ResolvedRegions {
+  const g = det.regions!;
+  const nodes = g.nodes.map((n, k) => {
+    const fwhm = n.readNoiseE !== undefined ? { readNoiseE: n.readNoiseE } : undefined;
+    const centroid = n.gainError !== undefined || n.offsetEv !== undefined ? { gainError: n.gainError, offsetEv: n.offsetEv } : undefined;
+    const src = x.regionsSource ?? x.instrumentSource;
+    const prefix: FieldPath = x.regionsSource ? ['detectors', det.id, 'nodes', k] : ['detectors', index, 'regions', 'nodes', k];
+    const { merged } = mergeModel(mergedModel, { redistribution: JSON.parse(JSON.stringify({ fwhm, centroid })) }, src, prefix);
+    const parsed = detectorModelSchema.safeParse(merged);
+    if (!parsed.success) {
+      const iss = parsed.error.issues[0];
+      throw new KilnInputError(`node ${n.id} of detector ${det.id}: ${iss.message}`, {
+        file: src.file,
+        line: src.locate?.(prefix)?.line,
+        field: formatPath(prefix),
+        value: n.id,
+        expected: iss.code === 'unrecognized_keys' ? `no ${iss.keys.join(', ')} override: the detector's centroid comes from line fits` : 'overrides that keep the model valid',
+      });
+    }
+    const r = parsed.data.redistribution as RedistributionSpec;
+    return { id: n.id, name: n.name, redistribution: { ...r, transferLoss: spec.transferLoss } };
+  });
+  return { transfers: g.transfers, nodes, rowBands: g.rowBands.map((b) => ({ ...b })) };
 }
 
 /** The line-fit file a release names for a detector (relative to the release directory). */

@@ -21,6 +21,8 @@ import { isSemver } from './semver.ts';
 
 export const CONTENT_DIRS = { instruments: 'instruments', releases: 'releases', archive: 'archive' } as const;
 export const INSTRUMENT_FILE = 'instrument.yaml';
+/** Optional, beside instrument.yaml: readout nodes and row bands per detector (see regionsFileSchema). */
+export const REGIONS_FILE = 'regions.yaml';
 export const DEFAULT_MIRROR_AREA_FILE = 'mirror-area.csv';
 export const RELEASE_FILE = 'release.yaml';
 export const NOTES_FILE = 'notes.md';
@@ -202,6 +204,24 @@ const collectionSource = z.object({ source: z.literal('collection') }).strict();
 export const tailSchema = z.discriminatedUnion('source', [tailLaw, lineFitsSource, collectionSource]);
 export const shelfSchema = z.discriminatedUnion('source', [shelfLaw, lineFitsSource]);
 
+/**
+ * Charge lost in transfer (physics/transfer-loss.ts): f(E) = lossPerTransfer·(E/referenceKeV)^(−energyIndex),
+ * stated, or fitted to line fits measured in several row bands (`source: line-fits`; energyIndex
+ * fitted too unless given).
+ */
+/** A per-transfer loss beyond 1e-2 loses a third of the charge in 40 transfers: a units slip, not a detector. */
+const MAX_LOSS_PER_TRANSFER = 1e-2;
+/** |α| beyond 3 is not a packet-size dependence anyone has measured (common practice, no source). */
+const MAX_ABS_ENERGY_INDEX = 3;
+const energyIndexSchema = finite.gte(-MAX_ABS_ENERGY_INDEX).lte(MAX_ABS_ENERGY_INDEX);
+export const transferLossSchema = z.discriminatedUnion('source', [
+  z
+    .object({ source: z.literal('law'), lossPerTransfer: finite.gte(0).lt(MAX_LOSS_PER_TRANSFER), energyIndex: energyIndexSchema.default(0), referenceKeV: positive })
+    .strict(),
+  z.object({ source: z.literal('line-fits'), energyIndex: energyIndexSchema.optional(), referenceKeV: positive }).strict(),
+]);
+export type TransferLossInput = z.output<typeof transferLossSchema>;
+
 export const redistributionSchema = z
   .object({
     pairEnergyEv: positive,
@@ -214,6 +234,8 @@ export const redistributionSchema = z
     siFluorescenceFraction: fractionBelowOne.default(0),
     /** 'stack': the Si Kα share from the surface layers (generators/physics/stack-fluorescence.ts). */
     siFluorescenceSource: z.literal('stack').optional(),
+    /** Absent: no loss in transfer (every release before regions existed). */
+    transferLoss: transferLossSchema.optional(),
   })
   .strict();
 
@@ -249,6 +271,68 @@ export const detectorModelSchema = z
   .superRefine(checkDetectorModel);
 
 // ---------------------------------------------------------------------------------------------
+// Regions of a detector: readout nodes (named regions with their own noise and gain) and row
+// bands (ranges of transfer count: row r of a frame makes r parallel transfers to the register).
+
+/** A readout node: overrides of read noise, gain error and offset, merged as release overrides are. */
+export const nodeSchema = z
+  .object({
+    id: safeId,
+    name: text,
+    readNoiseE: nonNegative.optional(),
+    gainError: finite.gt(-MAX_ABS_GAIN_ERROR).lt(MAX_ABS_GAIN_ERROR).optional(),
+    offsetEv: finite.optional(),
+  })
+  .strict();
+export type NodeDoc = z.output<typeof nodeSchema>;
+
+const transferCount = z.number().int().gte(0);
+export const rowBandSchema = z.object({ id: safeId, firstTransfer: transferCount, lastTransfer: transferCount }).strict();
+
+/** Upper bound on rows (transfers) of a frame: catches a stray digit. */
+const MAX_TRANSFERS = 100000;
+
+export const regionsSchema = z
+  .object({
+    /** Rows of a frame = the largest transfer count + 1; rows are numbered 0 … transfers − 1 from the register. */
+    transfers: z.number().int().gte(1).lte(MAX_TRANSFERS),
+    nodes: z.array(nodeSchema).min(1),
+    rowBands: z.array(rowBandSchema).min(1),
+  })
+  .strict()
+  .superRefine((g, ctx) => {
+    const unique = (list: { id: string }[], what: string) => {
+      const seen = new Map<string, number>();
+      list.forEach((x, i) => {
+        if (seen.has(x.id)) issue(ctx, `${what} id "${x.id}" is used twice (also ${what}s[${seen.get(x.id)}])`, `unique ${what} ids`, [`${what}s`, i, 'id']);
+        seen.set(x.id, i);
+      });
+    };
+    unique(g.nodes, 'node');
+    unique(g.rowBands, 'rowBand');
+    g.rowBands.forEach((b, i) => {
+      if (!(b.lastTransfer >= b.firstTransfer)) issue(ctx, 'row band is reversed', `lastTransfer ≥ firstTransfer = ${b.firstTransfer}`, ['rowBands', i, 'lastTransfer']);
+      if (!(b.lastTransfer < g.transfers)) issue(ctx, 'row band leaves the detector', `lastTransfer ≤ transfers − 1 = ${g.transfers - 1}`, ['rowBands', i, 'lastTransfer']);
+      const prev = g.rowBands[i - 1];
+      if (prev && !(b.firstTransfer > prev.lastTransfer))
+        issue(ctx, `row band overlaps the previous one (${prev.id}, to ${prev.lastTransfer})`, `bands in row order without overlap: firstTransfer > ${prev.lastTransfer}`, ['rowBands', i, 'firstTransfer']);
+    });
+  });
+export type RegionsDoc = z.output<typeof regionsSchema>;
+
+/**
+ * regions.yaml: the regions of each detector, kept beside instrument.yaml so that an instrument
+ * whose releases are already published gains regions without touching the file those releases
+ * were sealed with. A detector's regions are given here or in instrument.yaml, not both.
+ */
+export const regionsFileSchema = z.object({ detectors: z.record(safeId, regionsSchema) }).strict();
+export type RegionsFileDoc = z.output<typeof regionsFileSchema>;
+
+/** Which products a release builds for each detector: one per detector, per node, or per node × row band. */
+export const PRODUCTS_PER = ['detector', 'node', 'node-row'] as const;
+export type ProductsPer = (typeof PRODUCTS_PER)[number];
+
+// ---------------------------------------------------------------------------------------------
 // Grids.
 
 export const channelGridSchema = z
@@ -265,17 +349,45 @@ export const channelGridSchema = z
   })
   .strict();
 
-export const energyGridSchema = z
+const energyGridFields = z
   .object({
     minKeV: finite.gte(TABLE_ENERGY_MIN_KEV),
     maxKeV: finite.lte(TABLE_ENERGY_MAX_KEV),
     bins: z.number().int().gte(1).lte(MAX_ENERGY_BINS),
     spacing: z.enum(['linear', 'log']),
   })
-  .strict()
+  .strict();
+export const energyGridSchema = energyGridFields
   .superRefine((g, ctx) => {
     if (!(g.maxKeV > g.minKeV)) issue(ctx, 'energy grid is not increasing', `maxKeV > minKeV = ${g.minKeV}`, ['maxKeV']);
   });
+
+// ---------------------------------------------------------------------------------------------
+// spectral.yaml beside instrument.yaml (optional): bands for rates, pile-up inputs, impact
+// tolerances of the reference sources. A file of its own, like regions.yaml, so that adding it
+// leaves the instrument file that published releases sealed byte for byte as it was.
+export const SPECTRAL_FILE = 'spectral.yaml';
+
+export const spectralSchema = z
+  .object({
+    bands: z.array(z.object({ name: safeId, loKeV: positive, hiKeV: positive }).strict().superRefine((b, ctx) => {
+      if (!(b.hiKeV > b.loKeV)) issue(ctx, 'band is empty or reversed', `> loKeV = ${b.loKeV}`, ['hiKeV']);
+    })).min(1),
+    pileup: z
+      .object({
+        frameTimeS: positive,
+        /** Fraction of a point source's image in its brightest event cell (e.g. 3×3 pixels). */
+        brightestCellFraction: finite.gt(0).lte(1),
+      })
+      .strict(),
+    /** Impact of a change of release beyond these is flagged for review. */
+    impact: z
+      .object({ shiftSigma: positive, rateRatio: positive.lt(1), reason: text })
+      .strict(),
+  })
+  .strict();
+
+export type SpectralDoc = z.output<typeof spectralSchema>;
 
 // ---------------------------------------------------------------------------------------------
 // instrument.yaml
@@ -289,6 +401,8 @@ export const detectorSchema = z
     description: text,
     stack: stackInputSchema,
     redistribution: redistributionSchema,
+    /** Absent: the detector is one region. */
+    regions: regionsSchema.optional(),
   })
   .strict()
   .superRefine(checkDetectorModel);
@@ -371,6 +485,15 @@ export const redistributionOverrideSchema = z
     escape: z.boolean().optional(),
     siFluorescenceFraction: fractionBelowOne.optional(),
     siFluorescenceSource: z.literal('stack').optional(),
+    transferLoss: z
+      .object({
+        source: sourceEnum.optional(),
+        lossPerTransfer: finite.gte(0).lt(MAX_LOSS_PER_TRANSFER).optional(),
+        energyIndex: energyIndexSchema.optional(),
+        referenceKeV: positive.optional(),
+      })
+      .strict()
+      .optional(),
   })
   .strict();
 
@@ -417,6 +540,35 @@ export const releaseChecksSchema = z
   })
   .strict();
 export type ReleaseChecksDoc = z.output<typeof releaseChecksSchema>;
+/**
+ * Instrument-level inputs a release restates (`overrides:` in release.yaml), so that a correction
+ * of anything — mirror table, grids, the base model of every detector — is a new release. Same
+ * merge rules as the per-detector `model`; the release's own `detectors.<id>.model` applies last.
+ */
+export const releaseOverridesSchema = z
+  .object({
+    /** Mirror table (`energy_keV,area_cm2`) relative to the release directory, replacing the instrument's. */
+    mirrorArea: relativeFile('.csv').optional(),
+    channels: channelGridSchema.partial().strict().optional(),
+    energyGrid: energyGridFields.partial().strict().optional(),
+    /** Applied to every detector of the release before its own override. */
+    model: modelOverrideSchema.optional(),
+  })
+  .strict();
+export type ReleaseOverrides = z.output<typeof releaseOverridesSchema>;
+
+/** A review item signed off: the check id and product it is about, why, and who (by role). */
+export const acceptedItemSchema = z
+  .object({
+    /** Check id as in the validation report, e.g. review.rmf.fwhm. */
+    check: text,
+    /** Product id as in the validation report (e.g. fi0-rmf), or null for a release-level check. */
+    product: text.nullable(),
+    reason: text,
+    role: text,
+  })
+  .strict();
+export type AcceptedItem = z.output<typeof acceptedItemSchema>;
 
 export const releaseSchema = z
   .object({
@@ -429,7 +581,12 @@ export const releaseSchema = z
     validFrom: isoDate,
     validTo: isoDate.nullable(),
     products: z.array(z.enum(PRODUCT_KINDS)).min(1).default(['rmf', 'arf']),
+    /** Products per detector (as before regions existed), per readout node, or per node × row band. */
+    productsPer: z.enum(PRODUCTS_PER).default('detector'),
     epochs: z.array(epochSchema).min(1),
+    overrides: releaseOverridesSchema.default({}),
+    /** Review items accepted for this release (shown as accepted; `kiln publish` requires all). */
+    accepted: z.array(acceptedItemSchema).default([]),
     detectors: z.record(safeId, releaseDetectorSchema),
     checks: releaseChecksSchema.optional(),
   })

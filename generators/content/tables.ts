@@ -27,6 +27,8 @@ export const LINE_FIT_COLUMNS: readonly CsvColumn[] = [
   { key: 'efficiencyErr', name: 'efficiency_err', unit: null, type: 'number', nullable: true },
   { key: 'tailScaleErrEv', name: 'tail_scale_err', unit: 'eV', type: 'number', nullable: true, optional: true },
   { key: 'shelfFractionErr', name: 'shelf_fraction_err', unit: null, type: 'number', nullable: true, optional: true },
+  /** Optional: the row band (of the detector's regions) the line was measured in; empty = the whole detector. */
+  { key: 'region', name: 'region', unit: null, type: 'text', nullable: true, optional: true },
 ];
 
 /** Header: energy_keV,area_cm2 */
@@ -78,8 +80,10 @@ export function parseLineFits(text: string, file: string): LineFitTable {
       if (!ok(v[key])) fail(file, row, key, C, message, expected);
     };
     const label = row.values.line as string;
-    if (seen.has(label)) fail(file, row, 'line', C, `line "${label}" is listed twice (also line ${seen.get(label)})`, 'one row per line label');
-    seen.set(label, row.line);
+    const region = typeof row.values.region === 'string' ? row.values.region : undefined;
+    const key = `${label}\u0000${region ?? ''}`;
+    if (seen.has(key)) fail(file, row, 'line', C, `line "${label}"${region ? ` in region ${region}` : ''} is listed twice (also line ${seen.get(key)})`, 'one row per line label and region');
+    seen.set(key, row.line);
     need('energyKeV', (x) => x > 0, '> 0 keV');
     need('centroidKeV', (x) => x > 0, '> 0 keV');
     need(
@@ -125,6 +129,8 @@ export function parseLineFits(text: string, file: string): LineFitTable {
       efficiency: eff,
       efficiencyErr: effErr,
       ...extra,
+      // Only present when given, so tables without regions fingerprint as before.
+      ...(region !== undefined ? { region } : {}),
     };
   });
   if (fits.length === 0) throw new KilnInputError('no line fits', { file, line: t.headerLine, expected: 'at least one row after the header' });

@@ -1,8 +1,9 @@
 /** The loaded content tree: documents as validated, plus each release's effective per-detector inputs. */
 import type { DetectorStack } from '../physics/types.ts';
 import type { LineFit, RedistributionSpec } from '../response/model-types.ts';
-import type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
+import type { Epoch, InstrumentDoc, ReleaseDoc, SpectralDoc } from './schema.ts';
 import type { MirrorArea } from './tables.ts';
+import type { SourceSpec } from './source-schema.ts';
 
 export type { Epoch, InstrumentDoc, ReleaseDoc } from './schema.ts';
 export type { LineFitTable, MirrorArea } from './tables.ts';
@@ -17,6 +18,10 @@ export interface Instrument extends InstrumentDoc {
   dir: string;
   file: string;
   mirror: MirrorArea;
+  /** Reference sources of sources/*.yaml (not part of any release's fingerprint). */
+  sources?: SourceSpec[];
+  /** spectral.yaml: bands, pile-up inputs and impact tolerances (not part of any release's fingerprint). */
+  spectral?: SpectralDoc;
 }
 
 export interface Release extends ReleaseDoc {
@@ -39,6 +44,17 @@ export interface ResolvedDetector {
   lineFitsFile: string;
   /** The epochs to build (the release's, or the subset listed for this detector), in time order. */
   epochs: Epoch[];
+  /** Line fits measured in row bands (the CSV's region column); they feed the transfer-loss fit. */
+  bandLineFits?: LineFit[];
+  regions?: ResolvedRegions;
+}
+
+/** A detector's readout nodes (each with its own resolved model) and row bands. */
+export interface ResolvedRegions {
+  /** Rows of a frame: transfer counts 0 … transfers − 1. */
+  transfers: number;
+  nodes: { id: string; name: string; redistribution: RedistributionSpec }[];
+  rowBands: { id: string; firstTransfer: number; lastTransfer: number }[];
 }
 
 /** A file the release was built from, for hashing (inputsSha256). */

@@ -6,7 +6,7 @@
  */
 import { closeSync, constants, fstatSync, fsyncSync, lstatSync, openSync, readSync, realpathSync, renameSync, unlinkSync, writeSync } from 'node:fs';
 import { basename, dirname, isAbsolute, join, relative } from 'node:path';
-import { KilnInputError } from '../errors.ts';
+import { inTermsOf, KilnInputError } from '../errors.ts';
 
 /** fsync of a directory, so that a rename in it survives a power cut (a no-op where unsupported). */
 export function fsyncDir(dir: string): void {
@@ -58,7 +58,8 @@ export function writeFileAtomic(path: string, bytes: Uint8Array | string, before
     } catch {
       /* never created, or already gone */
     }
-    throw e;
+    // Name the file the user asked for, not the temporary one (a write error carries no path).
+    throw inTermsOf(e, path, [tmp]);
   }
   fsyncDir(dirname(path));
 }

@@ -63,8 +63,25 @@ const common = {
   files: z.array(sealFile).min(1),
 };
 const sealV1Schema = z.object({ schema: z.literal(SEAL_V1), ...common }).strict();
+/** A review item accepted when publishing: release.yaml's `accepted` or `kiln publish --accept-all`. */
+const signOffItem = z
+  .object({
+    check: z.string().min(1),
+    product: z.string().min(1).nullable(),
+    reason: z.string().min(1),
+    role: z.string().min(1),
+    source: z.enum(['release.yaml', 'publish --accept-all']),
+  })
+  .strict();
 const sealV2Schema = z
-  .object({ schema: z.literal(SEAL_V2), ...common, status: z.enum(RELEASE_STATUSES), sealSha256: sha })
+  .object({
+    schema: z.literal(SEAL_V2),
+    ...common,
+    status: z.enum(RELEASE_STATUSES),
+    /** The review sign-off (absent in v2 seals written before sign-off existed); covered by sealSha256. */
+    signOff: z.array(signOffItem).optional(),
+    sealSha256: sha,
+  })
   .strict();
 const sealSchema = z.discriminatedUnion('schema', [sealV1Schema, sealV2Schema]);
 
@@ -72,6 +89,7 @@ export type SealV1 = z.infer<typeof sealV1Schema>;
 export type SealV2 = z.infer<typeof sealV2Schema>;
 export type Seal = SealV1 | SealV2;
 export type SealFile = Seal['files'][number];
+export type SignOffItem = z.infer<typeof signOffItem>;
 
 export function archiveDirOf(contentRoot: string, releaseId: string): string {
   return join(contentRoot, ARCHIVE_DIR, releaseId);

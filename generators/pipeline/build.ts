@@ -25,13 +25,18 @@ import type {
   ReexaminedCounts,
   ReleaseSummary,
   ValidationReport,
+  ReleaseSpectral,
 } from '../site-data/types.ts';
-import { countStatuses } from '../checks/index.ts';
+import { countStatuses, formatReleaseReport } from '../checks/index.ts';
+import { plural } from '../plural.ts';
+import { applySignOff, type AcceptAll } from './sign-off.ts';
 import { archiveDirOf, hasArchive, readSeal, verifyArchive, type Seal, type VerifiedArchive } from './archive.ts';
 import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from './atomic.ts';
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 import { crossReleaseChecks } from './cross-release.ts';
+import { impactChecks, releaseSpectral, type ReleaseProducts } from './impact.ts';
+import { pruneSpectralEntries, readSpectralEntry, spectralKey, writeSpectralEntry, SPECTRAL_DIR } from './spectral-cache.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
 import { finderDocuments, splitRelease } from '../site-data/split.ts';
@@ -44,6 +49,11 @@ import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../sit
 import { checksPath, REEXAMINED_FILE } from '../site-data/paths.ts';
 import { reexamineArchive } from './reexamine.ts';
 export { gzipProduct } from './job-output.ts';
+import { modelJobs } from './model-jobs.ts';
+export { modelJobs } from './model-jobs.ts';
+import { MODEL_FILE, MODEL_SCHEMA_FILE } from '../model/types.ts';
+import { MODEL_JSON_SCHEMA } from '../model/model-schema.ts';
+import type { DetectorJob } from './job.ts';
 /** Statuses whose products are frozen in the archive. */
 const FROZEN_STATUSES = new Set(['published', 'superseded']);
 
@@ -72,6 +82,10 @@ export interface BuildOptions {
   prebuilt?: (jobId: string, fingerprint: string) => JobOutput;
   /** Lines that must be seen even with --quiet (a cache entry rejected and rebuilt). */
   warn?: (line: string) => void;
+  /** Build releases up to and including this id only (`kiln report`). */
+  upTo?: string;
+  /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
+  acceptAll?: AcceptAll;
 }
 
 /**
@@ -88,6 +102,10 @@ export interface ReleaseOutcome {
   files: number;
   checks: ReturnType<typeof countStatuses>;
   failures: Check[];
+  /** Review items nobody accepted yet (publishing needs none). */
+  reviews: Check[];
+  /** Every check of the release, in the build's order. */
+  all: Check[];
 }
 
 export interface BuildSummary {
@@ -130,11 +148,19 @@ export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
-    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — put changes into a new release`,
+    expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — keep these inputs and restate the corrected ones in a new release (release.yaml overrides:, README "How to correct a published release")`,
   });
 }
 
+/** The release's model document in its output directory. */
+interface ModelRef {
+  path: string;
+  bytes: number;
+  sha256: string;
+}
+
 interface ReleaseWork {
+  model: ModelRef | null;
   r: ResolvedRelease;
   dir: string;
   outcome: ReleaseOutcome;
@@ -161,9 +187,10 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
   const c = w.outcome.checks;
   return {
     ...releaseHead(w.r.release),
-    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review },
+    checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review, accepted: c.accepted },
     products: w.products,
     ...(w.reexamined ? { reexamined: w.reexamined } : {}),
+    ...(w.model ? { model: w.model } : {}),
   };
 }
 
@@ -175,6 +202,8 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     sha256: p.sha256,
     kind: p.kind,
     detector: p.detector,
+    ...(p.node !== undefined ? { node: p.node } : {}),
+    ...(p.rowBand !== undefined ? { rowBand: p.rowBand } : {}),
     epoch: p.epoch,
     validFrom: p.validFrom,
     validTo: p.validTo,
@@ -223,7 +252,7 @@ function serveArchive(
   r: ResolvedRelease,
   archive: VerifiedArchive,
   dir: string,
-): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown> } {
+): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown>; model: ModelRef | null } {
   const { bytes, site, report } = archive;
   mkdirSync(join(dir, 'files'), { recursive: true });
   for (const [path, b] of bytes) if (path.startsWith('files/')) writeFileSync(join(dir, path), b);
@@ -232,8 +261,16 @@ function serveArchive(
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
   writeSiteDocuments(dir, splitRelease(current, report.checks));
   writeJson(join(dir, 'validation.json'), report);
+  // Archives sealed since model documents exist carry theirs; older ones have none.
+  const modelBytes = bytes.get(MODEL_FILE);
+  let model: ModelRef | null = null;
+  if (modelBytes) {
+    writeFileSync(join(dir, MODEL_FILE), modelBytes);
+    writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+    model = { path: MODEL_FILE, bytes: modelBytes.length, sha256: sha256Hex(modelBytes) };
+  }
   const manifest = archive.manifest;
-  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters } };
+  return { products: site.products, checks: report.checks, site, parameters: manifest ? manifest.parameters : { rows: site.parameters }, model };
 }
 
 /** What a release keeps of one job once its output is on disk: summaries only. */
@@ -255,7 +292,7 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
     const path = `files/${f.name}`;
     writeFileSync(join(dir, path), out.gz[i]);
     return {
-      id: f.id, kind: f.kind, detector: f.detector, epoch: f.epoch, path, bytes: f.bytes, sha256: f.sha256, validFrom: f.validFrom, validTo: f.validTo,
+      id: f.id, kind: f.kind, detector: f.detector, ...(f.node !== undefined ? { node: f.node } : {}), ...(f.rowBand !== undefined ? { rowBand: f.rowBand } : {}), epoch: f.epoch, path, bytes: f.bytes, sha256: f.sha256, validFrom: f.validFrom, validTo: f.validTo,
       ...(f.validEnergyKeV ? { validEnergyKeV: f.validEnergyKeV } : {}),
       ...(f.validChannels ? { validChannels: f.validChannels } : {}),
     };
@@ -264,6 +301,24 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
   const checksDoc = checksPath(m.site.id);
   writeSiteDocuments(dir, documents.filter((d) => d.path !== checksDoc));
   return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry };
+}
+
+/** A release's spectral section, from the cache when its key (sources, product hashes, generator) is unchanged. */
+function cachedSpectral(ctx: JobContext, root: string | null, used: Set<string>, ins: ResolvedRelease['instrument'], newer: ReleaseProducts, older: ReleaseProducts | null): ReleaseSpectral | null {
+  if (!ins.spectral) return null;
+  const key = spectralKey(ins, newer, older, ctx.generator);
+  used.add(key);
+  if (root && !ctx.noCache) {
+    const e = readSpectralEntry(root, key);
+    if (e.ok) {
+      ctx.log(`release ${newer.id}: spectral predictions and impact from cache`);
+      return e.doc;
+    }
+    if (!e.missing) ctx.warn(`cache entry of the spectral section of release ${newer.id} (${key.slice(0, 12)}) rejected: ${e.reason}; recomputing it`);
+  }
+  const doc = releaseSpectral(ins, newer, older, ctx.log);
+  if (doc && root) writeSpectralEntry(root, key, doc);
+  return doc;
 }
 
 /**
@@ -309,10 +364,11 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
   const content = await loadContent(opts.contentDir);
-  if (opts.publishing !== undefined) {
-    const at = content.releases.findIndex((r) => r.release.id === opts.publishing);
+  const last = opts.publishing ?? opts.upTo;
+  if (last !== undefined) {
+    const at = content.releases.findIndex((r) => r.release.id === last);
     if (at < 0)
-      throw new KilnInputError('no such release', { file: opts.contentDir, value: opts.publishing, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
+      throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
     content.releases.splice(at + 1);
   }
   const { archives, isFrozen } = verifyFrozenReleases(content, opts.publishing);
@@ -334,6 +390,8 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
     used: new Set(),
     counts: { built: 0, cached: 0, gathered: 0 },
   };
+  const spectralRoot = cacheDir === null ? null : join(cacheDir, SPECTRAL_DIR);
+  const spectralUsed = new Set<string>();
   try {
     for (const r of content.releases) {
       const rel = r.release;
@@ -345,23 +403,43 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       let checks: Check[];
       let parameters: Record<string, unknown> = {};
       let reexamined: ReexaminedCounts | undefined;
+      let modelRef: ModelRef | null = null;
+      // Predicted rates of the reference sources and the impact of the change from the superseded release.
+      const older = works.find((w) => w.r.release.id === rel.supersedes) ?? null;
+      const spectralOf = (ps: ProductSummary[]) => {
+        const newerP = { id: rel.id, dir, products: ps };
+        const olderP = older ? { id: older.r.release.id, dir: older.dir, products: older.products } : null;
+        const s = cachedSpectral(ctx, spectralRoot, spectralUsed, r.instrument, newerP, olderP);
+        if (s) writeJson(join(dir, 'spectral.json'), s);
+        return s;
+      };
       if (frozen) {
         const served = serveArchive(r, archives.get(rel.id)!, dir);
         ({ products, checks } = served);
         parameters = served.parameters;
+        modelRef = served.model;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
         // Today's checks on the archived bytes, read-only: shown beside the published report.
         const re = reexamineArchive(r, archives.get(rel.id)!, ctx.generator);
         writeJson(join(dir, REEXAMINED_FILE), re);
         reexamined = re.counts;
         log(`release ${rel.id} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
+        // A frozen release's validation report stays as archived; its impact is in spectral.json only.
+        spectralOf(products);
       } else {
-        const slots = await runReleaseJobs(r, dir, pool, ctx);
+        const { jobs, model } = modelJobs(r);
+        writeFileSync(join(dir, MODEL_FILE), model.text);
+        writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
+        modelRef = { path: MODEL_FILE, bytes: model.bytes, sha256: model.sha256 };
+        const slots = await runReleaseJobs(r, jobs, dir, pool, ctx);
         products = slots.flatMap((x) => x.products);
         checks = slots.flatMap((x) => x.checks);
         nnz += slots.reduce((s, x) => s + x.nnz, 0);
         const prev = works.length ? works[works.length - 1] : null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
+        const spectral = spectralOf(products);
+        if (spectral) checks.push(...impactChecks(spectral, products));
+        checks = applySignOff(checks, rel.accepted, rel.id === opts.publishing ? (opts.acceptAll ?? null) : null);
         parameters = Object.fromEntries(slots.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
         // Checks go to their detector's document once the cross-release review has added its own.
         const byDet = checksByDetector(checks, products);
@@ -382,12 +460,22 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         r,
         dir,
         products,
-        outcome: { id: rel.id, status: rel.status, source: frozen ? 'archive' : 'built', files: products.length, checks: counts, failures: checks.filter((c) => c.status === 'fail') },
+        model: modelRef,
         reexamined,
+        outcome: {
+          id: rel.id,
+          status: rel.status,
+          source: frozen ? 'archive' : 'built',
+          files: products.length,
+          checks: counts,
+          failures: checks.filter((c) => c.status === 'fail'),
+          reviews: checks.filter((c) => c.status === 'review'),
+          all: checks,
+        },
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
       works.push(work);
-      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review`);
+      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`);
     }
   } catch (e) {
     await pool.close();
@@ -399,8 +487,8 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const refused = works.filter((w) => w.outcome.failures.length > 0 && w.r.release.status !== 'draft' && w.outcome.source === 'built');
   if (refused.length) {
     removeStaleStaging(opts.outDir);
-    const lines = refused.map((w) => `release ${w.outcome.id} (${w.outcome.status}) fails ${w.outcome.failures.length} checks: ${w.outcome.failures.slice(0, 8).map((c) => `${c.id}${c.product ? ` [${c.product}]` : ''}`).join(', ')}${w.outcome.failures.length > 8 ? ', …' : ''}`);
-    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown)`, works.map((w) => w.outcome));
+    const lines = refused.map((w) => formatReleaseReport(`release ${w.outcome.id} (${w.outcome.status}) fails ${plural(w.outcome.failures.length, 'check')}:`, w.outcome.all, { only: ['fail'] }));
+    throw new BuildRefused(`${lines.join('\n')}\na candidate release must pass every check (set status: draft to build it with its failures shown; kiln report ID lists every check)`, works.map((w) => w.outcome));
   }
 
   const index: ReleaseIndex = {
@@ -414,6 +502,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   swapInto(staging, opts.outDir, 'build:swap');
   // The cache keeps the jobs of the last successful build: bounded, and safe to delete.
   if (ctx.cacheRoot) pruneJobEntries(ctx.cacheRoot, ctx.used);
+  if (spectralRoot) pruneSpectralEntries(spectralRoot, spectralUsed);
   return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
 }
 
@@ -434,9 +523,9 @@ interface JobContext {
  * its verified entry is there, else run on the pool (and cached). Every output is written to disk
  * as it arrives and only its summary kept, in job order.
  */
-async function runReleaseJobs(r: ResolvedRelease, dir: string, pool: JobPool, ctx: JobContext): Promise<JobSlot[]> {
+async function runReleaseJobs(r: ResolvedRelease, jobs: DetectorJob[], dir: string, pool: JobPool, ctx: JobContext): Promise<JobSlot[]> {
   const rel = r.release;
-  const tasks = jobsOf(r).map((job) => ({ job, fingerprint: jobFingerprint(job, ctx.generator), generator: ctx.generator }));
+  const tasks = jobs.map((job) => ({ job, fingerprint: jobFingerprint(job, ctx.generator), generator: ctx.generator }));
   const slots: JobSlot[] = new Array(tasks.length);
   const t0 = performance.now();
   let done = 0;

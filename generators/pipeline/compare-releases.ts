@@ -37,7 +37,9 @@ export function compareReleases(outDir: string, idA: string, idB: string): Compa
     if (pb.kind === 'rmf') {
       const a = readRmf(readFitsFile(join(dir(idA), pa.path))).data;
       const b = readRmf(readFitsFile(join(dir(idB), pb.path))).data;
-      pairs.push({ label, detector: pb.detector, a: `${idA}:${pa.id}`, b: `${idB}:${pb.id}`, kind: 'rmf', rmf: rmfDiffTable(a, b), checks: compareRmf(a, b, pb.id) });
+      const rmf = rmfDiffTable(a, b);
+      // The verdicts are judged at the energies of the table they are printed under.
+      pairs.push({ label, detector: pb.detector, a: `${idA}:${pa.id}`, b: `${idB}:${pb.id}`, kind: 'rmf', rmf, checks: compareRmf(a, b, pb.id, { energiesKeV: rmf.map((x) => x.energyKeV) }) });
     } else {
       const a = readArf(readFitsFile(join(dir(idA), pa.path))).data;
       const b = readArf(readFitsFile(join(dir(idB), pb.path))).data;
@@ -66,7 +68,8 @@ export function compareFiles(fileA: string, fileB: string): CompareReport {
   if (ka === 'rmf') {
     const ra = readRmf(fa).data;
     const rb = readRmf(fb).data;
-    pair = { label: 'RMF', detector: null, a, b, kind: 'rmf', rmf: rmfDiffTable(ra, rb), checks: compareRmf(ra, rb, b) };
+    const rmf = rmfDiffTable(ra, rb);
+    pair = { label: 'RMF', detector: null, a, b, kind: 'rmf', rmf, checks: compareRmf(ra, rb, b, { energiesKeV: rmf.map((x) => x.energyKeV) }) };
   } else {
     const ra = readArf(fa).data;
     const rb = readArf(fb).data;

@@ -32,5 +32,5 @@ export function crossReleaseChecks(olderDir: string, older: ProductSummary[], ol
       if (o) checks.push(...compareArf(arfAt(olderDir, o), arfAt(newerDir, p), p.id, { label: `${label} (${o.epoch} → ${p.epoch})` }));
     }
   }
-  return checks.map((c) => tidyCheck({ ...c, id: c.id.startsWith('compare.') ? `review.${c.id.slice('compare.'.length)}` : c.id }));
+  return checks.map(tidyCheck);
 }

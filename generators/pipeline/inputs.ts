@@ -17,7 +17,15 @@ export const INPUTS_SCHEMA = 'kiln/inputs/1';
 export function jobsOf(r: ResolvedRelease): DetectorJob[] {
   const { release, instrument } = r;
   return r.detectors.map((detector) => ({
-    release: { id: release.id, date: release.date, validFrom: release.validFrom, validTo: release.validTo, products: [...release.products] },
+    release: {
+      id: release.id,
+      date: release.date,
+      validFrom: release.validFrom,
+      validTo: release.validTo,
+      products: [...release.products],
+      // Present only when not per detector, so releases from before regions fingerprint as before.
+      ...(release.productsPer !== 'detector' ? { productsPer: release.productsPer } : {}),
+    },
     instrument: {
       id: instrument.id,
       telescope: instrument.telescope,
@@ -38,9 +46,16 @@ function fingerprintView(r: ResolvedRelease): unknown {
     jobs: jobsOf(r).map((j) => ({
       release: j.release,
       instrument: { ...j.instrument, mirror: { energyKeV: j.instrument.mirror.energyKeV, areaCm2: j.instrument.mirror.areaCm2 } },
-      detector: { ...j.detector, lineFitsFile: undefined },
+      // Regions change products only when the release builds per region or a transfer loss needs
+      // their transfer counts: a release from before regions keeps its fingerprint when the
+      // instrument gains them.
+      detector: { ...j.detector, lineFitsFile: undefined, regions: usesRegions(j) ? j.detector.regions : undefined },
     })),
   };
+}
+
+function usesRegions(j: DetectorJob): boolean {
+  return (j.release.productsPer ?? 'detector') !== 'detector' || j.detector.redistribution.transferLoss !== undefined;
 }
 
 export function inputsSha256(r: ResolvedRelease): string {

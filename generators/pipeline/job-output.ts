@@ -25,6 +25,9 @@ export interface JobFile {
   kind: ProductKind;
   detector: string;
   epoch: string;
+  /** Readout node and row band of a per-region product (absent: the whole detector). */
+  node?: string;
+  rowBand?: string;
   /** File name in the release's files/ directory (gzipped). */
   name: string;
   validFrom: string;
@@ -61,10 +64,14 @@ export const jobIdOf = (job: DetectorJob): string => `${job.release.id}/${job.de
 /**
  * A job's input fingerprint: everything it is made from (release fields, instrument grids and
  * mirror table, the resolved detector model with its line fits and epochs) and the generator's
- * version. File paths are included: error and check messages may name them.
+ * version. File paths are included: error and check messages may name them. A job read from a
+ * model document carries the document's SHA-256 (written into every product's HISTORY), so a
+ * change to any detector of that release changes every job of the release; the document itself
+ * is left out, its SHA-256 stands for it.
  */
 export function jobFingerprint(job: DetectorJob, generator: string): string {
-  return sha256Hex(canonicalJson({ schema: JOB_SCHEMA, generator, job }));
+  const { rebuildFrom: _doc, ...rest } = job;
+  return sha256Hex(canonicalJson({ schema: JOB_SCHEMA, generator, job: rest }));
 }
 
 export function produceJobOutput(job: DetectorJob, fingerprint: string, generator: string): JobOutput {
@@ -74,6 +81,8 @@ export function produceJobOutput(job: DetectorJob, fingerprint: string, generato
     id: f.id,
     kind: f.kind,
     detector: f.detector,
+    ...(f.node !== undefined ? { node: f.node } : {}),
+    ...(f.rowBand !== undefined ? { rowBand: f.rowBand } : {}),
     epoch: f.epoch,
     name: f.name,
     validFrom: f.validFrom,

@@ -15,6 +15,7 @@ export const PHASES = [
   'publish:built', // the release is built in a temporary directory
   'publish:staged', // the archive is complete in its staging directory in content/archive
   'publish:archived', // the archive is in place, release.yaml not yet changed
+  'publish:supersede-temp', // the superseded release's new release.yaml is beside the old one, not yet renamed
   'publish:status-temp', // the new release.yaml is written beside the old one, not yet renamed
 ] as const;
 export type Phase = (typeof PHASES)[number];

@@ -17,7 +17,7 @@ import { readRegularFile } from '../node/files.ts';
 import { verifyFrozenReleases } from './build.ts';
 import { generatorVersion } from './generator-version.ts';
 import { canonicalJson, sha256Hex } from './hash.ts';
-import { jobsOf } from './inputs.ts';
+import { modelJobs } from './model-jobs.ts';
 import { jobFingerprint, jobIdOf } from './job-output.ts';
 import type { JobTask } from './pool.ts';
 
@@ -60,7 +60,7 @@ export const planDigest = (generator: string, jobs: PlannedJob[]): string =>
 export function planOf(content: ContentTree): { plan: BuildPlan; tasks: JobTask[] } {
   const { isFrozen } = verifyFrozenReleases(content);
   const generator = generatorVersion();
-  const tasks: JobTask[] = content.releases.filter((r) => !isFrozen(r)).flatMap((r) => jobsOf(r).map((job) => ({ job, fingerprint: jobFingerprint(job, generator), generator })));
+  const tasks: JobTask[] = content.releases.filter((r) => !isFrozen(r)).flatMap((r) => modelJobs(r).jobs.map((job) => ({ job, fingerprint: jobFingerprint(job, generator), generator })));
   const jobs = tasks.map((t) => ({ id: jobIdOf(t.job), release: t.job.release.id, detector: t.job.detector.id, fingerprint: t.fingerprint }));
   return { plan: { schema: PLAN_SCHEMA, generator, planSha256: planDigest(generator, jobs), content: content.root, jobs }, tasks };
 }

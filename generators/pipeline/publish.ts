@@ -11,7 +11,7 @@
  *   status-temp        release.yaml is the old or the new file (atomic rename), never partial.
  * One publish at a time per content tree (a lock beside content/archive).
  */
-import { mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { tmpdir } from 'node:os';
 import { loadContent } from '../content/index.ts';
@@ -21,10 +21,14 @@ import { inTermsOf, KilnInputError } from '../errors.ts';
 import { ARCHIVE_DIR, archiveDirOf, hasArchive, SEAL_FILE, SEAL_V2, sealHash, type SealV2 } from './archive.ts';
 import { fsyncDir, writeFileSynced } from '../node/files.ts';
 import { removeStale, removeStaleTemps, writeContentFile } from './atomic.ts';
-import { build, verifyFrozen, type BuildOptions } from './build.ts';
+import { build, BuildRefused, verifyFrozen, type BuildOptions } from './build.ts';
+import { formatReleaseReport } from '../checks/index.ts';
+import { plural } from '../plural.ts';
+import { signOffOf, type AcceptAll } from './sign-off.ts';
 import { sha256Hex } from './hash.ts';
 import { inputFileHashes, inputsSha256 } from './inputs.ts';
 import { readReleaseSite } from './site-files.ts';
+import { MODEL_FILE } from '../model/types.ts';
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 
@@ -35,7 +39,22 @@ export interface PublishResult {
   statusChanged: boolean;
   /** The archive was already complete: this run only finished an interrupted publish. */
   resumed: boolean;
+  /** The published release this one superseded (its status now superseded), if any. */
+  superseded: string | null;
+  /** Review items recorded as accepted in the seal. */
+  accepted: number;
 }
+
+export interface PublishOptions {
+  contentDir: string;
+  id: string;
+  log?: BuildOptions['log'];
+  /** Accept every review item release.yaml does not accept, with this reason and role. */
+  acceptAll?: AcceptAll;
+}
+
+/** Publishing refused because review items are open (nothing archived). */
+export class ReviewOpen extends BuildRefused {}
 
 /** Prefix of the temporary build folders of publish in the system temp directory. */
 const TEMP_PREFIX = 'kiln-publish-';
@@ -58,6 +77,19 @@ function markPublished(root: string, r: ResolvedRelease): void {
   writeContentFile(root, file, next, 'publish:status-temp');
 }
 
+/**
+ * The published release `r` supersedes stops being recommended: its release.yaml status becomes
+ * superseded (atomic write; its archive is never touched). Returns its id when it changed.
+ */
+function markSuperseded(root: string, releases: ResolvedRelease[], r: ResolvedRelease): string | null {
+  const old = r.release.supersedes ? releases.find((x) => x.release.id === r.release.supersedes) : undefined;
+  if (!old || old.release.status !== 'published') return null;
+  const next = withStatus(readFileSync(old.release.file, 'utf8'), 'superseded');
+  if (next === null) throw noStatusLine(old);
+  writeContentFile(root, old.release.file, next, 'publish:supersede-temp');
+  return old.release.id;
+}
+
 function noStatusLine(r: ResolvedRelease): KilnInputError {
   return new KilnInputError('release.yaml has no plain `status:` line that kiln publish can change', {
     file: r.release.file,
@@ -66,7 +98,7 @@ function noStatusLine(r: ResolvedRelease): KilnInputError {
   });
 }
 
-export async function publish(opts: { contentDir: string; id: string; log?: BuildOptions['log'] }): Promise<PublishResult> {
+export async function publish(opts: PublishOptions): Promise<PublishResult> {
   const contentDir = resolve(opts.contentDir);
   const archiveRoot = join(contentDir, ARCHIVE_DIR);
   mkdirSync(archiveRoot, { recursive: true });
@@ -78,7 +110,7 @@ export async function publish(opts: { contentDir: string; id: string; log?: Buil
   }
 }
 
-async function publishLocked(contentDir: string, opts: { id: string; log?: BuildOptions['log'] }): Promise<PublishResult> {
+async function publishLocked(contentDir: string, opts: PublishOptions): Promise<PublishResult> {
   // Litter of killed publishes: staging copies in the archive, temp build folders, release.yaml temps.
   removeStale(join(contentDir, ARCHIVE_DIR), `.${opts.id}.staging-`, (p) => rmSync(p, { recursive: true, force: true }));
   removeStale(tmpdir(), TEMP_PREFIX, (p) => rmSync(p, { recursive: true, force: true }));
@@ -94,9 +126,10 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
     // except candidate over a published archive: the one state an interrupted publish leaves.
     if (status === 'candidate') {
       verifyFrozen(contentDir, { ...r, release: { ...r.release, status: 'published' } });
+      const superseded = markSuperseded(contentDir, content.releases, r);
       markPublished(contentDir, r);
       opts.log?.(`release ${opts.id}: archive complete and verified; finished the interrupted publish`);
-      return { release: opts.id, archiveDir, files: readdirSync(join(archiveDir, 'files')).length, statusChanged: true, resumed: true };
+      return { release: opts.id, archiveDir, files: readdirSync(join(archiveDir, 'files')).length, statusChanged: true, resumed: true, superseded, accepted: 0 };
     }
     verifyFrozen(contentDir, r);
     throw new KilnInputError(`release ${opts.id} is already published; a published release is never rewritten`, {
@@ -113,7 +146,14 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
   try {
     const out = join(tmp, 'out');
     // Refuses (BuildRefused) when the release fails a check.
-    await build({ contentDir, outDir: out, publishing: opts.id, log: opts.log });
+    const summary = await build({ contentDir, outDir: out, publishing: opts.id, log: opts.log, acceptAll: opts.acceptAll });
+    const outcome = summary.releases.find((x) => x.id === opts.id)!;
+    if (outcome.reviews.length)
+      throw new ReviewOpen(
+        `${formatReleaseReport(`release ${opts.id} has ${plural(outcome.reviews.length, 'review item')} nobody accepted:`, outcome.all, { only: ['review'] })}\n` +
+          'accept each in release.yaml (accepted: - { check, product, reason, role }) or publish with --accept-all --reason TEXT',
+        summary.releases,
+      );
     reached('publish:built');
     const built = join(out, 'releases', opts.id);
     rmSync(staged, { recursive: true, force: true });
@@ -121,6 +161,8 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
     for (const name of readdirSync(join(built, 'files')).sort()) writeFileSynced(join(staged, 'files', name), readFileSync(join(built, 'files', name)));
     fsyncDir(join(staged, 'files'));
     writeFileSynced(join(staged, 'validation.json'), readFileSync(join(built, 'validation.json')));
+    // The model document is sealed with the products (its schema is the code's, written beside it on serving).
+    if (existsSync(join(built, MODEL_FILE))) writeFileSynced(join(staged, MODEL_FILE), readFileSync(join(built, MODEL_FILE)));
     // The archive records the release as it is from now on: published.
     // The build writes the site data split per detector; the archive keeps the whole release.
     const docs: Record<string, { status: string }> = {
@@ -140,6 +182,7 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
       inputsSha256: inputsSha256(r),
       inputFiles: inputFileHashes(r),
       files,
+      signOff: signOffOf(outcome.all),
     };
     const seal: SealV2 = { ...unsigned, sealSha256: sealHash(unsigned) };
     writeFileSynced(join(staged, SEAL_FILE), JSON.stringify(seal, null, 2) + '\n');
@@ -148,8 +191,10 @@ async function publishLocked(contentDir: string, opts: { id: string; log?: Build
     renameSync(staged, archiveDir);
     fsyncDir(join(contentDir, ARCHIVE_DIR));
     reached('publish:archived');
+    // The old release first: a publish cut off in between resumes (candidate over its archive).
+    const superseded = markSuperseded(contentDir, content.releases, r);
     if (status === 'candidate') markPublished(contentDir, r);
-    return { release: opts.id, archiveDir, files: files.length, statusChanged: status === 'candidate', resumed: false };
+    return { release: opts.id, archiveDir, files: files.length, statusChanged: status === 'candidate', resumed: false, superseded, accepted: unsigned.signOff?.length ?? 0 };
   } finally {
     rmSync(staged, { recursive: true, force: true });
     rmSync(tmp, { recursive: true, force: true });

@@ -5,6 +5,7 @@ import type { BuiltFile, DetectorJob } from './job.ts';
 import { buildDetectorProducts } from './product.ts';
 import { detectorSite } from './site-detector.ts';
 import { validateDetector } from './validate.ts';
+import { rebuildChecks } from '../model/rebuild.ts';
 
 export interface DetectorJobResult {
   releaseId: string;
@@ -20,6 +21,7 @@ export interface DetectorJobResult {
 export function runDetectorJob(job: DetectorJob): DetectorJobResult {
   const built = buildDetectorProducts(job);
   const checks = validateDetector(job, built);
+  if (job.rebuildFrom && job.modelSha256) checks.push(...rebuildChecks(job.rebuildFrom, job.modelSha256, job.detector.id, built.files));
   const { site, parameters, fits } = detectorSite(job, built);
   return {
     releaseId: job.release.id,

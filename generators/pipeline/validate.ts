@@ -152,7 +152,8 @@ function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: 
 
 function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[] {
   const rmf = built.redistribution.rmf;
-  const rmfId = built.files.find((f) => f.kind === 'rmf')?.id ?? `${job.detector.id}-rmf`;
+  // Accounting and closure are of the whole detector's matrix: per-region releases do not ship it, so name it by the detector.
+  const rmfId = built.files.find((f) => f.kind === 'rmf' && f.node === undefined && f.rowBand === undefined)?.id ?? `${job.detector.id}-rmf`;
   return [...fileChecks(built.files, rmf), ...accountingChecks(built, rmfId), ...modelChecks(job, rmf, rmfId, built.validRange)];
 }
 

@@ -28,6 +28,8 @@ export interface LineFit {
   /** Optional 1σ errors of the tail scale and the shelf fraction (absent: not judged by closure). */
   tailScaleErrEv?: number | null;
   shelfFractionErr?: number | null;
+  /** Row band the line was measured in (absent: the whole detector). */
+  region?: string;
 }
 
 /** FWHM law: σ² = (w·N_r)²·n_pix(E) + F·w·E + σ₀², n_pix(E) = a + b·E. */
@@ -96,7 +98,14 @@ export interface RedistributionSpec {
    * Absent: the constant fraction above the Si K edge.
    */
   siFluorescenceSource?: 'stack';
+  /** Charge lost in transfer; absent = none. Resolved models (the model document) always hold the law. */
+  transferLoss?: TransferLossSpec;
 }
+
+/** f(E) = lossPerTransfer·(E/referenceKeV)^(−energyIndex) per transfer (physics/transfer-loss.ts). */
+export type TransferLossSpec =
+  | { source: 'law'; lossPerTransfer: number; energyIndex: number; referenceKeV: number }
+  | { source: 'line-fits'; energyIndex?: number; referenceKeV: number };
 
 /** The channel grid: PI channels of equal width in energy. */
 export interface ChannelGrid {

@@ -21,6 +21,7 @@ import { channelBoundsKeV, checkEnergyBins, energyGrid, type EnergyBins } from '
 import { eboundsFromChannels } from './ebounds.ts';
 import { compressRow, cutForBudget, DEFAULT_DROP_BUDGET } from './compress.ts';
 import { KilnInputError } from '../errors.ts';
+import { lostFraction, lossPerTransferAt, meanTransfers, transferVarianceKeV2, type TransferBand, type TransferLossLaw } from '../physics/transfer-loss.ts';
 
 /** Sub-sample an energy bin when the centroid moves by more than this many σ across it. */
 export const SUBSAMPLE_SIGMAS = 0.25;
@@ -46,7 +47,14 @@ export interface RedistributionInput {
   /** Per-row dropped-probability budget used for the default cut (1e-5). */
   dropBudget?: number;
   file?: string;
+  /** Charge lost in transfer over a band of transfer counts (physics/transfer-loss.ts); absent = none. */
+  transferLoss?: { law: TransferLossLaw; band: TransferBand } | null;
+  /** Called after every PROGRESS_ROWS rows and at the end with (rows done, rows): progress for a page. */
+  onProgress?: (done: number, total: number) => void;
 }
+
+/** Rows between progress reports. */
+const PROGRESS_ROWS = 32;
 
 /** Per-row accounting of probability not in the stored row. */
 export interface RowLosses {
@@ -135,18 +143,48 @@ function nodesFor(loKeV: number, hiKeV: number, paramsAt: ParamsAt): { e: Float6
   return { e, w };
 }
 
+/**
+ * The profile after transfer: the centroid moves down by the charge lost at the band's mean
+ * transfer count, and the loss's variance adds to σ² (formulas and sources in physics/transfer-loss.ts).
+ */
+export function withTransferLoss(paramsAt: ParamsAt, t: { law: TransferLossLaw; band: TransferBand } | null, pairEnergyEv: number): ParamsAt {
+  if (!t || t.law.lossPerTransfer === 0) return paramsAt;
+  const n = meanTransfers(t.band);
+  const moved = (e: number, centroidKeV: number, sigmaKeV: number) => {
+    const kept = 1 - lostFraction(lossPerTransferAt(t.law, e), n);
+    const variance = transferVarianceKeV2(t.law, e, centroidKeV, t.band, pairEnergyEv);
+    return { centroidKeV: centroidKeV * kept, sigmaKeV: Math.sqrt(sigmaKeV * sigmaKeV + variance) };
+  };
+  const wrapped: ParamsAt = (e) => {
+    const p = paramsAt(e);
+    return { ...p, ...moved(e, p.centroidKeV, p.sigmaKeV) };
+  };
+  // The escape event's charge (about E − Kα, with the parent's surface loss) is transferred too.
+  const escapeAt = paramsAt.escapeAt;
+  if (escapeAt)
+    wrapped.escapeAt = (e) => {
+      const q = escapeAt(e);
+      return moved(q.centroidKeV, q.centroidKeV, q.sigmaKeV);
+    };
+  return wrapped;
+}
+
 /** Builds the matrix and its loss report. Throws KilnInputError on bad grids or parameters. */
 export function buildRedistribution(input: RedistributionInput): RedistributionResult {
   const { spec, channels, silicon, file } = input;
   const bins = 'loKeV' in input.energy ? checkEnergyBins(input.energy, 'energyBins', file) : energyGrid(input.energy, 'energyGrid', file);
   const bounds = channelBoundsKeV(channels, 'channels', file);
   const stack = input.stack;
-  const paramsAt = buildParamsAt(spec, input.lineFits, {
-    silicon,
-    file,
-    sensor: stack?.sensor,
-    fluorescenceShare: spec.siFluorescenceSource === 'stack' && stack ? fluorescenceShareFn(stack, efficiencyOptionsFor(spec)) : undefined,
-  });
+  const paramsAt = withTransferLoss(
+    buildParamsAt(spec, input.lineFits, {
+      silicon,
+      file,
+      sensor: stack?.sensor,
+      fluorescenceShare: spec.siFluorescenceSource === 'stack' && stack ? fluorescenceShareFn(stack, efficiencyOptionsFor(spec)) : undefined,
+    }),
+    input.transferLoss ?? null,
+    spec.pairEnergyEv,
+  );
   const n = channels.count;
   const budget = input.dropBudget ?? DEFAULT_DROP_BUDGET;
   const cut = input.cut ?? cutForBudget(n, budget);
@@ -181,6 +219,7 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
     losses.thresholdLoss[i] = acc[0];
     losses.outsideLoss[i] = acc[1];
     losses.droppedByCut[i] = dropped;
+    if (input.onProgress && ((i + 1) % PROGRESS_ROWS === 0 || i + 1 === nE)) input.onProgress(i + 1, nE);
   }
 
   const rmf: RmfData = {

@@ -35,7 +35,7 @@ type Counts = DetectorEntry['checks'];
 const sameNumbers = (x: readonly number[], y: readonly number[]) => x.length === y.length && x.every((v, k) => v === y[k]);
 
 export function countChecks(checks: readonly { status: Check['status'] }[]): Counts {
-  const c: Counts = { pass: 0, fail: 0, warn: 0, review: 0 };
+  const c: Counts = { pass: 0, fail: 0, warn: 0, review: 0, accepted: 0 };
   for (const x of checks) c[x.status]++;
   return c;
 }

@@ -15,12 +15,23 @@
  *   DIR/releases/<id>/detectors/<det>/checks.json        DetectorChecksDoc (checks of the detector's products)
  *   DIR/releases/<id>/detectors/<det>/epochs/<ep>.json   EpochDataDoc      (ARF side: one epoch's area and efficiency)
  *   DIR/releases/<id>/detectors/<det>/area.json          DetectorAreaDoc   (every epoch's effective area alone, for comparisons)
+ *   DIR/releases/<id>/spectral.json                      ReleaseSpectral (reference sources: predicted rates, impact)
  *   DIR/releases/<id>/files/<file>         the products (FITS, gzip-compressed: *.rmf.gz, *.arf.gz)
  */
 
 export type ReleaseStatus = 'draft' | 'candidate' | 'published' | 'superseded' | 'withdrawn';
 export type ProductKind = 'rmf' | 'arf' | 'rsp';
-export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review';
+/** `accepted`: a review item a release lists as signed off (release.yaml `accepted`, or `kiln publish --accept-all`). */
+export type CheckStatus = 'pass' | 'fail' | 'warn' | 'review' | 'accepted';
+
+/** Who accepted a review item and why. */
+export interface Acceptance {
+  reason: string;
+  /** The role that accepted it, e.g. "instrument scientist". */
+  role: string;
+  /** Where the sign-off was given: release.yaml or `kiln publish --accept-all`. */
+  source: 'release.yaml' | 'publish --accept-all';
+}
 
 export interface DetectorSummary {
   id: string;
@@ -45,6 +56,9 @@ export interface ProductSummary {
   id: string;
   kind: ProductKind;
   detector: string;
+  /** Readout node and row band of a per-region product; absent for a whole-detector product. */
+  node?: string;
+  rowBand?: string;
   epoch: string;
   /** Release-relative path, e.g. "files/fi0_e2_v1.2.0.rmf.gz". */
   path: string;
@@ -67,8 +81,11 @@ export interface ReleaseSummary {
   validFrom: string;
   validTo: string | null;
   supersedes: string | null;
-  checks: { pass: number; fail: number; warn: number; review: number };
+  /** `accepted` is absent in indexes of builds before review sign-off existed. */
+  checks: { pass: number; fail: number; warn: number; review: number; accepted?: number };
   products: ProductSummary[];
+  /** The release's model document (kiln/model/1), relative to the release; absent for archives sealed before model documents. */
+  model?: { path: string; bytes: number; sha256: string };
   /** Archived releases: what today's checks find that the published report did not (reexamined.json). */
   reexamined?: ReexaminedCounts;
 }
@@ -115,6 +132,9 @@ export interface ManifestFile {
   sha256: string;
   kind: ProductKind;
   detector: string;
+  /** Readout node and row band of a per-region product; absent for a whole-detector product. */
+  node?: string;
+  rowBand?: string;
   epoch: string;
   validFrom: string;
   validTo: string | null;
@@ -148,6 +168,8 @@ export interface Check {
   tolerance: number | string | null;
   unit: string | null;
   message: string;
+  /** Present when status is `accepted`. */
+  acceptance?: Acceptance;
 }
 
 export interface ValidationReport {
@@ -273,7 +295,7 @@ export interface DetectorEntry {
   kind: string;
   epochs: { id: string; date: string; validFrom: string; validTo: string | null }[];
   products: number;
-  checks: { pass: number; fail: number; warn: number; review: number };
+  checks: { pass: number; fail: number; warn: number; review: number; accepted: number };
 }
 
 /** What a release page needs on load, independent of the number of products per detector. */
@@ -292,7 +314,7 @@ export interface ReleaseSummaryDoc {
   parameters: ParameterRow[];
   /** Release-level checks (product null, or a product no detector lists). */
   checks: Check[];
-  counts: { pass: number; fail: number; warn: number; review: number };
+  counts: { pass: number; fail: number; warn: number; review: number; accepted: number };
   products: number;
   detectors: DetectorEntry[];
 }
@@ -360,4 +382,31 @@ export interface FinderDetectorDoc {
   detector: string;
   /** Newest first, as in the index; products filtered to this detector. */
   releases: ReleaseSummary[];
+}
+
+/**
+ * DIR/releases/<id>/spectral.json: the reference sources of the release's instrument, their
+ * predicted rates and pile-up through this release's responses, and the impact of the change from
+ * the release it supersedes (generators/pipeline/impact.ts, computed with generators/spectrum).
+ */
+export interface ReleaseSpectral {
+  schema: 'kiln/release-spectral/1';
+  release: string;
+  /** The release the impact is computed against (the one superseded), or null. */
+  comparedWith: string | null;
+  bands: { name: string; loKeV: number; hiKeV: number }[];
+  pileup: { frameTimeS: number; brightestCellFraction: number; leavesOut: string };
+  tolerance: { shiftSigma: number; rateRatio: number; reason: string };
+  sources: import('../spectrum/impact.ts').ReferenceSource[];
+  /** Per detector: the products used and the predictions of each source. */
+  predicted: SpectralPrediction[];
+  impact: import('../spectrum/impact.ts').SourceImpact[];
+}
+
+export interface SpectralPrediction {
+  detector: string;
+  rmf: string;
+  arf: string;
+  epoch: string;
+  sources: import('../spectrum/impact.ts').Prediction[];
 }

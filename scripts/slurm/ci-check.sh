@@ -45,7 +45,7 @@ else
   record fail "${checks[1]}"; record fail "${checks[2]}"
 fi
 
-# The demo plans two jobs, 2.0.0/fi0 then 2.0.0/bi1: shard 2 of 3 holds 2.0.0/bi1.
+# The demo plans four jobs, 2.0.0/fi0, 2.0.0/bi1, 2.1.0/fi0, 2.1.0/bi1: shard 2 of 3 holds 2.0.0/bi1.
 if "$here/submit.sh" --shards 3 --only 1,3 --work "$work/lost" --out "$work/lost-out" --wait "$WAIT_S"; then
   record fail "${checks[3]}"
 else

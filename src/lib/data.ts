@@ -8,7 +8,7 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, join } from 'node:path';
-import type { Check, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
+import type { Check, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSpectral, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
 import { REEXAMINED_FILE, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
 import { joinDetector, joinRelease, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
 
@@ -71,3 +71,11 @@ export function loadChecks(id: string): Check[] {
 
 /** One split document of a release by its release-relative path (not kept). */
 export const loadDoc = <T,>(id: string, path: string): T => reader(id)<T>(path);
+
+/** A release's spectral section (reference sources: predicted rates, impact), when the build wrote one. */
+export const loadSpectral = (id: string): ReleaseSpectral | null =>
+  existsSync(join(relDir(id), 'spectral.json')) ? readJson(join(relDir(id), 'spectral.json'), 'kiln/release-spectral/1') : null;
+
+/** A release's model document (kiln/model/1), when the build wrote one. */
+export const loadModel = (id: string): import('../../generators/model/types.ts').ModelDocument | null =>
+  existsSync(join(relDir(id), 'model.json')) ? readJson(join(relDir(id), 'model.json'), 'kiln/model/1') : null;

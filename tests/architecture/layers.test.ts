@@ -19,6 +19,8 @@ const BROWSER_SAFE = [
   'generators/fit/index.ts',
   'generators/checks/index.ts',
   'generators/compare/index.ts',
+  'generators/spectrum/index.ts',
+  'generators/content/source-schema.ts',
   'generators/content/schema.ts',
   'generators/pipeline/product.ts',
   'generators/pipeline/site-detector.ts',

@@ -12,13 +12,14 @@
  * visible as text, so the test fails if the hostile values never reached the pages.
  */
 import { spawnSync } from 'node:child_process';
-import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parse, stringify } from 'yaml';
 import { z } from 'zod';
-import { instrumentSchema, releaseSchema } from '../../generators/content/schema.ts';
+import { instrumentSchema, regionsFileSchema, releaseSchema, spectralSchema } from '../../generators/content/schema.ts';
+import { sourceSchema } from '../../generators/content/source-schema.ts';
 import { siteSession } from './support/browser.ts';
 
 const REPO = join(import.meta.dirname, '..', '..');
@@ -98,7 +99,14 @@ beforeAll(() => {
   cpSync(join(REPO, 'content'), content, { recursive: true });
   // Every release built from its inputs: archives dropped, all releases drafts.
   rmSync(join(content, 'archive'), { recursive: true, force: true });
-  for (const ins of readdirSync(join(content, 'instruments'))) editYaml(join(content, 'instruments', ins, 'instrument.yaml'), instrumentSchema);
+  for (const ins of readdirSync(join(content, 'instruments'))) {
+    const dir = join(content, 'instruments', ins);
+    editYaml(join(dir, 'instrument.yaml'), instrumentSchema);
+    // The instrument's other documents: readout regions, spectral settings, reference sources.
+    if (existsSync(join(dir, 'regions.yaml'))) editYaml(join(dir, 'regions.yaml'), regionsFileSchema);
+    if (existsSync(join(dir, 'spectral.yaml'))) editYaml(join(dir, 'spectral.yaml'), spectralSchema);
+    if (existsSync(join(dir, 'sources'))) for (const f of readdirSync(join(dir, 'sources')).filter((n) => n.endsWith('.yaml'))) editYaml(join(dir, 'sources', f), sourceSchema);
+  }
   for (const id of readdirSync(join(content, 'releases'))) {
     editYaml(join(content, 'releases', id, 'release.yaml'), releaseSchema, (d) => (d.status = 'draft'));
     const notes = join(content, 'releases', id, 'notes.md');
@@ -122,6 +130,8 @@ describe('hostile content: no dialog, no script, on every page', () => {
   it('the schemas gave many fields a payload, detector names among them', () => {
     expect(attacked.some((f) => /detectors\[\d+\]\.name/.test(f)), attacked.join('\n')).toBe(true);
     expect(attacked.some((f) => /release\.yaml: \.title/.test(f)), attacked.join('\n')).toBe(true);
+    expect(attacked.some((f) => /sources\/[^:]+\.yaml: \.title/.test(f)), attacked.join('\n')).toBe(true);
+    expect(attacked.some((f) => /spectral\.yaml: \.impact\.reason/.test(f)), attacked.join('\n')).toBe(true);
     // The demo's instrument and three releases have dozens of text fields (names, titles,
     // descriptions, layer and epoch names); fewer attacked means the walk stopped working.
     expect(attacked.length).toBeGreaterThan(20);
@@ -130,7 +140,8 @@ describe('hostile content: no dialog, no script, on every page', () => {
   it('every page, with its plots redrawn and compare re-rendered', async () => {
     const index = JSON.parse(readFileSync(join(dist, 'data', 'index.json'), 'utf8')) as { releases: { id: string }[] };
     const ids = index.releases.map((r) => r.id);
-    const pages = ['/', '/compare/', `/compare/?a=${ids[ids.length - 1]}&b=${ids[0]}`, '/finder/', '/inspect/', '/about/', ...ids.map((id) => `/releases/${id}/`)];
+    const detectorPages = ids.flatMap((id) => (JSON.parse(readFileSync(join(dist, 'data', 'releases', id, 'summary.json'), 'utf8')) as { detectors: { id: string }[] }).detectors.map((d) => `/releases/${id}/detectors/${d.id}/`));
+    const pages = ['/', '/compare/', `/compare/?a=${ids[ids.length - 1]}&b=${ids[0]}`, '/finder/', '/inspect/', '/about/', '/response/', ...ids.map((id) => `/releases/${id}/`), ...detectorPages];
     const dialogs: string[] = [];
     let shownAsText = 0;
     for (const path of pages) {

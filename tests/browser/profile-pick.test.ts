@@ -15,6 +15,7 @@ import { readFits } from '../../generators/fits/index.ts';
 import { readRmf } from '../../generators/ogip/index.ts';
 import { DIST, requireDist } from './support/server.ts';
 import { siteSession } from './support/browser.ts';
+import { newestInline } from './support/release-pages.ts';
 
 const SHOTS = '/tmp/shots';
 /** An energy between published profile energies (none of the demo releases lists it). */
@@ -26,7 +27,8 @@ const HOLD_MS = 400;
 
 requireDist();
 const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8')) as ReleaseIndex;
-const id = index.releases[0].id;
+// The newest release whose page draws its detectors (the picker sits in a detector's section).
+const id = newestInline(index);
 const summary = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'summary.json'), 'utf8')) as ReleaseSummaryDoc;
 const det = JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'detectors', summary.detectors[0].id, 'model.json'), 'utf8')) as DetectorModelDoc;
 const product = det.products.find((p) => p.kind === 'rmf')!;

@@ -232,33 +232,33 @@ describe('cross-release review tolerances (compare.*)', () => {
   });
   it(`area ratio 1 ± ${INSIDE}·${CMP.areaRatio} passes, 1 ± ${OUTSIDE}·${CMP.areaRatio} needs review`, () => {
     for (const sign of [1, -1]) {
-      expect(byId(compareArf(arf(1), arf(1 + sign * INSIDE * CMP.areaRatio), null), 'compare.arf.area-ratio').status).toBe('pass');
-      expect(byId(compareArf(arf(1), arf(1 + sign * OUTSIDE * CMP.areaRatio), null), 'compare.arf.area-ratio').status).toBe('review');
+      expect(byId(compareArf(arf(1), arf(1 + sign * INSIDE * CMP.areaRatio), null), 'review.arf.area-ratio').status).toBe('pass');
+      expect(byId(compareArf(arf(1), arf(1 + sign * OUTSIDE * CMP.areaRatio), null), 'review.arf.area-ratio').status).toBe('review');
     }
   });
   // Cores of two Gaussian matrices differ by what was put in; the fit's bias is the same in both.
   it(`core FWHM change ${INSIDE}·${CMP.fwhmEv} eV passes, ${OUTSIDE}· needs review`, () => {
     const a = gaussianRmf(120);
-    expect(byId(compareRmf(a, gaussianRmf(120 + INSIDE * CMP.fwhmEv), null), 'compare.rmf.fwhm').status).toBe('pass');
-    expect(byId(compareRmf(a, gaussianRmf(120 + OUTSIDE * CMP.fwhmEv), null), 'compare.rmf.fwhm').status).toBe('review');
+    expect(byId(compareRmf(a, gaussianRmf(120 + INSIDE * CMP.fwhmEv), null), 'review.rmf.fwhm').status).toBe('pass');
+    expect(byId(compareRmf(a, gaussianRmf(120 + OUTSIDE * CMP.fwhmEv), null), 'review.rmf.fwhm').status).toBe('review');
   });
   it(`core centroid change ${INSIDE}·${CMP.centroidEv} eV passes, ${OUTSIDE}· needs review`, () => {
     const a = gaussianRmf(120);
-    expect(byId(compareRmf(a, gaussianRmf(120, INSIDE * CMP.centroidEv), null), 'compare.rmf.centroid').status).toBe('pass');
-    expect(byId(compareRmf(a, gaussianRmf(120, -OUTSIDE * CMP.centroidEv), null), 'compare.rmf.centroid').status).toBe('review');
+    expect(byId(compareRmf(a, gaussianRmf(120, INSIDE * CMP.centroidEv), null), 'review.rmf.centroid').status).toBe('pass');
+    expect(byId(compareRmf(a, gaussianRmf(120, -OUTSIDE * CMP.centroidEv), null), 'review.rmf.centroid').status).toBe('review');
   });
   it(`row-sum change ${INSIDE}·${CMP.rowSum} passes, ${OUTSIDE}· needs review`, () => {
     const a = gaussianRmf(120, 0, 0.9);
-    expect(byId(compareRmf(a, gaussianRmf(120, 0, 0.9 - INSIDE * CMP.rowSum), null), 'compare.rmf.row-sum').status).toBe('pass');
-    expect(byId(compareRmf(a, gaussianRmf(120, 0, 0.9 + OUTSIDE * CMP.rowSum), null), 'compare.rmf.row-sum').status).toBe('review');
+    expect(byId(compareRmf(a, gaussianRmf(120, 0, 0.9 - INSIDE * CMP.rowSum), null), 'review.rmf.row-sum').status).toBe('pass');
+    expect(byId(compareRmf(a, gaussianRmf(120, 0, 0.9 + OUTSIDE * CMP.rowSum), null), 'review.rmf.row-sum').status).toBe('review');
   });
   // The extra share sits wholly below centroid − 2σ, so the change measured is the share put in.
   it(`change of the share below the core ${INSIDE}·${CMP.lowShare} passes, ${OUTSIDE}· needs review`, () => {
     const a = gaussianRmf(120, 0, 0.9);
-    const inside = byId(compareRmf(a, gaussianRmf(120, 0, 0.9, INSIDE * CMP.lowShare), null), 'compare.rmf.low-share');
+    const inside = byId(compareRmf(a, gaussianRmf(120, 0, 0.9, INSIDE * CMP.lowShare), null), 'review.rmf.low-share');
     expect(inside.status).toBe('pass');
     expect(inside.measured as number).toBeCloseTo(INSIDE * CMP.lowShare, 6);
-    const outside = byId(compareRmf(a, gaussianRmf(120, 0, 0.9, OUTSIDE * CMP.lowShare), null), 'compare.rmf.low-share');
+    const outside = byId(compareRmf(a, gaussianRmf(120, 0, 0.9, OUTSIDE * CMP.lowShare), null), 'review.rmf.low-share');
     expect(outside.status).toBe('review');
     expect(outside.measured as number).toBeCloseTo(OUTSIDE * CMP.lowShare, 6);
   });

@@ -90,7 +90,7 @@ describe('kiln compare (command)', () => {
     expect(moved.status).toBe(1);
     const report = JSON.parse(moved.stdout);
     expect(report.schema).toBe('kiln/compare/1');
-    const fwhm = report.pairs[0].checks.find((c: { id: string }) => c.id === 'compare.rmf.fwhm');
+    const fwhm = report.pairs[0].checks.find((c: { id: string }) => c.id === 'review.rmf.fwhm');
     expect(fwhm.status).toBe('review');
   });
 

@@ -162,7 +162,7 @@ describe('loadContent rejects broken content trees with a precise KilnInputError
       mkdirSync(join(t.root, 'archive', '0.9.0'), { recursive: true });
       writeFileSync(join(t.root, 'archive', '0.9.0', 'release.yaml'), 'not: [valid');
       const tree = await loadContent(t.root);
-      expect(tree.releases.map((r) => r.release.id)).toEqual(['1.0.0', '1.1.0', '2.0.0']);
+      expect(tree.releases.map((r) => r.release.id)).toEqual(['1.0.0', '1.1.0', '2.0.0', '2.1.0']);
     } finally {
       t.dispose();
     }

@@ -18,12 +18,13 @@ import { DEMO_CONTENT, INSTRUMENT, MIRROR, rel } from './helpers.ts';
 const tree = await loadContent(DEMO_CONTENT);
 
 describe('demo content', () => {
-  it('loads one instrument and three releases in semver order with their history', () => {
+  it('loads one instrument and four releases in semver order with their history', () => {
     expect(tree.instruments.map((i) => i.id)).toEqual(['quillon-tarncam']);
     expect(tree.releases.map((r) => [r.release.id, r.release.status, r.release.supersedes])).toEqual([
       ['1.0.0', 'superseded', null],
       ['1.1.0', 'published', '1.0.0'],
       ['2.0.0', 'candidate', '1.1.0'],
+      ['2.1.0', 'candidate', '2.0.0'],
     ]);
     const ins = tree.instruments[0];
     expect(ins.channels).toEqual({ count: 1024, firstChannel: 0, widthEv: 15, originEv: 0 });
@@ -102,7 +103,7 @@ describe('demo content', () => {
   it('gives the same documents through js-yaml (Astro) and through our reader', () => {
     const ins = readFileSync(join(DEMO_CONTENT, INSTRUMENT), 'utf8');
     expect(instrumentSchema.parse(yamlJs.load(ins))).toEqual(parseInstrumentText(ins, INSTRUMENT).doc);
-    for (const id of ['1.0.0', '1.1.0', '2.0.0']) {
+    for (const id of ['1.0.0', '1.1.0', '2.0.0', '2.1.0']) {
       const text = readFileSync(join(DEMO_CONTENT, rel(id)), 'utf8');
       // js-yaml reads unquoted dates as Date objects; the schema turns them back into ISO dates.
       expect(releaseSchema.parse(yamlJs.load(text))).toEqual(parseReleaseText(text, rel(id)).doc);

@@ -12,7 +12,7 @@ import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 import { DEMO_CONTENT, kiln, readTree, sha256, treeDigest, workspace, type CliResult, type Workspace } from './helpers.ts';
 
 /** Releases of the demo content (content/releases/); see content/README.md. */
-const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0'];
+const DEMO_RELEASES = ['1.0.0', '1.1.0', '2.0.0', '2.1.0'];
 
 interface ManifestFile {
   path: string;
@@ -45,7 +45,7 @@ describe('kiln build of the demo content', () => {
     const index = JSON.parse(tree.get('index.json')!.toString('utf8'));
     expect(index.releases.map((r: { id: string }) => r.id).sort()).toEqual(DEMO_RELEASES);
     for (const id of DEMO_RELEASES) {
-      for (const f of ['manifest.json', 'validation.json', 'summary.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
+      for (const f of ['manifest.json', 'validation.json', 'summary.json', 'spectral.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
       // Site data split per product: each detector's documents and one per epoch (generators/site-data/paths.ts).
       const summary = JSON.parse(tree.get(`releases/${id}/summary.json`)!.toString('utf8'));
       expect(summary.detectors.length).toBeGreaterThan(0);
@@ -62,7 +62,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|spectral\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
@@ -80,7 +80,7 @@ describe('kiln build of the demo content', () => {
         n++;
       }
     }
-    expect(n).toBe(22); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch
+    expect(n).toBe(38); // 4 (1.0.0) + 8 (1.1.0) + 10 (2.0.0): 2 RMFs + one ARF per detector and epoch; + 16 (2.1.0): 8 per-node RMFs + 8 ARFs
   });
 
   it.runIf(runAstropyChecks)('astropy opens every gunzipped product: verify("exception") passes, CHECKSUM/DATASUM verify, no warnings', () => {
@@ -93,7 +93,7 @@ describe('kiln build of the demo content', () => {
       writeFileSync(file, gunzipSync(readFileSync(p.file)));
       return { file, kind: p.kind, name: `${p.release}/${p.path}` };
     });
-    expect(list.length).toBe(22);
+    expect(list.length).toBe(38);
     const code = `
 import json, sys, warnings
 from astropy.io import fits
@@ -138,7 +138,7 @@ print(json.dumps(out))
 
   it('`kiln check` passes on every product (exit 0)', () => {
     const files = products().map((p) => p.file);
-    expect(files.length).toBe(22);
+    expect(files.length).toBe(38);
     const r = kiln('check', ...files, '--json');
     expect(r.stderr).toBe('');
     expect(r.status, r.stdout.slice(0, 2000)).toBe(0);

@@ -2,7 +2,9 @@
  * Incremental rebuilds (`.kiln/cache`): a job whose fingerprint (resolved model, grids, generator
  * version) is unchanged reuses its cached output; the result is byte for byte what a build
  * without the cache writes (compared with node:crypto SHA-256 over every file); a changed
- * detector is rebuilt alone; a corrupted entry is found by its hash, named in one line and
+ * detector rebuilds the jobs of its release only (every product's HISTORY records the SHA-256 of
+ * its release's model document, so one detector's change reaches all of that release's
+ * products), other releases' jobs come from the cache; a corrupted entry is found by its hash, named in one line and
  * rebuilt; a deleted cache is rebuilt. The demo's candidate is made a draft so that an edited
  * model may fail closure checks without refusing the build.
  */
@@ -24,20 +26,25 @@ describe('job cache', () => {
   it('a rebuild with nothing changed takes every job from the cache and writes the same bytes as a clean build', () => {
     const clean = build('clean', '--no-cache');
     expect(clean.status, clean.stderr).toBe(0);
-    expect(clean.stdout).toMatch(/\(2 jobs built, 0 from cache\)/);
+    // Two built releases (2.0.0, 2.1.0) of two detectors each; the archives build no jobs.
+    expect(clean.stdout).toMatch(/\(4 jobs built, 0 from cache\)/);
     const again = build('again');
     expect(again.status, again.stderr).toBe(0);
-    expect(again.stdout).toMatch(/\(0 jobs built, 2 from cache\)/);
+    expect(again.stdout).toMatch(/\(0 jobs built, 4 from cache\)/);
+    // The spectral sections (predictions and impact fits) of all four releases are reused too.
+    expect(again.stderr.match(/spectral predictions and impact from cache/g)).toHaveLength(4);
     expect(digest('again')).toEqual(digest('clean'));
   });
 
-  it('a changed detector model rebuilds that detector only; output equals a clean build of the changed tree', () => {
+  it('a changed detector model rebuilds the jobs of its release only; output equals a clean build of the changed tree', () => {
     ws.replace(RELEASE, 'readNoiseE: 3.9,', 'readNoiseE: 3.92,');
     const inc = build('inc');
     expect(inc.status, inc.stderr).toBe(0);
-    expect(inc.stdout).toMatch(/\(1 jobs built, 1 from cache\)/);
-    expect(inc.stderr).toMatch(/detector fi0 built/);
-    expect(inc.stderr).toMatch(/detector bi1 from cache/);
+    expect(inc.stdout).toMatch(/\(2 jobs built, 2 from cache\)/);
+    expect(inc.stderr).toMatch(/release 2\.0\.0 \(draft\): detector fi0 built/);
+    expect(inc.stderr).toMatch(/release 2\.0\.0 \(draft\): detector bi1 built/);
+    expect(inc.stderr).toMatch(/release 2\.1\.0 \(candidate\): detector fi0 from cache/);
+    expect(inc.stderr).toMatch(/release 2\.1\.0 \(candidate\): detector bi1 from cache/);
     const clean = build('clean2', '--no-cache');
     expect(clean.status, clean.stderr).toBe(0);
     expect(digest('inc')).toEqual(digest('clean2'));
@@ -47,7 +54,8 @@ describe('job cache', () => {
   it('a corrupted entry is detected by its hash, named in one line and rebuilt; same bytes', () => {
     const root = join(cache, 'jobs');
     const entries = readdirSync(root).filter((n) => /^[0-9a-f]{64}$/.test(n));
-    expect(entries.length).toBe(2);
+    // The four current entries (2.0.0's two replaced ones were pruned).
+    expect(entries.length).toBe(4);
     const meta = JSON.parse(readFileSync(join(root, entries[0], 'meta.json'), 'utf8')) as { job: string; files: { name: string }[] };
     const file = join(root, entries[0], 'files', meta.files[0].name);
     const b = readFileSync(file);
@@ -59,12 +67,12 @@ describe('job cache', () => {
     expect(lines).toHaveLength(1);
     expect(lines[0]).toContain(`cache entry of job ${meta.job}`);
     expect(lines[0]).toContain(`files/${meta.files[0].name} does not match its SHA-256; rebuilding it`);
-    expect(r.stdout).toMatch(/\(1 jobs built, 1 from cache\)/);
+    expect(r.stdout).toMatch(/\(1 jobs built, 3 from cache\)/);
     expect(digest('corrupt')).toEqual(digest('clean2'));
     // The rebuilt entry replaced the corrupted one.
     const again = build('again2', '--quiet');
     expect(again.stderr).toBe('');
-    expect(again.stdout).toMatch(/\(0 jobs built, 2 from cache\)/);
+    expect(again.stdout).toMatch(/\(0 jobs built, 4 from cache\)/);
   });
 
   it('a tampered meta.json is refused by the entry seal; a deleted cache is simply rebuilt', () => {
@@ -75,10 +83,18 @@ describe('job cache', () => {
     const r = build('meta', '--quiet');
     expect(r.status, r.stderr).toBe(0);
     expect(r.stderr).toMatch(/rejected: meta\.json does not match its SHA-256 in entry\.json; rebuilding it/);
+    // A spectral entry whose document was edited is refused by its SHA-256 and recomputed.
+    const spectralDir = join(cache, 'spectral');
+    const sp = join(spectralDir, readdirSync(spectralDir)[0]);
+    writeFileSync(sp, readFileSync(sp, 'utf8').replace('"predicted', '"Predicted'));
+    const rs = build('spectral', '--quiet');
+    expect(rs.status, rs.stderr).toBe(0);
+    expect(rs.stderr).toMatch(/cache entry of the spectral section of release [\d.]+ \([0-9a-f]{12}\) rejected: document does not match its SHA-256; recomputing it/);
+    expect(digest('spectral')).toEqual(digest('clean2'));
     rmSync(cache, { recursive: true, force: true });
     const fresh = build('fresh', '--quiet');
     expect(fresh.status, fresh.stderr).toBe(0);
-    expect(fresh.stdout).toMatch(/\(2 jobs built, 0 from cache\)/);
+    expect(fresh.stdout).toMatch(/\(4 jobs built, 0 from cache\)/);
     expect(existsSync(join(cache, 'jobs'))).toBe(true);
     expect(digest('fresh')).toEqual(digest('clean2'));
   });

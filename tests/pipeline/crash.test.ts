@@ -64,12 +64,14 @@ async function expectRecovery(ws: Workspace, before: Record<string, string>, sta
 }
 
 describe('a build killed with SIGKILL', () => {
-  it('as soon as its staging directory appears: previous out intact, next build recovers', async () => {
+  // Several builds of the four-release demo on a shared machine: more than the default minute.
+  it('as soon as its staging directory appears: previous out intact, next build recovers', { timeout: 240_000 }, async () => {
     const { ws, before, stale } = await killBuildWhen((w) => readdirSync(w.dir).some((n) => n.startsWith('.out.staging-')));
     await expectRecovery(ws, before, stale);
   });
 
-  it('after its first detector job finished (products being written): previous out intact, next build recovers', async () => {
+  // Several builds of the four-release demo on a shared machine: more than the default minute.
+  it('after its first detector job finished (products being written): previous out intact, next build recovers', { timeout: 240_000 }, async () => {
     const { ws, before, stale } = await killBuildWhen((_w, err) => /release 2\.0\.0 \(candidate\): detector \w+ built/.test(err));
     await expectRecovery(ws, before, stale);
   });

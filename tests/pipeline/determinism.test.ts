@@ -28,14 +28,15 @@ describe('kiln build is deterministic', () => {
   it('two builds (different content and output paths) give byte-identical trees, --workers 1 vs --workers 2', () => {
     const one = buildTree('1', 'out-a');
     const two = buildTree('2', 'site-b');
-    // 22 products + 3 × 3 JSON files + index.json for the demo (content/releases/*/release.yaml),
+    // 38 products + 4 × 4 JSON files (manifest, validation, summary, spectral) + index.json for the demo (content/releases/*/release.yaml), 2 × 2
+    // model documents and schemas (built releases 2.0.0 and 2.1.0; the archives of 1.0.0 and 1.1.0 predate them),
     // a reexamined.json for each of the 2 archived releases (content/archive/),
     // plus the split site data: 5 documents per detector and one per epoch, and a finder document per detector.
     const summaries = [...one.keys()].filter((p) => p.endsWith('/summary.json')).map((p) => JSON.parse(one.get(p)!.toString('utf8')) as { detectors: { epochs: unknown[] }[] });
     const split = summaries.reduce((n, s) => n + s.detectors.reduce((m, d) => m + 5 + d.epochs.length, 0), 0);
     const finder = [...one.keys()].filter((p) => p.startsWith('finder/')).length;
     expect(finder).toBe(2);
-    expect(one.size).toBe(22 + 9 + 1 + 2 + split + finder);
+    expect(one.size).toBe(38 + 16 + 4 + 1 + 2 + split + finder);
     expectSameTrees(one, two);
   });
 

@@ -23,6 +23,9 @@ const BUSY = 4;
 let ws: Workspace;
 let scratch: string;
 const PRODUCT = join(REPO, 'content', 'archive', '1.1.0', 'files', 'quillon-tarncam_fi0_1.1.0.rmf.gz');
+const AREA = join(REPO, 'content', 'archive', '1.1.0', 'files', 'quillon-tarncam_fi0_e1_1.1.0.arf.gz');
+/** The demo's candidate has open review items: publishing it takes a sign-off (README "Review sign-off"). */
+const SIGN_OFF = ['--accept-all', '--reason', 'failure test'];
 
 function mountTmpfs(dir: string, size: string, ro = false): void {
   mkdirSync(dir, { recursive: true });
@@ -72,7 +75,44 @@ describe('bad input: one line, exit 2, for every verb', () => {
   });
 
   it('unknown verb option and bad usage, every verb', () => {
-    for (const verb of ['build', 'publish', 'check', 'inspect', 'compare', 'efficiency']) fails([verb, '--no-such-option'], INPUT, /unknown option --no-such-option/);
+    for (const verb of ['build', 'site', 'publish', 'report', 'check', 'inspect', 'compare', 'efficiency', 'response', 'fold', 'simulate', 'fit'])
+      fails([verb, '--no-such-option'], INPUT, /unknown option --no-such-option/);
+  });
+
+  it('kiln fold / simulate / fit / response on a FIFO, a folder, a missing file', () => {
+    const fifo = join(scratch, 'fifo');
+    const dir = join(scratch, 'folder.fits');
+    const source = join(ws.content, 'instruments/quillon-tarncam/sources/bright-line.yaml');
+    const spectrum = join(scratch, 'sim.pha');
+    fails(['fold', '--source', fifo, '--rmf', PRODUCT], INPUT, /fifo: is a FIFO/);
+    fails(['fold', '--source', source, '--rmf', fifo], INPUT, /fifo: not a regular file/);
+    fails(['fold', '--source', source, '--rmf', dir], INPUT, /folder\.fits: not a regular file/);
+    fails(['simulate', '--source', source, '--rmf', join(scratch, 'absent.rmf'), '--out', spectrum], INPUT, /absent\.rmf: cannot read file/);
+    fails(['fit', fifo, '--source', source], INPUT, /fifo: not a regular file/);
+    fails(['response', '--release', '2.0.0', '--detector', 'fi0', '--date', '2027-01-01', '--from', join(scratch, 'no-build')], INPUT, /no-build/);
+  });
+
+  it('kiln simulate into a full disk, kiln response into a read-only one: exit 3, no partial file', () => {
+    const full = join(scratch, 'full');
+    mountTmpfs(full, '4k');
+    const source = join(ws.content, 'instruments/quillon-tarncam/sources/bright-line.yaml');
+    const out = join(full, 'big.pha');
+    try {
+      const line = fails(['simulate', '--source', source, '--rmf', PRODUCT, '--arf', AREA, '--out', out, '--exposure', '1000'], ENVIRONMENT, /no space left on the device/);
+      expect(line).toContain('big.pha');
+      expect(readdirSync(full)).toEqual([]);
+    } finally {
+      spawnSync('umount', [full]);
+    }
+    const ro = join(scratch, 'ro');
+    mountTmpfs(ro, '1m', true);
+    const built = join(ws.dir, 'resp-build');
+    expect(kiln('build', '--content', ws.content, '--out', built, '--quiet').status).toBe(0);
+    try {
+      fails(['response', '--release', '2.0.0', '--detector', 'fi0', '--date', '2027-01-01', '--from', built, '--out', join(ro, 'r')], ENVIRONMENT, /read-only file system/);
+    } finally {
+      spawnSync('umount', [ro]);
+    }
   });
 
   it('kiln build and kiln publish: the same bad input gives the same one line', () => {
@@ -105,7 +145,7 @@ describe('the environment: one line, a documented code, no partial output', () =
     const content = join(full, 'content');
     execFileSync('cp', ['-r', ws.content, content]);
     const before = spawnSync('sha256sum', [join(content, 'releases/2.0.0/release.yaml')], { encoding: 'utf8' }).stdout;
-    const line = fails(['publish', '2.0.0', '--content', content, '--quiet'], ENVIRONMENT, /no space left on the device/);
+    const line = fails(['publish', '2.0.0', '--content', content, ...SIGN_OFF, '--quiet'], ENVIRONMENT, /no space left on the device/);
     expect(line).not.toMatch(/staging/);
     expect(readdirSync(join(content, 'archive')).sort()).toEqual(['1.0.0', '1.1.0']);
     expect(spawnSync('sha256sum', [join(content, 'releases/2.0.0/release.yaml')], { encoding: 'utf8' }).stdout).toBe(before);
@@ -144,7 +184,7 @@ describe('the environment: one line, a documented code, no partial output', () =
       writeFileSync(join(ws.dir, '.locked-out.lock'), JSON.stringify({ pid: holder.pid, host: (await import('node:os')).hostname(), what: 'kiln build' }));
       fails(['build', '--content', ws.content, '--out', out, '--quiet'], BUSY, /\.locked-out\.lock: kiln build \(pid \d+\) is writing here/);
       writeFileSync(join(ws.content, '.archive.lock'), JSON.stringify({ pid: holder.pid, host: (await import('node:os')).hostname(), what: 'kiln publish' }));
-      fails(['publish', '2.0.0', '--content', ws.content, '--quiet'], BUSY, /\.archive\.lock: kiln publish \(pid \d+\) is writing here/);
+      fails(['publish', '2.0.0', '--content', ws.content, ...SIGN_OFF, '--quiet'], BUSY, /\.archive\.lock: kiln publish \(pid \d+\) is writing here/);
       rmSync(join(ws.content, '.archive.lock'));
     } finally {
       holder.kill('SIGKILL');
@@ -154,7 +194,7 @@ describe('the environment: one line, a documented code, no partial output', () =
   it('two builds into one --out, two publishes of one tree at once: the second refuses with exit 4 while the first runs, the first completes', async () => {
     for (const [args, lock] of [
       [['build', '--content', ws.content, '--out', join(ws.dir, 'both'), '--quiet'], join(ws.dir, '.both.lock')],
-      [['publish', '2.0.0', '--content', ws.content, '--quiet'], join(ws.content, '.archive.lock')],
+      [['publish', '2.0.0', '--content', ws.content, ...SIGN_OFF, '--quiet'], join(ws.content, '.archive.lock')],
     ] as const) {
       const first = spawn(process.execPath, [KILN, ...args], { cwd: REPO, stdio: ['ignore', 'pipe', 'pipe'] });
       const done = new Promise<number | null>((ok) => first.on('exit', (c) => ok(c)));
@@ -169,7 +209,8 @@ describe('the environment: one line, a documented code, no partial output', () =
       expect(await done, firstErr).toBe(0);
       expect(existsSync(lock)).toBe(false);
     }
-  });
+    // Two full builds and two publishes (each with its spectral impact fits), one after the other.
+  }, 240_000);
 
   it('a bug is one line too, with the trace only behind --debug (exit 70)', () => {
     // No user action reaches a bug, so the CLI's failure report is called with an unexpected error.

@@ -8,6 +8,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { expectOneLine, kiln, readTree, servedSite, sha256, treeDigest, workspace, type Workspace } from './helpers.ts';
 
 const CANDIDATE = '2.0.0';
+/** The demo candidate has review items against 1.1.0 (its planned soft-response change): publishing needs a sign-off. */
+const SIGN_OFF = ['--accept-all', '--reason', 'planned soft-response change of the demo candidate'];
 const YAML = `releases/${CANDIDATE}/release.yaml`;
 
 const spaces: Workspace[] = [];
@@ -33,14 +35,15 @@ function canonical(v: unknown): string {
 }
 
 describe('kiln publish', () => {
-  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', () => {
+  // Several builds of the four-release demo on a shared machine: more than the default minute.
+  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', { timeout: 240_000 }, () => {
     const ws = fresh();
     // The candidate as built before publishing, for comparison.
     const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), '--quiet');
     expect(pre.status, pre.stderr).toBe(0);
     const yamlBefore = ws.read(YAML);
 
-    const r = kiln('publish', CANDIDATE, '--content', ws.content);
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF);
     expect(r.stderr).not.toMatch(/^\s+at /m);
     expect(r.status, r.stderr).toBe(0);
     const archive = ws.path(`archive/${CANDIDATE}`);
@@ -104,7 +107,7 @@ describe('kiln publish', () => {
 
   it('the archived site data records the release as published (what was frozen), not as a candidate', () => {
     const ws = fresh();
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
     expect(r.status, r.stderr).toBe(0);
     // archive.ts: site.json is "the site data of the release as published"; the demo archives
     // of 1.0.0 and 1.1.0 carry their status, so must a freshly published one.
@@ -116,7 +119,7 @@ describe('kiln publish', () => {
     const ws = fresh();
     const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), '--quiet');
     expect(pre.status, pre.stderr).toBe(0);
-    expect(kiln('publish', CANDIDATE, '--content', ws.content, '--quiet').status).toBe(0);
+    expect(kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet').status).toBe(0);
     const post = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
     expect(post.status, post.stderr).toBe(0);
     const a = JSON.parse(readFileSync(join(ws.dir, 'pre', 'releases', CANDIDATE, 'manifest.json'), 'utf8'));
@@ -134,7 +137,7 @@ describe('kiln publish', () => {
     const ws = fresh();
     ws.replace(YAML, /^status: candidate$/m, 'status: draft');
     const before = treeDigest(ws.content);
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
     expect(r.status).toBe(2);
     const line = expectOneLine(r.stderr);
     expect(line).toContain(ws.path(YAML));
@@ -159,7 +162,7 @@ describe('kiln publish', () => {
     // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; Fano, Phys. Rev. 72, 26 (1947) / common practice).
     ws.replace(`releases/${CANDIDATE}/linefits/fi0.csv`, /^Mn Ka,5\.8950,5\.90794,0\.36,140\.16,/m, 'Mn Ka,5.8950,5.90794,0.36,200.00,');
     const before = treeDigest(ws.content);
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
     expect(r.status).toBe(1);
     expect(r.stderr).toMatch(/closure\.fwhm\.mn-ka/);
     expect(treeDigest(ws.content)).toEqual(before);

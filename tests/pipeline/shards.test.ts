@@ -28,7 +28,7 @@ describe('sharded build: plan, shards, gather', () => {
     expect(plan.schema).toBe('kiln/plan/1');
     expect(plan.planSha256).toMatch(HEX64);
     // The demo: 1.0.0 and 1.1.0 are published (served from content/archive), 2.0.0 has two detectors.
-    expect(plan.jobs.map((j) => j.id).sort()).toEqual(['2.0.0/bi1', '2.0.0/fi0']);
+    expect(plan.jobs.map((j) => j.id).sort()).toEqual(['2.0.0/bi1', '2.0.0/fi0', '2.1.0/bi1', '2.1.0/fi0']);
     for (const j of plan.jobs) expect(j.fingerprint).toMatch(HEX64);
     // Planning twice gives the same plan (deterministic).
     const again = kiln('plan', '--content', ws.content);
@@ -49,10 +49,11 @@ describe('sharded build: plan, shards, gather', () => {
       counts.push(readdirSync(join(dir, 'jobs')).filter((n) => HEX64.test(n)).length);
     }
     // Two jobs over three shards: one each for shards 1 and 2, shard 3 empty but valid.
-    expect(counts).toEqual([1, 1, 0]);
+    // Four jobs (2.0.0 and 2.1.0, two detectors each): job i in shard (i mod 3) + 1.
+    expect(counts).toEqual([2, 1, 1]);
     const g = gather('gathered', shards, '--plan', planFile, '--quiet');
     expect(g.status, g.stderr).toBe(0);
-    expect(g.stdout).toMatch(/3 shards, 2 jobs verified/);
+    expect(g.stdout).toMatch(/3 shards, 4 jobs verified/);
     const want = treeDigest(at('single'));
     expect(Object.keys(want).length).toBeGreaterThan(20);
     expect(treeDigest(at('gathered'))).toEqual(want);
@@ -62,7 +63,7 @@ describe('sharded build: plan, shards, gather', () => {
     const r = gather('no-shard-2', [shards[0], shards[2]]);
     expect(r.status).toBe(2);
     const line = expectOneLine(r.stderr);
-    expect(line).toContain('1 of 2 planned jobs missing: 2.0.0/bi1');
+    expect(line).toContain('1 of 4 planned jobs missing: 2.0.0/bi1');
     expect(line).toContain('shard 2/3 not given or failed');
     expect(existsSync(at('no-shard-2'))).toBe(false);
   });
@@ -71,6 +72,8 @@ describe('sharded build: plan, shards, gather', () => {
     const copy = at('shard-1-tampered');
     cpSync(shards[0], copy, { recursive: true });
     const [fp] = readdirSync(join(copy, 'jobs')).filter((n) => HEX64.test(n));
+    // Shard 1 holds two jobs; the one tampered with is named from its own meta.json.
+    const job = (JSON.parse(readFileSync(join(copy, 'jobs', fp, 'meta.json'), 'utf8')) as { job: string }).job;
     const filesDir = join(copy, 'jobs', fp, 'files');
     const [name] = readdirSync(filesDir);
     const b = readFileSync(join(filesDir, name));
@@ -79,7 +82,7 @@ describe('sharded build: plan, shards, gather', () => {
     const r = gather('tampered', [copy, shards[1], shards[2]]);
     expect(r.status).toBe(2);
     const line = expectOneLine(r.stderr);
-    expect(line).toContain('job 2.0.0/fi0 of shard 1/3 is damaged');
+    expect(line).toContain(`job ${job} of shard 1/3 is damaged`);
     expect(line).toContain(`files/${name} does not match its SHA-256`);
     expect(existsSync(at('tampered'))).toBe(false);
   });

@@ -54,7 +54,7 @@ describe('split and join', () => {
   });
   it('counts each detector\'s checks and the release total', () => {
     const s = byPath.get('summary.json') as { counts: Record<string, number>; detectors: { id: string; checks: Record<string, number>; products: number }[] };
-    expect(s.counts).toEqual({ pass: 2, fail: 1, warn: 1, review: 0 });
+    expect(s.counts).toEqual({ pass: 2, fail: 1, warn: 1, review: 0, accepted: 0 });
     expect(s.detectors.map((d) => [d.id, d.products, d.checks.warn])).toEqual([['a', 2, 1], ['b', 1, 0]]);
   });
   it('checksByDetector puts null and unknown products under null', () => {

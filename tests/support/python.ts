@@ -40,6 +40,8 @@ export const haveXraylib = pythonWith('xraylib') !== null;
 /** Reference checks run whenever the library is present, and always in CI (where absence fails). */
 export const runAstropyChecks = haveAstropy || process.env.CI === 'true';
 export const runXraylibChecks = haveXraylib || process.env.CI === 'true';
+export const haveScipy = pythonWith('scipy') !== null;
+export const runScipyChecks = haveScipy || process.env.CI === 'true';
 
 /** Runs a python snippet with JSON on stdin, returns parsed JSON from stdout. */
 export function runPythonJson<T = unknown>(module: ReferenceModule, code: string, input: unknown = null): T {
