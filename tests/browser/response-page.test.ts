@@ -113,12 +113,12 @@ describe('custom response page', () => {
 
   it('a choice equal to a published product gives the published bytes, as kiln response does', async () => {
     const { page, problems } = await session.open('/response/');
-    const c: Choice = { release: '2.1.0', detector: 'bi1', node: 'b', row: '', date: '2027-07-15', energies: 'model', group: '1' };
+    const c: Choice = { release: '2.1.0', detector: 'bi1', node: 'b', row: '', date: '2027-07-26', energies: 'model', group: '1' };
     const files = await buildInPage(page, c);
     const mine = cli(c, join(tmp, 'pub'));
     const pub = (name: string) => gunzipSync(readFileSync(join(DIST, 'releases', '2.1.0', 'files', name)));
-    const rmf = files.get('quillon-tarncam_bi1-b_2027-07-15_2.1.0.rmf')!;
-    const arf = files.get('quillon-tarncam_bi1-b_2027-07-15_2.1.0.arf')!;
+    const rmf = files.get('quillon-tarncam_bi1-b_2027-07-26_2.1.0.rmf')!;
+    const arf = files.get('quillon-tarncam_bi1-b_2027-07-26_2.1.0.arf')!;
     expect(Buffer.compare(rmf, pub('quillon-tarncam_bi1-b_2.1.0.rmf.gz'))).toBe(0);
     expect(Buffer.compare(arf, pub('quillon-tarncam_bi1_e3_2.1.0.arf.gz'))).toBe(0);
     for (const [name, b] of files) expect(Buffer.compare(b, mine.get(name)!), name).toBe(0);

@@ -95,12 +95,12 @@ describe('model document', () => {
 describe('kiln response', () => {
   it('a case equal to a published product gives its bytes (node b of Tarn-B, epoch e3 reference date, model grid)', () => {
     const out = join(ws.dir, 'same');
-    const r = response(out, '--release', '2.1.0', '--detector', 'bi1', '--node', 'b', '--date', '2027-07-15');
+    const r = response(out, '--release', '2.1.0', '--detector', 'bi1', '--node', 'b', '--date', '2027-07-26');
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
     const pub = (name: string) => gunzipSync(readFileSync(join(rel(), 'files', name)));
-    expect(Buffer.compare(readFileSync(join(out, 'quillon-tarncam_bi1-b_2027-07-15_2.1.0.rmf')), pub('quillon-tarncam_bi1-b_2.1.0.rmf.gz'))).toBe(0);
-    expect(Buffer.compare(readFileSync(join(out, 'quillon-tarncam_bi1-b_2027-07-15_2.1.0.arf')), pub('quillon-tarncam_bi1_e3_2.1.0.arf.gz'))).toBe(0);
+    expect(Buffer.compare(readFileSync(join(out, 'quillon-tarncam_bi1-b_2027-07-26_2.1.0.rmf')), pub('quillon-tarncam_bi1-b_2.1.0.rmf.gz'))).toBe(0);
+    expect(Buffer.compare(readFileSync(join(out, 'quillon-tarncam_bi1-b_2027-07-26_2.1.0.arf')), pub('quillon-tarncam_bi1_e3_2.1.0.arf.gz'))).toBe(0);
   });
 
   it.runIf(runAstropyChecks && runXraylibChecks)('contamination on an exact date: thickness by the law by hand, area by exp(−μρΔt) with xraylib', () => {
@@ -181,7 +181,7 @@ print(json.dumps(res))
   it.each([
     [['--node', 'q'], '--node', '"q"', 'one of a, b, c, d'],
     [['--row', '1024'], '--row', '1024', '[0, 1023]'],
-    [['--date', '2026-01-01'], '--date', '"2026-01-01"', '[2026-05-12, open)'],
+    [['--date', '2026-01-01'], '--date', '"2026-01-01"', '[2026-05-12, 2028-11-01)'],
     [['--energies', '0.05:10:100'], '--energies', '0.05-10 keV', '[0.1, 12.5] keV'],
     [['--energies', '5:1:10'], '--energies', '5:1', 'hi > lo'],
     [['--group', '3'], '--group', '3', 'a divisor of 1024'],
