@@ -45,7 +45,7 @@ describe('per-node resolution (release 2.1.0)', () => {
     for (const d of dets.values())
       for (const n of d.regions!.nodes) {
         const s = n.redistribution;
-        const p = buildParamsAt(s, d.lineFits, { silicon: escapeInputsFor('Si') });
+        const p = buildParamsAt(s, d.lineFits, { silicon: escapeInputsFor('Si'), sensor: d.stack.sensor });
         for (const e of [0.3, 0.5, 1.5, 5.895]) {
           const law = primerFwhmEv(e, s.pairEnergyEv, s.fwhm.readNoiseE, s.fwhm.pixelsPerEvent.a, s.fwhm.pixelsPerEvent.bPerKeV, s.fwhm.fano, s.fwhm.sigma0Ev);
           expect(p(e).sigmaKeV * 2.354820045 * 1000).toBeCloseTo(law, 1);
@@ -60,7 +60,7 @@ describe('per-node resolution (release 2.1.0)', () => {
     let high = 0;
     for (const r of regions) {
       const noise = r.spec.fwhm.readNoiseE;
-      const p = withTransferLoss(buildParamsAt(r.spec, d.lineFits, { silicon: escapeInputsFor('Si') }), transferLossOf(r), r.spec.pairEnergyEv);
+      const p = withTransferLoss(buildParamsAt(r.spec, d.lineFits, { silicon: escapeInputsFor('Si'), sensor: d.stack.sensor }), transferLossOf(r), r.spec.pairEnergyEv);
       const fwhm = [0.3, 0.4, 0.5].map((e) => p(e).sigmaKeV * 2.354820045 * 1000);
       if (noise < 3) {
         low++;

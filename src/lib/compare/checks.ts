@@ -9,18 +9,31 @@ export interface CheckDiff {
   b: Check | null;
 }
 
-/** Products differ in name between releases (ids carry no version), so checks join on id + product. */
-const key = (c: Check) => `${c.id}\u0000${c.product ?? ''}`;
+/**
+ * Products differ in name between releases (ids carry no version), so checks join on id + product;
+ * a check id that repeats for one product (one per reference source, say) joins by its order.
+ */
+function keyed(checks: readonly Check[]): [string, Check][] {
+  const seen = new Map<string, number>();
+  return checks.map((c) => {
+    const k = `${c.id}\u0000${c.product ?? ''}`;
+    const n = seen.get(k) ?? 0;
+    seen.set(k, n + 1);
+    return [`${k}\u0000${n}`, c];
+  });
+}
 
 export function validationDiff(a: ValidationReport, b: ValidationReport): CheckDiff[] {
-  const mb = new Map(b.checks.map((c) => [key(c), c]));
-  const ma = new Map(a.checks.map((c) => [key(c), c]));
+  const ka = keyed(a.checks);
+  const kb = keyed(b.checks);
+  const mb = new Map(kb);
+  const ma = new Map(ka);
   const out: CheckDiff[] = [];
-  for (const ca of a.checks) {
-    const cb = mb.get(key(ca)) ?? null;
+  for (const [k, ca] of ka) {
+    const cb = mb.get(k) ?? null;
     if (!cb || cb.status !== ca.status || cb.measured !== ca.measured) out.push({ id: ca.id, product: ca.product, title: ca.title, a: ca, b: cb });
   }
-  for (const cb of b.checks) if (!ma.has(key(cb))) out.push({ id: cb.id, product: cb.product, title: cb.title, a: null, b: cb });
+  for (const [k, cb] of kb) if (!ma.has(k)) out.push({ id: cb.id, product: cb.product, title: cb.title, a: null, b: cb });
   return out;
 }
 
