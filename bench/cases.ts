@@ -40,11 +40,18 @@ export const LARGE_CASE = {
   ],
 };
 
+/**
+ * One custom response from a release's model document (`kiln response`), the demo's 2.0.0 Tarn-F
+ * on a date inside its last epoch, and the size of the generator chunk the site's response page
+ * loads (from dist/, when a site was built).
+ */
+export const RESPONSE_CASE = { kind: 'response' as const, name: 'response-demo', release: '2.0.0', detector: 'fi0', date: '2027-03-01' };
+
 /** Validation of a product is its own case, in its own process, reading the written file. */
 export const CHECK_PREFIX = 'check-';
 export const checkCaseOf = (productCase: string): string => `${CHECK_PREFIX}${productCase}`;
 
-export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name];
+export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name, RESPONSE_CASE.name];
 
 /**
  * Profile with every component on: Gaussian core, low-energy tail, shelf, Si escape peak, Si

@@ -8,7 +8,10 @@ import { arfDiffTable, parameterDiffs, rmfDiffTable, type ComparedPair, type Com
 import { KilnInputError } from '../errors.ts';
 import { readFitsFile } from '../node/index.ts';
 import { identifyProduct, readArf, readRmf } from '../ogip/index.ts';
-import type { ReleaseSite } from '../site-data/types.ts';
+import type { ReleaseSite, ReleaseSpectral } from '../site-data/types.ts';
+import { SPECTRAL_FILE } from '../content/schema.ts';
+import type { Instrument } from '../content/types.ts';
+import { releaseSpectral } from './impact.ts';
 import { arfValidOn } from './validity.ts';
 import { hasReleaseSummary, readReleaseSite } from './site-files.ts';
 
@@ -76,4 +79,18 @@ export function compareFiles(fileA: string, fileB: string): CompareReport {
     pair = { label: 'ARF', detector: null, a, b, kind: 'arf', arf: arfDiffTable(ra, rb), checks: compareArf(ra, rb, b) };
   }
   return { schema: 'kiln/compare/1', a, b, pairs: [pair], parameters: [], unmatched: [] };
+}
+
+/**
+ * `kiln compare A B --impact`: each reference source of the release's instrument simulated with
+ * B's responses and fitted with both (the build's impact, for any pair). The sources and spectral
+ * settings come from the content tree the releases were built from.
+ */
+export function compareImpact(outDir: string, instrument: Instrument, idA: string, idB: string, log: (line: string) => void = () => {}): ReleaseSpectral {
+  const A = readSite(outDir, idA);
+  const B = readSite(outDir, idB);
+  if (!instrument.spectral || !(instrument.sources ?? []).length)
+    throw new KilnInputError('the instrument has no reference sources to fold', { file: join(instrument.dir, SPECTRAL_FILE), expected: `a ${SPECTRAL_FILE} and sources/<id>.yaml beside ${basename(instrument.file)} (README "Reference sources and impact")` });
+  const side = (id: string, s: ReleaseSite) => ({ id, dir: join(outDir, 'releases', id), products: s.products });
+  return releaseSpectral(instrument, side(idB, B), side(idA, A), log)!;
 }

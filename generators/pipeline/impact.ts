@@ -88,7 +88,12 @@ function num(x: number): string {
   return Math.abs(x) >= 1e-3 && Math.abs(x) < 1e6 ? String(Number(x.toPrecision(5))) : x.toExponential(4);
 }
 
-/** The impact as checks of the validation report: `review` beyond the tolerances, `pass` within. */
+/**
+ * The impact as checks of the validation report: `review` beyond the tolerances, `pass` within.
+ * Each check's id names its source and parameter or band (`review.impact.<source>.<parameter>`,
+ * `review.impact.<source>.band.<band>`), so id + product identify it uniquely: a sign-off in
+ * release.yaml accepts one item, and a comparison pairs each with its own counterpart.
+ */
 export function impactChecks(s: ReleaseSpectral, products: readonly ProductSummary[]): Check[] {
   const out: Check[] = [];
   const label = `${s.comparedWith} → ${s.release}`;
@@ -97,7 +102,7 @@ export function impactChecks(s: ReleaseSpectral, products: readonly ProductSumma
     for (const p of im.parameters)
       out.push(
         makeCheck(p.review ? 'review' : 'pass', {
-          id: 'review.impact.parameter-shift',
+          id: `review.impact.${im.source}.${p.name}`,
           title: `Fitted ${p.name} of reference source ${im.source} (${label})`,
           product,
           measured: Number(p.shiftSigma.toPrecision(4)),
@@ -109,7 +114,7 @@ export function impactChecks(s: ReleaseSpectral, products: readonly ProductSumma
     for (const b of im.bands)
       out.push(
         makeCheck(b.review ? 'review' : 'pass', {
-          id: 'review.impact.band-rate',
+          id: `review.impact.${im.source}.band.${b.name}`,
           title: `Predicted ${b.name} band rate (${b.loKeV}–${b.hiKeV} keV) of reference source ${im.source} (${label})`,
           product,
           measured: b.ratio === null ? null : Number(b.ratio.toPrecision(6)),

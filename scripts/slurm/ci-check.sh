@@ -2,7 +2,7 @@
 # CI step (.ci/run): a sharded demo build on a real single-node Slurm.
 #   1. start the cluster (local-cluster.sh; stopped by PID on exit, whatever happens);
 #   2. build the demo on this machine (the reference);
-#   3. submit it as 3 shard tasks + the gather job (submit.sh) and wait for the gather;
+#   3. submit it as 4 shard tasks + the gather job (submit.sh) and wait for the gather;
 #   4. require the gathered output (products, site data, reports) to equal the reference byte for
 #      byte (every file compared);
 #   5. submit again with shard 2 not run: the gather job must fail, naming the missing job.
@@ -12,9 +12,9 @@ set -uo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
 root=$(cd "$here/../.." && pwd)
 RESULTS="${1:?usage: ci-check.sh RESULTS_FILE}"
-# Seconds each submission may take end to end (shards + gather: ~15 s on 2 cores); with the
-# start timeout this bounds the step at about 3 minutes.
-WAIT_S=60
+# Seconds each submission may take end to end (shards + gather with the spectral impact fits:
+# ~40 s on 2 cores); with the start timeout this bounds the step at about 7 minutes.
+WAIT_S=180
 work=$(mktemp -d /tmp/kiln-slurm-XXXXXX)
 : > "$RESULTS"
 checks=("cluster starts" "sharded build completes" "gathered output equals a local build" "gather refuses a missing shard, naming its job" "daemons stopped by their PIDs")
@@ -36,7 +36,7 @@ record pass "${checks[0]}"
 
 node bin/kiln.mjs build --out "$work/local" --no-cache --quiet || { echo "local build failed"; exit 1; }
 
-if "$here/submit.sh" --shards 3 --work "$work/run" --out "$work/gathered" --wait "$WAIT_S"; then
+if "$here/submit.sh" --shards 4 --work "$work/run" --out "$work/gathered" --wait "$WAIT_S"; then
   record pass "${checks[1]}"
   if diff -r "$work/local" "$work/gathered" >/dev/null && [ -f "$work/gathered/index.json" ]; then record pass "${checks[2]}"
   else diff -rq "$work/local" "$work/gathered" | head; record fail "${checks[2]}"; fi
@@ -45,13 +45,13 @@ else
   record fail "${checks[1]}"; record fail "${checks[2]}"
 fi
 
-# The demo plans four jobs, 2.0.0/fi0, 2.0.0/bi1, 2.1.0/fi0, 2.1.0/bi1: shard 2 of 3 holds 2.0.0/bi1.
-if "$here/submit.sh" --shards 3 --only 1,3 --work "$work/lost" --out "$work/lost-out" --wait "$WAIT_S"; then
+# The demo plans four jobs, 2.0.0/fi0, 2.0.0/bi1, 2.1.0/fi0, 2.1.0/bi1: shard 2 of 4 holds 2.0.0/bi1.
+if "$here/submit.sh" --shards 4 --only 1,3,4 --work "$work/lost" --out "$work/lost-out" --wait "$WAIT_S"; then
   record fail "${checks[3]}"
 else
   log=$(cat "$work"/lost/logs/gather-*.out 2>/dev/null)
   echo "$log"
-  if grep -q 'planned jobs missing: 2.0.0/bi1 (shard 2/3 not given or failed)' <<<"$log" && [ ! -e "$work/lost-out" ]; then record pass "${checks[3]}"
+  if grep -q 'planned jobs missing: 2.0.0/bi1 (shard 2/4 not given or failed)' <<<"$log" && [ ! -e "$work/lost-out" ]; then record pass "${checks[3]}"
   else record fail "${checks[3]}"; fi
 fi
 

@@ -18,13 +18,39 @@ const day = (s: string) => s.slice(0, 10);
 export const coversDate = (p: { validFrom: string; validTo: string | null }, dateIso: string): boolean =>
   day(p.validFrom) <= day(dateIso) && (p.validTo === null || day(dateIso) < day(p.validTo));
 
+/**
+ * Where on the detector the photons landed: a readout node and a row band, each null for "any".
+ * A product made for the whole detector (no node, no row band: every ARF, and the matrices of
+ * releases built per detector) applies to every position; a per-region matrix only to its own.
+ */
+export interface FinderPosition {
+  node?: string | null;
+  rowBand?: string | null;
+}
+
+export const coversPosition = (p: { node?: string; rowBand?: string }, at: FinderPosition): boolean =>
+  (p.node === undefined || at.node == null || p.node === at.node) && (p.rowBand === undefined || at.rowBand == null || p.rowBand === at.rowBand);
+
+/** The readout nodes and row bands some product of a detector is made for (sorted), from the index or a finder document. */
+export function regionsOf(index: Pick<ReleaseIndex, 'releases'>, detector: string): { nodes: string[]; rowBands: string[] } {
+  const nodes = new Set<string>();
+  const rowBands = new Set<string>();
+  for (const r of index.releases)
+    for (const p of r.products)
+      if (p.detector === detector) {
+        if (p.node !== undefined) nodes.add(p.node);
+        if (p.rowBand !== undefined) rowBands.add(p.rowBand);
+      }
+  return { nodes: [...nodes].sort(), rowBands: [...rowBands].sort() };
+}
+
 /** `index`: the release index, or a detector's finder document (same releases, fewer products). */
-export function findFiles(index: Pick<ReleaseIndex, 'releases'>, detector: string, dateIso: string): FinderHit[] {
+export function findFiles(index: Pick<ReleaseIndex, 'releases'>, detector: string, dateIso: string, at: FinderPosition = {}): FinderHit[] {
   const hits: FinderHit[] = [];
   for (const r of index.releases) {
     if (r.status === 'draft') continue;
     for (const p of r.products)
-      if (p.detector === detector && coversDate(p, dateIso))
+      if (p.detector === detector && coversDate(p, dateIso) && coversPosition(p, at))
         hits.push({
           release: r,
           product: p,

@@ -14,11 +14,26 @@ export function initFinder(): void {
   const form = document.getElementById('finder-form') as HTMLFormElement | null;
   const det = document.getElementById('finder-detector') as HTMLSelectElement | null;
   const date = document.getElementById('finder-date') as HTMLInputElement | null;
+  const node = document.getElementById('finder-node') as HTMLSelectElement | null;
+  const rows = document.getElementById('finder-rows') as HTMLSelectElement | null;
   const out = document.getElementById('finder-result');
-  if (!form || !det || !date || !out) return;
+  if (!form || !det || !date || !node || !rows || !out) return;
   const q = new URLSearchParams(location.search);
   if (q.get('detector')) det.value = q.get('detector')!;
   if (q.get('date') && ISO_DATE.test(q.get('date')!)) date.value = q.get('date')!;
+  // The nodes and row bands of the chosen detector (from its option's data attributes), "any" first.
+  const fill = (sel: HTMLSelectElement, ids: string[], want: string | null) => {
+    sel.replaceChildren(new Option('any', ''), ...ids.map((id) => new Option(id, id)));
+    sel.value = want !== null && ids.includes(want) ? want : '';
+    (sel.closest('label') as HTMLElement | null)?.toggleAttribute('hidden', ids.length === 0);
+  };
+  const regions = () => {
+    const o = det.selectedOptions[0];
+    const list = (s: string | undefined) => (s ? s.split(' ').filter(Boolean) : []);
+    fill(node, list(o?.dataset.nodes), node.value || q.get('node'));
+    fill(rows, list(o?.dataset.rowBands), rows.value || q.get('rows'));
+  };
+  regions();
 
   // Only the chosen detector's files are fetched (one small document), whatever the site's size.
   const run = async () => {
@@ -29,6 +44,9 @@ export function initFinder(): void {
     const u = new URL(location.href);
     u.searchParams.set('detector', det.value);
     u.searchParams.set('date', date.value);
+    for (const [k, sel] of [['node', node], ['rows', rows]] as const)
+      if (sel.value) u.searchParams.set(k, sel.value);
+      else u.searchParams.delete(k);
     history.replaceState(null, '', u);
     const instrument = det.selectedOptions[0]?.dataset.instrument ?? '';
     let doc: FinderDetectorDoc;
@@ -38,7 +56,10 @@ export function initFinder(): void {
       out.innerHTML = `<p class="callout">Could not load the file list of ${esc(det.value)}: ${esc((e as Error).message)}</p>`;
       return;
     }
-    const hits = findFiles(doc, det.value, date.value);
+    const at = { node: node.value || null, rowBand: rows.value || null };
+    const hits = findFiles(doc, det.value, date.value, at);
+    const where = [at.node ? `node ${at.node}` : '', at.rowBand ? `rows ${at.rowBand}` : ''].filter(Boolean).join(', ');
+    const region = (p: (typeof hits)[number]['product']) => [p.node ? `node ${p.node}` : '', p.rowBand ? `rows ${p.rowBand}` : ''].filter(Boolean).join(', ') || 'whole detector';
     if (!hits.length) {
       out.innerHTML = `<p class="callout">No file of any release covers ${esc(det.value)} on ${esc(date.value)}.</p>`;
       return;
@@ -46,25 +67,31 @@ export function initFinder(): void {
     const best = hits[0].release;
     const detName = det.selectedOptions[0]?.textContent?.split(' — ')[0] ?? det.value;
     const link = (h: (typeof hits)[number], dl = true) => `<a href="/releases/${esc(h.release.id)}/${esc(h.product.path)}"${dl ? ' download' : ''}>${breakableNameHtml(fileName(h.product.path))}</a>`;
-    const rows = hits.map(
+    const hitRows = hits.map(
       (h) =>
-        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td data-label="Release"><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td data-label="Status"><span class="st st-${h.release.status}">${h.release.status}</span></td><td data-label="Kind">${h.product.kind.toUpperCase()}</td><td data-label="Epoch">${esc(h.product.epoch)}</td><td data-label="Valid for observations" class="nowrap">${esc(validity(h.product.validFrom, h.product.validTo))}</td><td data-label="File" class="nowrap file">${link(h)}</td><td data-label="Size" class="num">${formatBytes(h.product.bytes)}</td><td data-label="SHA-256">${shaCellHtml(h.product.sha256, h.product.path)}</td><td data-label="Note" class="note${h.warning ? '' : ' empty'}">${h.warning ? `<span><span class="st st-warn">warning</span> ${esc(h.warning)}</span>` : ''}</td></tr>`,
+        `<tr class="${h.release.id === best.id ? 'best' : ''}"><td data-label="Release"><a href="/releases/${esc(h.release.id)}/">${esc(h.release.id)}</a></td><td data-label="Status"><span class="st st-${h.release.status}">${h.release.status}</span></td><td data-label="Kind">${h.product.kind.toUpperCase()}</td><td data-label="Region">${esc(region(h.product))}</td><td data-label="Epoch">${esc(h.product.epoch)}</td><td data-label="Valid for observations" class="nowrap">${esc(validity(h.product.validFrom, h.product.validTo))}</td><td data-label="File" class="nowrap file">${link(h)}</td><td data-label="Size" class="num">${formatBytes(h.product.bytes)}</td><td data-label="SHA-256">${shaCellHtml(h.product.sha256, h.product.path)}</td><td data-label="Note" class="note${h.warning ? '' : ' empty'}">${h.warning ? `<span><span class="st st-warn">warning</span> ${esc(h.warning)}</span>` : ''}</td></tr>`,
     );
     const bestFiles = hits.filter((h) => h.release.id === best.id);
     const bestWarn = hits[0].warning ? `<p class="callout danger">${esc(hits[0].warning)} No published or candidate release covers this date.</p>` : '';
     const nRel = new Set(hits.map((h) => h.release.id)).size;
     out.innerHTML =
-      `<h2>Files for ${esc(detName)} (${esc(det.value)}) on ${esc(date.value)}</h2>${bestWarn}` +
+      `<h2>Files for ${esc(detName)} (${esc(det.value)})${where ? `, ${esc(where)}` : ''} on ${esc(date.value)}</h2>${bestWarn}` +
+      (new Set(bestFiles.filter((h) => h.product.kind !== 'arf').map((h) => region(h.product))).size > 1 ? '<p class="callout">This release has a matrix per readout region: choose the node (and row band) where your source fell.</p>' : '') +
       `<p class="callout info" id="finder-best">Use release <a href="/releases/${esc(best.id)}/"><strong>${esc(best.id)}</strong></a> (${esc(best.status)}): ${bestFiles.map((h) => `${h.product.kind.toUpperCase()} ${link(h)}`).join(' and ')}.</p>` +
       `<p>${hits.length} file${hits.length === 1 ? '' : 's'} in ${nRel} release${nRel === 1 ? '' : 's'} cover this date; the recommended ones are highlighted.</p>` +
-      `<div class="table-wrap"><table class="data stack" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+      `<div class="table-wrap"><table class="data stack" id="finder-hits"><thead><tr><th>Release</th><th>Status</th><th>Kind</th><th>Region</th><th>Epoch</th><th>Valid for observations</th><th>File</th><th class="num">Size</th><th>SHA-256</th><th>Note</th></tr></thead><tbody>${hitRows.join('')}</tbody></table></div>`;
     initCopyButtons(out);
   };
   form.addEventListener('submit', (e) => {
     e.preventDefault();
     void run();
   });
-  det.addEventListener('change', () => void run());
+  det.addEventListener('change', () => {
+    regions();
+    void run();
+  });
+  node.addEventListener('change', () => void run());
+  rows.addEventListener('change', () => void run());
   date.addEventListener('change', () => void run());
   if (q.get('date')) void run();
 }

@@ -52,10 +52,11 @@ function unwrap(s: Schema): Schema {
  * Replaces every string leaf of `value` (and adds every absent optional string field of its
  * objects) with a payload, keeping a change only when the whole document still validates.
  */
-function attack(doc: Record<string, unknown>, schema: Schema, file: string): void {
+function attack(doc: Record<string, unknown>, schema: Schema, file: string, skip: (path: string) => boolean = () => false): void {
   const valid = () => schema.safeParse(doc).success;
   if (!valid()) throw new Error(`test setup: ${file} does not validate before the attack`);
   const tryPayloads = (set: (v: string | undefined) => void, where: string, old: unknown) => {
+    if (skip(where)) return;
     for (const p of PAYLOADS) {
       const v = p.replace(/N/g, String(attacked.length + 1));
       set(v);
@@ -88,10 +89,13 @@ function attack(doc: Record<string, unknown>, schema: Schema, file: string): voi
   });
 }
 
-function editYaml(file: string, schema: Schema, prepare: (d: Record<string, unknown>) => void = () => {}): void {
+/** A source's fit section names parameters of its components: references checked after the schema, not text. */
+const SOURCE_REFERENCES = (path: string) => path.startsWith('.fit.') || path.startsWith('.fit[');
+
+function editYaml(file: string, schema: Schema, prepare: (d: Record<string, unknown>) => void = () => {}, skip?: (path: string) => boolean): void {
   const doc = parse(readFileSync(file, 'utf8')) as Record<string, unknown>;
   prepare(doc);
-  attack(doc, schema, file.slice(content.length + 1));
+  attack(doc, schema, file.slice(content.length + 1), skip);
   writeFileSync(file, stringify(doc));
 }
 
@@ -105,7 +109,7 @@ beforeAll(() => {
     // The instrument's other documents: readout regions, spectral settings, reference sources.
     if (existsSync(join(dir, 'regions.yaml'))) editYaml(join(dir, 'regions.yaml'), regionsFileSchema);
     if (existsSync(join(dir, 'spectral.yaml'))) editYaml(join(dir, 'spectral.yaml'), spectralSchema);
-    if (existsSync(join(dir, 'sources'))) for (const f of readdirSync(join(dir, 'sources')).filter((n) => n.endsWith('.yaml'))) editYaml(join(dir, 'sources', f), sourceSchema);
+    if (existsSync(join(dir, 'sources'))) for (const f of readdirSync(join(dir, 'sources')).filter((n) => n.endsWith('.yaml'))) editYaml(join(dir, 'sources', f), sourceSchema, undefined, SOURCE_REFERENCES);
   }
   for (const id of readdirSync(join(content, 'releases'))) {
     editYaml(join(content, 'releases', id, 'release.yaml'), releaseSchema, (d) => (d.status = 'draft'));

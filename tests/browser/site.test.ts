@@ -194,9 +194,28 @@ describe('finder page', () => {
     const rank = ['published', 'candidate', 'superseded', 'withdrawn'];
     const ranks = statuses.map((s) => rank.indexOf(s!));
     expect([...ranks].sort((a, b) => a - b)).toEqual(ranks);
-    const warned = await page.$$eval('#finder-hits tbody tr', (trs) => trs.map((t) => [t.children[1].textContent?.trim(), /warning/.test(t.children[8].textContent ?? '')]));
+    const warned = await page.$$eval('#finder-hits tbody tr', (trs) => trs.map((t) => [t.children[1].textContent?.trim(), /warning/.test(t.querySelector('td.note')?.textContent ?? '')]));
     for (const [s, w] of warned) expect(w).toBe(s === 'superseded' || s === 'withdrawn');
     await page.screenshot({ path: `${SHOTS}/finder-result.png`, fullPage: true });
+    await page.close();
+  });
+
+  it('a readout node picks that node\'s matrix of a release built per node, and every whole-detector file', async () => {
+    const perNode = index.releases.find((r) => r.products.some((x) => x.node !== undefined));
+    expect(perNode, 'the demo has a release built per readout node').toBeDefined();
+    const rmf = perNode!.products.find((x) => x.kind === 'rmf' && x.node !== undefined)!;
+    const other = perNode!.products.find((x) => x.kind === 'rmf' && x.detector === rmf.detector && x.node !== rmf.node)!;
+    const { page } = await open(`/finder/?detector=${rmf.detector}&date=${rmf.validFrom}&node=${rmf.node}`);
+    await page.waitForSelector('#finder-hits');
+    expect(await page.inputValue('#finder-node')).toBe(rmf.node);
+    const files = await page.$$eval('#finder-hits td.file a', (as) => as.map((a) => a.getAttribute('href') ?? ''));
+    expect(files).toContain(`/releases/${perNode!.id}/${rmf.path}`);
+    expect(files).not.toContain(`/releases/${perNode!.id}/${other.path}`);
+    // Files of releases built per detector still apply wherever the source fell.
+    expect(files.some((f) => !f.startsWith(`/releases/${perNode!.id}/`))).toBe(true);
+    await page.selectOption('#finder-node', '');
+    await expect.poll(async () => (await page.$$eval('#finder-hits td.file a', (as) => as.map((a) => a.getAttribute('href') ?? ''))).includes(`/releases/${perNode!.id}/${other.path}`)).toBe(true);
+    expect(new URL(page.url()).searchParams.get('node')).toBeNull();
     await page.close();
   });
 });

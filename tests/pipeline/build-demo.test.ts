@@ -65,6 +65,14 @@ describe('kiln build of the demo content', () => {
       expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|spectral\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
+  it('every check of a validation report is identified by its id and product alone (sign-off and comparisons join on them)', () => {
+    for (const id of DEMO_RELEASES) {
+      const report = JSON.parse(readFileSync(join(ws.out, 'releases', id, 'validation.json'), 'utf8')) as { checks: { id: string; product: string | null }[] };
+      const keys = report.checks.map((c) => `${c.id} ${c.product ?? ''}`);
+      expect(keys.filter((k, i) => keys.indexOf(k) !== i), id).toEqual([]);
+    }
+  });
+
   it('every manifest entry has the size and SHA-256 of the bytes on disk (node:crypto)', () => {
     expect(manifests.size).toBe(DEMO_RELEASES.length);
     let n = 0;

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { ProductSummary, ReleaseIndex, ReleaseStatus, ReleaseSummary } from '../../generators/site-data/types.ts';
-import { coversDate, findFiles } from '../../src/lib/finder.ts';
+import { coversDate, findFiles, regionsOf } from '../../src/lib/finder.ts';
 import { currentRelease } from '../../src/lib/status.ts';
 
 const prod = (det: string, from: string, to: string | null, kind: 'rmf' | 'arf' = 'arf'): ProductSummary => ({
@@ -65,5 +65,30 @@ describe('currentRelease', () => {
     expect(currentRelease(index.releases, 'd0')?.id).toBe('2');
     expect(currentRelease([index.releases[0], index.releases[1]], 'd0')?.id).toBe('3');
     expect(currentRelease([index.releases[3]], 'd0')).toBeNull();
+  });
+});
+
+describe('findFiles at a position on the detector (readout node, row band)', () => {
+  // A release built per node: one matrix per node, the ARFs for the whole detector; an older
+  // release built per detector. Invented fixture; the rule is the contract's (types.ts).
+  const node = (n: string, rowBand?: string): ProductSummary => ({ ...prod('d0', '2020-01-01', null, 'rmf'), id: `d0-${n}${rowBand ?? ''}-rmf`, path: `files/d0-${n}${rowBand ?? ''}.rmf.gz`, node: n, ...(rowBand ? { rowBand } : {}) });
+  const regional: ReleaseIndex = {
+    schema: 'kiln/release-index/1',
+    instruments: [],
+    releases: [rel('2', 'published', '2025-01-01', [node('a'), node('b'), node('b', 'r2'), prod('d0', '2020-01-01', null)]), rel('1', 'superseded', '2024-01-01', [prod('d0', '2020-01-01', null, 'rmf'), prod('d0', '2020-01-01', null)])],
+  };
+  const ids = (at: Parameters<typeof findFiles>[3]) => findFiles(regional, 'd0', '2024-06-01', at).map((h) => `${h.release.id}:${h.product.id}`);
+
+  it('a node picks its own matrix and every whole-detector file, never another node\'s matrix', () => {
+    expect(ids({ node: 'a' })).toEqual(['2:d0-a-rmf', '2:d0-2020-01-01-arf', '1:d0-2020-01-01-rmf', '1:d0-2020-01-01-arf']);
+    expect(ids({ node: 'b', rowBand: 'r2' })).toEqual(['2:d0-b-rmf', '2:d0-br2-rmf', '2:d0-2020-01-01-arf', '1:d0-2020-01-01-rmf', '1:d0-2020-01-01-arf']);
+  });
+  it('"any" position lists every region\'s matrix', () => {
+    expect(ids({})).toHaveLength(6);
+    expect(ids({ node: null, rowBand: null })).toEqual(ids({}));
+  });
+  it('regionsOf lists the nodes and row bands some product is made for', () => {
+    expect(regionsOf(regional, 'd0')).toEqual({ nodes: ['a', 'b'], rowBands: ['r2'] });
+    expect(regionsOf(regional, 'd1')).toEqual({ nodes: [], rowBands: [] });
   });
 });
