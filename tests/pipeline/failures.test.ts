@@ -75,7 +75,7 @@ describe('bad input: one line, exit 2, for every verb', () => {
   });
 
   it('unknown verb option and bad usage, every verb', () => {
-    for (const verb of ['build', 'site', 'publish', 'report', 'check', 'inspect', 'compare', 'efficiency', 'response', 'fold', 'simulate', 'fit'])
+    for (const verb of ['build', 'site', 'plan', 'gather', 'publish', 'report', 'check', 'inspect', 'compare', 'efficiency', 'response', 'fold', 'simulate', 'fit'])
       fails([verb, '--no-such-option'], INPUT, /unknown option --no-such-option/);
   });
 
