@@ -7,6 +7,7 @@
  * And the standard normal's upper quantile by bisection on erfc (exact to double precision).
  */
 import { erfc } from '../physics/special.ts';
+import { exp, log } from '../numeric/index.ts';
 
 export function chiSquareSurvival(x: number, dof: number): number {
   if (!(dof >= 1) || !Number.isInteger(dof)) throw new Error(`chiSquareSurvival: dof must be a positive integer, got ${dof}`);
@@ -17,17 +18,17 @@ export function chiSquareSurvival(x: number, dof: number): number {
   let logTerm: number;
   if (dof % 2 === 0) {
     a = 1;
-    q = Math.exp(-y);
-    logTerm = Math.log(y) - y; // y^1 e^{−y} / Γ(2)
+    q = exp(-y);
+    logTerm = log(y) - y; // y^1 e^{−y} / Γ(2)
   } else {
     a = 0.5;
     q = erfc(Math.sqrt(y));
-    logTerm = 0.5 * Math.log(y) - y - Math.log(Math.sqrt(Math.PI) / 2); // y^½ e^{−y} / Γ(3/2)
+    logTerm = 0.5 * log(y) - y - log(Math.sqrt(Math.PI) / 2); // y^½ e^{−y} / Γ(3/2)
   }
   while (a < dof / 2) {
-    q += Math.exp(logTerm);
+    q += exp(logTerm);
     a += 1;
-    logTerm += Math.log(y) - Math.log(a);
+    logTerm += log(y) - log(a);
   }
   return Math.min(1, q);
 }

@@ -37,7 +37,7 @@ export function slug(label: string): string {
  */
 export function closureSigma(sigma: number | null | undefined, floor: number): number {
   const m = typeof sigma === 'number' && Number.isFinite(sigma) ? Math.abs(sigma) : 0;
-  return Math.hypot(m, floor / 3);
+  return Math.sqrt(m * m + (floor / 3) * (floor / 3));
 }
 
 /** Allowed deviation: k·σ_total (k = 3 reproduces the floor alone when the measurement's σ is 0). */
@@ -77,7 +77,7 @@ export function checkLineClosure(
   // Δ²/12 to the variance of a monochromatic line's core (the same uniform-average rule as Sheppard's).
   const br = bracket(rmf.energLoKeV, rmf.energHiKeV, line.energyKeV);
   const binEv = opts.binAveraged ? (rmf.energHiKeV[br.i0] - rmf.energLoKeV[br.i0]) * EV_PER_KEV : 0;
-  const expectedFwhmEv = Math.sqrt(line.fwhmEv ** 2 + (FWHM_PER_SIGMA * binEv) ** 2 / 12);
+  const expectedFwhmEv = Math.sqrt(line.fwhmEv * line.fwhmEv + (FWHM_PER_SIGMA * binEv * (FWHM_PER_SIGMA * binEv)) / 12);
   const dFwhmEv = core.fwhmEv - expectedFwhmEv;
   const fTol = allowed(line.fwhmErrEv, tol.fwhmSigma, tol.fwhmFloorEv);
   return [

@@ -12,6 +12,7 @@ import { expandRow } from '../response/compress.ts';
 import { plural } from '../plural.ts';
 import { DEFAULT_COMPARE_TOLERANCES, type CompareTolerances } from './tolerances.ts';
 import type { Check } from './types.ts';
+import { exp, log } from '../numeric/index.ts';
 
 const EV_PER_KEV = 1000;
 /** Ignore energies where the older area is below this fraction of its peak: ratios of tiny areas are noise (Kiln's choice). */
@@ -67,8 +68,8 @@ export function compareArf(older: ArfData, newer: ArfData, product: string | nul
 }
 
 function logSpaced(lo: number, hi: number, n: number): number[] {
-  const a = Math.log(lo), b = Math.log(hi);
-  return Array.from({ length: n }, (_, i) => Math.exp(a + ((b - a) * (i + 0.5)) / n));
+  const a = log(lo), b = log(hi);
+  return Array.from({ length: n }, (_, i) => exp(a + ((b - a) * (i + 0.5)) / n));
 }
 
 /**

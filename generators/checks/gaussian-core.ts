@@ -9,6 +9,7 @@
 import { FWHM_PER_SIGMA } from '../physics/resolution.ts';
 import type { RmfData } from '../response/types.ts';
 import { bracket, denseRow } from './interpolate.ts';
+import { log } from '../numeric/index.ts';
 
 /** FWHM = 2·sqrt(2 ln 2)·σ for a Gaussian (one definition, in physics/resolution.ts). */
 export { FWHM_PER_SIGMA };
@@ -64,8 +65,8 @@ export function fitRowCore(rmf: RmfData, i: number, opts: CoreFitOptions = {}): 
   for (let k = a; k <= b; k++) {
     const x = 0.5 * (eMinKeV[k] + eMaxKeV[k]) - x0;
     const w = dens[k] * dens[k];
-    const ly = Math.log(dens[k]);
-    s0 += w; s1 += w * x; s2 += w * x * x; s3 += w * x ** 3; s4 += w * x ** 4;
+    const ly = log(dens[k]);
+    s0 += w; s1 += w * x; s2 += w * x * x; s3 += w * x * x * x; s4 += w * x * x * (x * x);
     t0 += w * ly; t1 += w * x * ly; t2 += w * x * x * ly;
     widthSum += eMaxKeV[k] - eMinKeV[k];
   }

@@ -29,7 +29,7 @@ export function parameterDiffs(a: readonly ParameterRow[], b: readonly Parameter
     if (diff === 0) continue;
     const ua = pa?.uncertainty ?? null;
     const ub = pb?.uncertainty ?? null;
-    const sigma = ua !== null && ub !== null ? Math.hypot(ua, ub) : null;
+    const sigma = ua !== null && ub !== null ? Math.sqrt(ua * ua + ub * ub) : null;
     out.push({
       detector: p.detector,
       group: p.group,

@@ -4,6 +4,7 @@
  */
 import { arfAt, bracket, fitCoreAt, lerpAt, rowSums } from '../checks/index.ts';
 import type { ArfData, RmfData } from '../response/types.ts';
+import { exp, log } from '../numeric/index.ts';
 
 const EV_PER_KEV = 1000;
 /** Probe energies per comparison, log-spaced over the common range (Kiln's choice: a readable table). */
@@ -31,9 +32,9 @@ export function probeEnergies(loA: number, hiA: number, loB: number, hiB: number
   const lo = Math.max(loA, loB);
   const hi = Math.min(hiA, hiB);
   if (!(hi > lo)) return [];
-  const a = Math.log(lo);
-  const b = Math.log(hi);
-  return Array.from({ length: n }, (_, i) => Math.exp(a + ((b - a) * (i + 0.5)) / n));
+  const a = log(lo);
+  const b = log(hi);
+  return Array.from({ length: n }, (_, i) => exp(a + ((b - a) * (i + 0.5)) / n));
 }
 
 const last = (x: Float64Array) => x[x.length - 1];

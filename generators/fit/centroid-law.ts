@@ -6,6 +6,7 @@
  */
 import type { CentroidLaw, LineFit } from '../response/model-types.ts';
 import { weightedLeastSquares, type FitResult } from './lsq.ts';
+import { exp } from '../numeric/index.ts';
 
 export const CENTROID_LAW_PARAMS = ['gainError', 'offsetEv', 'chargeLossEv', 'chargeLossScaleKeV'] as const;
 export type CentroidLawParam = (typeof CENTROID_LAW_PARAMS)[number];
@@ -20,7 +21,7 @@ export interface CentroidFitOptions {
 
 export function centroidShiftEv(theta: readonly number[], energyKeV: number): number {
   const [g, off, cl, s] = theta;
-  return g * energyKeV * 1000 + off - cl * Math.exp(-energyKeV / s);
+  return g * energyKeV * 1000 + off - cl * exp(-energyKeV / s);
 }
 
 export function fitCentroidLaw(lines: readonly LineFit[], o: CentroidFitOptions = {}): FitResult {
@@ -42,7 +43,7 @@ export function fitCentroidLaw(lines: readonly LineFit[], o: CentroidFitOptions 
     model: centroidShiftEv,
     jacobian: (t, e) => {
       const [, , cl, s] = t;
-      const x = Math.exp(-e / s);
+      const x = exp(-e / s);
       return [e * 1000, 1, -x, (-cl * x * e) / (s * s)];
     },
   });

@@ -30,7 +30,7 @@ export interface FwhmFitOptions {
 export function fwhmModelEv(theta: readonly number[], energyKeV: number, w: number, ppe: { a: number; bPerKeV: number }): number {
   const [nr, fano, s0] = theta;
   const npix = ppe.a + ppe.bPerKeV * energyKeV;
-  return FWHM_PER_SIGMA * Math.sqrt((w * nr) ** 2 * npix + fano * w * energyKeV * 1000 + s0 * s0);
+  return FWHM_PER_SIGMA * Math.sqrt(w * nr * (w * nr) * npix + fano * w * energyKeV * 1000 + s0 * s0);
 }
 
 export function fitFwhmLaw(lines: readonly LineFit[], o: FwhmFitOptions): FitResult {
@@ -57,7 +57,7 @@ export function fitFwhmLaw(lines: readonly LineFit[], o: FwhmFitOptions): FitRes
     jacobian: (t, e) => {
       const [nr, fano, s0] = t;
       const npix = ppe.a + ppe.bPerKeV * e;
-      const sigma = Math.sqrt((w * nr) ** 2 * npix + fano * w * e * 1000 + s0 * s0);
+      const sigma = Math.sqrt(w * nr * (w * nr) * npix + fano * w * e * 1000 + s0 * s0);
       const k = FWHM_PER_SIGMA / sigma;
       return [k * w * w * nr * npix, (k * w * e * 1000) / 2, k * s0];
     },

@@ -9,6 +9,7 @@
  */
 import { KilnInputError } from '../errors.ts';
 import type { LineFit } from '../response/model-types.ts';
+import { exp, expm1, log } from '../numeric/index.ts';
 
 export interface BandLine {
   fit: LineFit;
@@ -58,11 +59,11 @@ export function fitTransferLoss(lines: readonly BandLine[], opts: { referenceKeV
     if (ns.size < 2) continue;
     const fit = weightedLine(
       group.map((g) => g.meanTransfers),
-      group.map((g) => Math.log(g.fit.centroidKeV)),
-      group.map((g) => (g.fit.centroidKeV / (g.fit.centroidErrEv / EV_PER_KEV)) ** 2),
+      group.map((g) => log(g.fit.centroidKeV)),
+      group.map((g) => squared(g.fit.centroidKeV / (g.fit.centroidErrEv / EV_PER_KEV))),
     );
-    const loss = -Math.expm1(fit.slope);
-    perLine.push({ line, energyKeV: group[0].fit.energyKeV, loss, lossErr: Math.exp(fit.slope) * fit.slopeErr });
+    const loss = -expm1(fit.slope);
+    perLine.push({ line, energyKeV: group[0].fit.energyKeV, loss, lossErr: exp(fit.slope) * fit.slopeErr });
   }
   if (perLine.length === 0)
     throw new KilnInputError('no line measured in two or more row bands to fit the transfer loss to', {
@@ -80,13 +81,13 @@ export function fitTransferLoss(lines: readonly BandLine[], opts: { referenceKeV
       expected: 'centroids that fall (or stay) with the band\'s transfer count',
     });
   perLine.sort((a, b) => a.energyKeV - b.energyKeV);
-  const x = perLine.map((p) => Math.log(p.energyKeV / opts.referenceKeV));
-  const y = perLine.map((p) => Math.log(p.loss));
-  const w = perLine.map((p) => (p.loss / p.lossErr) ** 2);
+  const x = perLine.map((p) => log(p.energyKeV / opts.referenceKeV));
+  const y = perLine.map((p) => log(p.loss));
+  const w = perLine.map((p) => squared(p.loss / p.lossErr));
   const distinctEnergies = new Set(perLine.map((p) => p.energyKeV)).size;
   if (opts.energyIndex === undefined && distinctEnergies >= 2) {
     const f = weightedLine(x, y, w);
-    const fRef = Math.exp(f.intercept);
+    const fRef = exp(f.intercept);
     return { lossPerTransfer: fRef, lossPerTransferErr: fRef * f.interceptErr, energyIndex: -f.slope, energyIndexErr: f.slopeErr, referenceKeV: opts.referenceKeV, perLine };
   }
   // α held (stated, or a single energy: α = 0): weighted mean of ln f + α·ln(E/E_ref).
@@ -96,6 +97,10 @@ export function fitTransferLoss(lines: readonly BandLine[], opts: { referenceKeV
     sw += w[i];
     swy += w[i] * (y[i] + alpha * x[i]);
   }
-  const fRef = Math.exp(swy / sw);
+  const fRef = exp(swy / sw);
   return { lossPerTransfer: fRef, lossPerTransferErr: fRef / Math.sqrt(sw), energyIndex: alpha, energyIndexErr: null, referenceKeV: opts.referenceKeV, perLine };
+}
+
+function squared(x: number): number {
+  return x * x;
 }

@@ -52,7 +52,7 @@ const ENCODE_OFFSET = 0x30;
 export function encodeChecksum(value: number): string {
   const ascii = new Array<number>(16);
   for (let i = 0; i < 4; i++) {
-    const byte = Math.floor(value / 2 ** ((3 - i) * 8)) & 0xff;
+    const byte = (value >>> ((3 - i) * 8)) & 0xff;
     const quotient = Math.floor(byte / 4) + ENCODE_OFFSET;
     const remainder = byte % 4;
     const ch = [quotient + remainder, quotient, quotient, quotient];

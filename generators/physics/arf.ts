@@ -10,6 +10,7 @@ import type { DetectorStack } from './types.ts';
 import { efficiencyBreakdown, type EfficiencyOptions } from './efficiency.ts';
 import { binAverages, binQuadrature } from './bin-average.ts';
 import { stackEdgesKeV } from './stack-edges.ts';
+import { exp, log } from '../numeric/index.ts';
 
 export interface MirrorAreaTable {
   energyKeV: ArrayLike<number>;
@@ -100,7 +101,7 @@ function mirrorAreaAt(table: MirrorAreaTable, energiesKeV: Float64Array): Float6
     const x = Math.min(Math.max(energiesKeV[i], e[0]), e[n - 1]);
     while (k < n - 2 && x > e[k + 1]) k++;
     const [e0, e1, a0, a1] = [e[k], e[k + 1], a[k], a[k + 1]];
-    if (a0 > 0 && a1 > 0) out[i] = Math.exp(Math.log(a0) + (Math.log(a1 / a0) * Math.log(x / e0)) / Math.log(e1 / e0));
+    if (a0 > 0 && a1 > 0) out[i] = exp(log(a0) + (log(a1 / a0) * log(x / e0)) / log(e1 / e0));
     else out[i] = a0 + ((a1 - a0) * (x - e0)) / (e1 - e0);
   }
   return out;

@@ -5,6 +5,7 @@
  */
 import { KilnInputError } from '../errors.ts';
 import { element, TABLE_ENERGY_MAX_KEV, TABLE_ENERGY_MIN_KEV, type ElementData } from './elements.ts';
+import { exp, log } from '../numeric/index.ts';
 
 /** 'total': photoabsorption + coherent + incoherent scattering; 'photo': photoabsorption only. */
 export type CrossSectionKind = 'total' | 'photo';
@@ -31,11 +32,11 @@ function prepare(el: ElementData): Prepared {
   p = {
     edgesKeV: el.segments.slice(1).map((s) => s.eLoKeV),
     segments: el.segments.map((s) => ({
-      lnLo: Math.log(s.eLoKeV),
-      perLn: (s.photo.length - 1) / Math.log(s.eHiKeV / s.eLoKeV),
+      lnLo: log(s.eLoKeV),
+      perLn: (s.photo.length - 1) / log(s.eHiKeV / s.eLoKeV),
       n: s.photo.length,
-      lnPhoto: Float64Array.from(s.photo, Math.log),
-      lnTotal: Float64Array.from(s.total, Math.log),
+      lnPhoto: Float64Array.from(s.photo, (v) => log(v)),
+      lnTotal: Float64Array.from(s.total, (v) => log(v)),
     })),
   };
   PREPARED.set(el.z, p);
@@ -56,13 +57,13 @@ function interpolate(p: Prepared, energyKeV: number, kind: CrossSectionKind): nu
   let k = 0;
   while (k < p.edgesKeV.length && energyKeV >= p.edgesKeV[k]) k++;
   const s = p.segments[k];
-  const x = (Math.log(energyKeV) - s.lnLo) * s.perLn;
+  const x = (log(energyKeV) - s.lnLo) * s.perLn;
   let i = Math.floor(x);
   if (i < 0) i = 0;
   if (i > s.n - 2) i = s.n - 2;
   const t = x - i;
   const v = kind === 'photo' ? s.lnPhoto : s.lnTotal;
-  return Math.exp(v[i] + (v[i + 1] - v[i]) * t);
+  return exp(v[i] + (v[i + 1] - v[i]) * t);
 }
 
 /** μ/ρ of one element at one energy, cm²/g. Energy outside 0.1–20 keV → KilnInputError. */

@@ -2,6 +2,7 @@
 import { KilnInputError } from '../errors.ts';
 import type { ContaminationLaw, ContaminationSpec } from './types.ts';
 import { materialTransmission } from './layers.ts';
+import { expm1 } from '../numeric/index.ts';
 
 /** Mean Julian year, days (IAU). */
 export const DAYS_PER_YEAR = 365.25;
@@ -43,7 +44,7 @@ export function contaminationThicknessUm(spec: ContaminationSpec | Contamination
     finite(law.asymptoticUm, 'asymptoticUm', 'a finite thickness >= 0 µm', (v) => v >= 0);
     finite(law.timescaleDays, 'timescaleDays', 'a finite time > 0 days', (v) => v > 0);
     if (day < start) return law.initialUm;
-    return law.initialUm + (law.asymptoticUm - law.initialUm) * -Math.expm1(-(day - start) / law.timescaleDays);
+    return law.initialUm + (law.asymptoticUm - law.initialUm) * -expm1(-(day - start) / law.timescaleDays);
   }
   throw new KilnInputError('contamination law: unknown kind', {
     field: 'contamination.law.kind',

@@ -14,6 +14,7 @@ import { KilnInputError } from '../errors.ts';
 import type { SensorSpec } from './types.ts';
 import { materialMassAttenuationArrayCm2g } from './compound.ts';
 import { CM_PER_UM, validateMaterial } from './layers.ts';
+import { exp, expm1 } from '../numeric/index.ts';
 
 /** Below this x = μp the closed form A/x − e^{−x} loses digits; its series is used instead. */
 const SERIES_BELOW_X = 1e-4;
@@ -21,7 +22,7 @@ const SERIES_BELOW_X = 1e-4;
 /** A/x − e^{−x} with A = 1 − e^{−x}: the mean of z/p weighted by absorption in the layer. */
 function rampTerm(x: number): number {
   if (x < SERIES_BELOW_X) return x / 2 - (x * x) / 3 + (x * x * x) / 8;
-  return -Math.expm1(-x) / x - Math.exp(-x);
+  return -expm1(-x) / x - exp(-x);
 }
 
 export function validateSensor(sensor: SensorSpec): void {
@@ -68,13 +69,13 @@ export function sensorAbsorption(sensor: SensorSpec, energiesKeV: Float64Array, 
   const out = new Float64Array(energiesKeV.length);
   for (let j = 0; j < out.length; j++) {
     const mu = muTot[j] * rho;
-    const depleted = -Math.expm1(-mu * dCm);
+    const depleted = -expm1(-mu * dCm);
     let collected: number;
-    if (pCm > 0 && opts.allAbsorbed) collected = -Math.expm1(-mu * (pCm + dCm));
+    if (pCm > 0 && opts.allAbsorbed) collected = -expm1(-mu * (pCm + dCm));
     else if (pCm > 0) {
       const x = mu * pCm;
-      const a = -Math.expm1(-x);
-      collected = c0 * a + (1 - c0) * rampTerm(x) + Math.exp(-x) * depleted;
+      const a = -expm1(-x);
+      collected = c0 * a + (1 - c0) * rampTerm(x) + exp(-x) * depleted;
     } else collected = depleted;
     out[j] = (muPh[j] / muTot[j]) * collected;
   }

@@ -12,6 +12,7 @@
  * Pure: the caller supplies the atomic data, so this file depends on no table.
  */
 import { KilnInputError } from '../errors.ts';
+import { log1p } from '../numeric/index.ts';
 
 export interface EscapeInputs {
   /** K-shell fluorescence yield ω_K of silicon. */
@@ -37,7 +38,7 @@ export function checkEscapeInputs(s: EscapeInputs, field = 'silicon'): void {
 export function escapeFractionFromMu(fluorescenceYield: number, jumpRatio: number, muAtEnergy: number, muAtKAlpha: number): number {
   const r = muAtEnergy / muAtKAlpha;
   // 1 − ln(1 + r)/r; for small r use its series r/2 − r²/3 + r³/4 to avoid cancellation
-  const bracket = r < 1e-4 ? r / 2 - (r * r) / 3 + (r * r * r) / 4 : 1 - Math.log1p(r) / r;
+  const bracket = r < 1e-4 ? r / 2 - (r * r) / 3 + (r * r * r) / 4 : 1 - log1p(r) / r;
   return 0.5 * fluorescenceYield * (1 - 1 / jumpRatio) * bracket;
 }
 

@@ -8,6 +8,7 @@
  * measured quantities beyond the measured lines.
  */
 import { KilnInputError } from '../errors.ts';
+import { log } from '../numeric/index.ts';
 
 export type Interpolator = (x: number) => number;
 
@@ -72,8 +73,8 @@ export function logEnergyInterpolator(energiesKeV: ArrayLike<number>, values: Ar
   const lx = new Float64Array(energiesKeV.length);
   for (let i = 0; i < lx.length; i++) {
     if (!(energiesKeV[i] > 0)) throw new KilnInputError('energies must be > 0 for log interpolation', { field: `${field}[${i}]`, value: energiesKeV[i], expected: '> 0 keV' });
-    lx[i] = Math.log(energiesKeV[i]);
+    lx[i] = log(energiesKeV[i]);
   }
   const f = monotoneCubic(lx, values, field);
-  return (e) => f(Math.log(e));
+  return (e) => f(log(e));
 }

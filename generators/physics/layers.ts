@@ -5,6 +5,7 @@
 import { KilnInputError } from '../errors.ts';
 import type { LayerSpec, MaterialSpec } from './types.ts';
 import { composition, materialMassAttenuationArrayCm2g } from './compound.ts';
+import { exp } from '../numeric/index.ts';
 
 export const CM_PER_UM = 1e-4;
 /**
@@ -55,7 +56,7 @@ export function materialTransmission(
   validateThickness(thicknessUm, where, true);
   const mu = materialMassAttenuationArrayCm2g(material.formula, energiesKeV, 'total');
   const columnGcm2 = material.densityGcm3 * thicknessUm * CM_PER_UM;
-  for (let j = 0; j < mu.length; j++) mu[j] = Math.exp(-mu[j] * columnGcm2);
+  for (let j = 0; j < mu.length; j++) mu[j] = exp(-mu[j] * columnGcm2);
   return mu;
 }
 

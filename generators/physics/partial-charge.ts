@@ -33,6 +33,7 @@ export interface PartialChargeShape {
 }
 
 import { CM_PER_UM } from './layers.ts';
+import { expm1 } from '../numeric/index.ts';
 
 /**
  * The partial-charge component for a photon with attenuation coefficient muPerCm in a sensor with
@@ -40,8 +41,8 @@ import { CM_PER_UM } from './layers.ts';
  */
 export function partialChargeShape(muPerCm: number, layer: PartialLayer, depletionUm: number): PartialChargeShape {
   const x = muPerCm * layer.thicknessUm * CM_PER_UM;
-  const all = -Math.expm1(-muPerCm * (layer.thicknessUm + depletionUm) * CM_PER_UM);
-  const inLayer = -Math.expm1(-x);
+  const all = -expm1(-muPerCm * (layer.thicknessUm + depletionUm) * CM_PER_UM);
+  const inLayer = -expm1(-x);
   const c0 = layer.collectionAtSurface;
   return {
     fraction: all > 0 ? inLayer / all : 0,

@@ -19,6 +19,7 @@
 import { erfc, erfcx, normalCdf, normalPdf, INV_SQRT_2PI, SQRT2 } from './special.ts';
 import { KilnInputError } from '../errors.ts';
 import type { PartialChargeShape } from './partial-charge.ts';
+import { exp, expm1 } from '../numeric/index.ts';
 
 /** Parameters of the profile at one true energy (see generators/response/params.ts). */
 export interface ProfileParams {
@@ -60,8 +61,8 @@ export function gaussianPdf(x: number, c: number, s: number): number {
 /** exp(u/τ + σ²/2τ²)·Φ(−u/σ − σ/τ): the tail part of the EMG CDF (τ times its density). */
 function emgTerm(u: number, s: number, tau: number): number {
   const a = (u / s + s / tau) / SQRT2;
-  if (a >= 0) return 0.5 * Math.exp((-0.5 * u * u) / (s * s)) * erfcx(a);
-  return 0.5 * Math.exp(u / tau + (0.5 * s * s) / (tau * tau)) * erfc(a);
+  if (a >= 0) return 0.5 * exp((-0.5 * u * u) / (s * s)) * erfcx(a);
+  return 0.5 * exp(u / tau + (0.5 * s * s) / (tau * tau)) * erfc(a);
 }
 
 /** CDF of the low-energy exponentially modified Gaussian. */
@@ -82,7 +83,7 @@ function psi(z: number): number {
   if (z <= -WINDOW_SIGMAS) return 0;
   if (z > 0) return z + psi(-z);
   // z ≤ 0: Φ(z) = ½·erfcx(−z/√2)·exp(−z²/2)
-  const g = Math.exp(-0.5 * z * z);
+  const g = exp(-0.5 * z * z);
   return g * (0.5 * z * erfcx(-z / SQRT2) + INV_SQRT_2PI);
 }
 
@@ -113,15 +114,15 @@ function highEmgCdf(x: number, a: number, s: number, k: number): number {
 export function partialCdf(x: number, lo: number, hi: number, k: number, s: number): number {
   const kw = k * (hi - lo);
   if (kw < FLAT_BELOW) return shelfCdf(x, lo, hi, s);
-  const tailBeyond = Math.exp(-kw);
-  return (highEmgCdf(x, lo, s, k) - tailBeyond * highEmgCdf(x, hi, s, k)) / -Math.expm1(-kw);
+  const tailBeyond = exp(-kw);
+  return (highEmgCdf(x, lo, s, k) - tailBeyond * highEmgCdf(x, hi, s, k)) / -expm1(-kw);
 }
 
 export function partialPdf(x: number, lo: number, hi: number, k: number, s: number): number {
   const kw = k * (hi - lo);
   if (kw < FLAT_BELOW) return shelfPdf(x, lo, hi, s);
   // d/dx of highEmgCdf is k·exp(−k(x − a) + k²σ²/2)·Φ((x − a)/σ − kσ) = k·emgTerm(a − x, σ, 1/k)
-  return (k * (emgTerm(lo - x, s, 1 / k) - Math.exp(-kw) * emgTerm(hi - x, s, 1 / k))) / -Math.expm1(-kw);
+  return (k * (emgTerm(lo - x, s, 1 / k) - exp(-kw) * emgTerm(hi - x, s, 1 / k))) / -expm1(-kw);
 }
 
 export function shelfPdf(x: number, lo: number, hi: number, s: number): number {
@@ -156,7 +157,7 @@ function emgMixtureCdf(mu: number, s: number, tau: number, a: number, wlo: numbe
     if (x <= wlo) return 0;
     if (x >= whi) return 1;
     const u = x - mu;
-    if (u < uFast) return a * Math.exp(u / tau + shift);
+    if (u < uFast) return a * exp(u / tau + shift);
     return normalCdf(u / s) + a * emgTerm(u, s, tau);
   };
 }

@@ -8,6 +8,7 @@
  * approximations near 1e-18..1e-19; in IEEE double the achieved relative error is a few ulp
  * (tests check ≤ 1e-14 against the C library's erf/erfc and the Abramowitz & Stegun table 7.1).
  */
+import { exp } from '../numeric/index.ts';
 
 const THRESH = 0.46875;
 /** Below this, x² underflows relative to 1 (≈ 2^-53). */
@@ -45,10 +46,10 @@ const SINGLE_EXP_BELOW = 4;
 /** exp(−y²) computed as exp(−ys²)·exp(−(y−ys)(y+ys)) with ys = y rounded to 1/16, as Cody does, to keep accuracy. */
 function expMinusSquare(y: number): number {
   // Below |y| = 4 the rounding of y² costs at most 16 ulp of exp(−y²) (< 4e-15 relative): one exp.
-  if (y < SINGLE_EXP_BELOW && y > -SINGLE_EXP_BELOW) return Math.exp(-y * y);
+  if (y < SINGLE_EXP_BELOW && y > -SINGLE_EXP_BELOW) return exp(-y * y);
   const ys = Math.trunc(y * 16) / 16;
   const del = (y - ys) * (y + ys);
-  return Math.exp(-ys * ys) * Math.exp(-del);
+  return exp(-ys * ys) * exp(-del);
 }
 
 /** kind 0: erf, 1: erfc, 2: erfcx. */
@@ -65,7 +66,7 @@ function calerf(x: number, kind: 0 | 1 | 2): number {
     }
     result = (x * (xnum + A[3])) / (xden + B[3]);
     if (kind !== 0) result = 1 - result;
-    if (kind === 2) result = Math.exp(ysq) * result;
+    if (kind === 2) result = exp(ysq) * result;
     return result;
   }
   if (y <= 4) {
@@ -132,5 +133,5 @@ export function normalCdf(z: number): number {
 
 /** Standard normal density φ(z). */
 export function normalPdf(z: number): number {
-  return INV_SQRT_2PI * Math.exp(-0.5 * z * z);
+  return INV_SQRT_2PI * exp(-0.5 * z * z);
 }

@@ -19,6 +19,7 @@ import { contaminationTransmission } from './contamination.ts';
 import { edgeEnergyKeV, element } from './elements.ts';
 import { CM_PER_UM, layerTransmission } from './layers.ts';
 import type { DetectorStack, LayerSpec } from './types.ts';
+import { exp, expm1 } from '../numeric/index.ts';
 
 /** 8-point Gauss–Legendre on [−1, 1] (Abramowitz & Stegun, Table 25.4). */
 const GL8_NODES = [-0.960289856497536, -0.796666477413627, -0.525532409916329, -0.183434642495650, 0.183434642495650, 0.525532409916329, 0.796666477413627, 0.960289856497536];
@@ -34,7 +35,7 @@ function gl8(a: number, b: number, f: (x: number) => number): number {
 
 /** ½ ∫_0^1 e^{−a/η}(1 − e^{−b/η}) dη, the integrand smooth in η; split at 0.1 for the steep start. */
 function hemisphere(after: number, sensor: number): number {
-  const f = (eta: number) => Math.exp(-after / eta) * -Math.expm1(-sensor / eta);
+  const f = (eta: number) => exp(-after / eta) * -expm1(-sensor / eta);
   return 0.5 * (gl8(0, 0.1, f) + gl8(0.1, 1, f));
 }
 
@@ -77,7 +78,7 @@ export function stackFluorescence(stack: DetectorStack, energiesKeV: Float64Arra
       if (wSi === 0 || !(e > edge)) continue;
       const muPerUm = opticalDepth(layer, e) / tUm;
       const tauSiPerUm = rho * wSi * massAttenuationCm2g(si, e, 'photo') * CM_PER_UM;
-      const yieldInLayer = gl8(0, tUm, (s) => tauSiPerUm * Math.exp(-muPerUm * s) * hemisphere(muKAlphaPerUm * (tUm - s) + behindKAlpha, sensorDepth));
+      const yieldInLayer = gl8(0, tUm, (s) => tauSiPerUm * exp(-muPerUm * s) * hemisphere(muKAlphaPerUm * (tUm - s) + behindKAlpha, sensorDepth));
       out[j] += front[j] * perKShell * yieldInLayer;
     }
     // photons reaching the next layer

@@ -14,6 +14,7 @@
  *   almost uniformly between L(N₁) and L(N₂); a uniform distribution of width Δ has variance
  *   Δ²/12. Both add in quadrature to the line's σ².
  */
+import { expm1, log1p, pow } from '../numeric/index.ts';
 export interface TransferLossLaw {
   /** Fractional loss per transfer at referenceKeV. */
   lossPerTransfer: number;
@@ -32,13 +33,13 @@ export const meanTransfers = (b: TransferBand): number => (b.firstTransfer + b.l
 
 /** f(E), the fractional loss per transfer at energy E (keV). */
 export function lossPerTransferAt(law: TransferLossLaw, energyKeV: number): number {
-  return law.energyIndex === 0 ? law.lossPerTransfer : law.lossPerTransfer * Math.pow(energyKeV / law.referenceKeV, -law.energyIndex);
+  return law.energyIndex === 0 ? law.lossPerTransfer : law.lossPerTransfer * pow(energyKeV / law.referenceKeV, -law.energyIndex);
 }
 
 /** Fraction of the charge lost after N transfers: 1 − (1 − f)^N. */
 export function lostFraction(f: number, transfers: number): number {
   // −expm1(N·log1p(−f)) keeps precision when N·f is small.
-  return -Math.expm1(transfers * Math.log1p(-f));
+  return -expm1(transfers * log1p(-f));
 }
 
 /** Centroid shift (keV, positive = lower) of a line of measured energy centroidKeV after N transfers. */

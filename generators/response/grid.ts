@@ -4,6 +4,7 @@
  */
 import { KilnInputError } from '../errors.ts';
 import type { ChannelGrid, EnergyGridSpec } from './model-types.ts';
+import { pow } from '../numeric/index.ts';
 
 const EV_PER_KEV = 1000;
 
@@ -26,7 +27,7 @@ export function energyGrid(spec: EnergyGridSpec, field = 'energyGrid', file?: st
   const edges = new Float64Array(bins + 1);
   for (let i = 0; i <= bins; i++) {
     const t = i / bins;
-    edges[i] = spacing === 'linear' ? minKeV + (maxKeV - minKeV) * t : minKeV * Math.pow(maxKeV / minKeV, t);
+    edges[i] = spacing === 'linear' ? minKeV + (maxKeV - minKeV) * t : minKeV * pow(maxKeV / minKeV, t);
   }
   edges[0] = minKeV;
   edges[bins] = maxKeV;

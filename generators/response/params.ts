@@ -21,6 +21,7 @@ import { escapeFractionFn, type EscapeInputs } from '../physics/escape.ts';
 import { materialMassAttenuationCm2g } from '../physics/compound.ts';
 import { partialChargeShape } from '../physics/partial-charge.ts';
 import type { SensorSpec } from '../physics/types.ts';
+import { exp } from '../numeric/index.ts';
 
 const EV_PER_KEV = 1000;
 
@@ -104,7 +105,7 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
   const c = spec.centroid;
   if (c.source === 'law') {
     centroidKeV = (e) =>
-      e * (1 + c.gainError) + (c.offsetEv - (c.chargeLossEv === 0 ? 0 : c.chargeLossEv * Math.exp(-e / c.chargeLossScaleKeV))) / EV_PER_KEV;
+      e * (1 + c.gainError) + (c.offsetEv - (c.chargeLossEv === 0 ? 0 : c.chargeLossEv * exp(-e / c.chargeLossScaleKeV))) / EV_PER_KEV;
   } else {
     const shiftEv = logEnergyInterpolator(energies, lines.map((l) => (l.centroidKeV - l.energyKeV) * EV_PER_KEV), 'lineFits.energyKeV');
     centroidKeV = (e) => e + shiftEv(e) / EV_PER_KEV;
@@ -123,7 +124,7 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
     tailFraction = () => 0;
     tailScaleKeV = () => 0;
   } else if (t.source === 'law') {
-    tailFraction = (e) => t.fractionAtZero * Math.exp(-e / t.fractionScaleKeV);
+    tailFraction = (e) => t.fractionAtZero * exp(-e / t.fractionScaleKeV);
     tailScaleKeV = () => t.tailScaleEv / EV_PER_KEV;
   } else {
     const f = logEnergyInterpolator(energies, lines.map((l) => l.tailFraction), 'lineFits.energyKeV');
@@ -181,7 +182,7 @@ export function buildParamsAt(spec: RedistributionSpec, lineFits: readonly LineF
       c.source === 'law'
         ? (e: number) => (e - kAlpha) * (1 + c.gainError) + c.offsetEv / EV_PER_KEV
         : (e: number) => (e - kAlpha) * (centroidKeV(e) / e);
-    const lossKeV = c.source === 'law' ? (e: number) => (c.chargeLossEv === 0 ? 0 : (c.chargeLossEv * Math.exp(-e / c.chargeLossScaleKeV)) / EV_PER_KEV) : () => 0;
+    const lossKeV = c.source === 'law' ? (e: number) => (c.chargeLossEv === 0 ? 0 : (c.chargeLossEv * exp(-e / c.chargeLossScaleKeV)) / EV_PER_KEV) : () => 0;
     paramsAt.escapeAt = (e) => ({ centroidKeV: lossFreeKeV(e) - (lossKeV(e) * (e - kAlpha)) / e, sigmaKeV: sigmaKeV(e - kAlpha) });
   }
   return paramsAt;

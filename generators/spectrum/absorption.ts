@@ -6,6 +6,7 @@
 import { massAttenuationCm2g } from '../physics/attenuation.ts';
 import { elementBySymbol, tableEdgesKeV } from '../physics/elements.ts';
 import { DEFAULT_ABUNDANCES, type AbundanceTable } from './data/abundances.ts';
+import { exp, pow } from '../numeric/index.ts';
 
 /** Avogadro constant, 1/mol (SI 2019, exact). */
 export const AVOGADRO_PER_MOL = 6.02214076e23;
@@ -23,7 +24,7 @@ function absorbers(t: AbundanceTable): Absorber[] {
   if (a) return a;
   a = Object.entries(t.logEpsilon).map(([symbol, le]) => ({
     symbol,
-    perH: 10 ** (le - 12),
+    perH: pow(10, le - 12),
     gPerAtom: elementBySymbol(symbol).atomicWeight / AVOGADRO_PER_MOL,
   }));
   ABSORBERS.set(t.name, a);
@@ -39,7 +40,7 @@ export function crossSectionPerHCm2(energyKeV: number, table: AbundanceTable = D
 
 /** Transmission exp(−N_H σ(E)) of a column of N_H hydrogen atoms per cm². */
 export function transmission(energyKeV: number, columnCm2: number, table: AbundanceTable = DEFAULT_ABUNDANCES): number {
-  return Math.exp(-columnCm2 * crossSectionPerHCm2(energyKeV, table));
+  return exp(-columnCm2 * crossSectionPerHCm2(energyKeV, table));
 }
 
 /** Energies where the absorbing gas's cross section jumps (edges of its elements), keV, ascending. */

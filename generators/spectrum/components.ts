@@ -4,6 +4,7 @@
  * Normalisations are Kiln's own choices, stated per component.
  */
 import { erf } from '../physics/special.ts';
+import { exp, expm1, log, pow } from '../numeric/index.ts';
 
 /** ζ(3), Apéry's constant: ∫₀^∞ x²/(eˣ − 1) dx = 2ζ(3). */
 const ZETA3 = 1.2020569031595942;
@@ -56,16 +57,16 @@ export type ComponentKind = Component['kind'];
 export function continuumDensity(c: Continuum, energyKeV: number): number {
   switch (c.kind) {
     case 'power-law':
-      return c.normAt1KeV * Math.pow(energyKeV, -c.photonIndex);
+      return c.normAt1KeV * pow(energyKeV, -c.photonIndex);
     case 'blackbody': {
       const x = energyKeV / c.kTKeV;
       if (x > MAX_EXPONENT) return 0;
-      return (c.photonFluxCm2s * energyKeV * energyKeV) / (2 * ZETA3 * c.kTKeV ** 3 * Math.expm1(x));
+      return (c.photonFluxCm2s * energyKeV * energyKeV) / (2 * ZETA3 * c.kTKeV * c.kTKeV * c.kTKeV * expm1(x));
     }
     case 'bremsstrahlung': {
       const x = (energyKeV - 1) / c.kTKeV;
       if (x > MAX_EXPONENT) return 0;
-      return (c.normAt1KeV / energyKeV) * Math.exp(-x);
+      return (c.normAt1KeV / energyKeV) * exp(-x);
     }
   }
 }
@@ -80,6 +81,6 @@ export function lineFluxInBin(l: GaussianLine, loKeV: number, hiKeV: number): nu
 /** Photons cm⁻² s⁻¹ of a power law between lo and hi, in closed form (for stated band fluxes). */
 export function powerLawPhotonFlux(photonIndex: number, normAt1KeV: number, loKeV: number, hiKeV: number): number {
   const a = 1 - photonIndex;
-  if (Math.abs(a) < 1e-12) return normAt1KeV * Math.log(hiKeV / loKeV);
-  return (normAt1KeV * (Math.pow(hiKeV, a) - Math.pow(loKeV, a))) / a;
+  if (Math.abs(a) < 1e-12) return normAt1KeV * log(hiKeV / loKeV);
+  return (normAt1KeV * (pow(hiKeV, a) - pow(loKeV, a))) / a;
 }

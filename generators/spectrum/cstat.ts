@@ -5,6 +5,7 @@
  * Kaastra 2017, A&A 605, A51 approximates) — a goodness measure that needs no binning.
  */
 import { logFactorial } from './random.ts';
+import { exp, log } from '../numeric/index.ts';
 
 /** Model values below this many counts are raised to it: keeps C finite where data fall in channels the model leaves empty. */
 export const MODEL_FLOOR_COUNTS = 1e-10;
@@ -15,7 +16,7 @@ const POISSON_SUM_EXTRA = 30;
 /** One channel's contribution 2 (m − d + d ln(d/m)). */
 export function cTerm(m: number, d: number): number {
   const mm = m > MODEL_FLOOR_COUNTS ? m : MODEL_FLOOR_COUNTS;
-  return d > 0 ? 2 * (mm - d + d * Math.log(d / mm)) : 2 * mm;
+  return d > 0 ? 2 * (mm - d + d * log(d / mm)) : 2 * mm;
 }
 
 export function cstat(model: ArrayLike<number>, data: ArrayLike<number>, channels?: ArrayLike<number>): number {
@@ -36,10 +37,10 @@ export function expectedCTerm(m: number): { mean: number; variance: number } {
   if (!(m > 0)) return { mean: 0, variance: 0 };
   const lo = Math.max(0, Math.floor(m - POISSON_SUM_SIGMAS * Math.sqrt(m) - POISSON_SUM_EXTRA));
   const hi = Math.ceil(m + POISSON_SUM_SIGMAS * Math.sqrt(m) + POISSON_SUM_EXTRA);
-  const lm = Math.log(m);
+  const lm = log(m);
   let s1 = 0;
   let s2 = 0;
-  let p = Math.exp(lo * lm - m - logFactorial(lo));
+  let p = exp(lo * lm - m - logFactorial(lo));
   for (let k = lo; k <= hi; k++) {
     if (k > lo) p *= m / k;
     const c = cTerm(m, k);

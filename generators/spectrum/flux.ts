@@ -10,6 +10,7 @@ import { absorptionEdgesKeV, crossSectionPerHCm2 } from './absorption.ts';
 import { continuumDensity, lineFluxInBin } from './components.ts';
 import type { AbundanceTable } from './data/abundances.ts';
 import type { SourceModel } from './model.ts';
+import { exp } from '../numeric/index.ts';
 
 /** 4-point Gauss–Legendre nodes and weights on [−1, 1] (Abramowitz & Stegun 1964, Table 25.4). */
 const GL_X = [-0.8611363115940526, -0.3399810435848563, 0.3399810435848563, 0.8611363115940526];
@@ -77,14 +78,14 @@ export function binnedPhotonFlux(g: FluxGrid, m: SourceModel, out: Float64Array 
   const sigma = g.nodeSigmaCm2;
   for (const c of m.components) {
     if (c.kind === 'gaussian-line') {
-      const t = absorbed ? Math.exp(-m.columnCm2 * crossSectionPerHCm2(Math.min(Math.max(c.energyKeV, TABLE_ENERGY_MIN_KEV), TABLE_ENERGY_MAX_KEV), m.abundances)) : 1;
+      const t = absorbed ? exp(-m.columnCm2 * crossSectionPerHCm2(Math.min(Math.max(c.energyKeV, TABLE_ENERGY_MIN_KEV), TABLE_ENERGY_MAX_KEV), m.abundances)) : 1;
       for (let i = 0; i < n; i++) out[i] += t * lineFluxInBin(c, g.loKeV[i], g.hiKeV[i]);
       continue;
     }
     for (let i = 0; i < n; i++) {
       let s = 0;
       for (let q = g.nodeStart[i]; q < g.nodeStart[i + 1]; q++) {
-        const t = absorbed ? Math.exp(-m.columnCm2 * sigma![q]) : 1;
+        const t = absorbed ? exp(-m.columnCm2 * sigma![q]) : 1;
         s += g.nodeWeightKeV[q] * t * continuumDensity(c, g.nodeKeV[q]);
       }
       out[i] += s;

@@ -7,6 +7,7 @@
  * function's shape and the dead time of the readout are left out. A fuller model: Davis (2001,
  * ApJ 562, 575).
  */
+import { exp, expm1 } from '../numeric/index.ts';
 export interface PileupInputs {
   /** Folded count rate of the source, counts/s. */
   rateCps: number;
@@ -32,8 +33,8 @@ export const PILEUP_LEAVES_OUT =
 export function pileupEstimate(x: PileupInputs): PileupEstimate {
   const lambda = x.rateCps * x.frameTimeS * x.brightestCellFraction;
   // −expm1 keeps precision for faint sources, where 1 − e^{−λ} ≈ λ.
-  const nonEmpty = -Math.expm1(-lambda);
-  const piled = lambda < 1e-4 ? (lambda * lambda) / 2 - (lambda ** 3) / 3 : nonEmpty - lambda * Math.exp(-lambda);
+  const nonEmpty = -expm1(-lambda);
+  const piled = lambda < 1e-4 ? (lambda * lambda) / 2 - (lambda * lambda * lambda) / 3 : nonEmpty - lambda * exp(-lambda);
   return {
     ...x,
     photonsPerFrame: lambda,

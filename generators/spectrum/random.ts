@@ -4,6 +4,7 @@
  * below POISSON_SWITCH, Hörmann's transformed rejection PTRS (Insurance: Math. Econ. 12, 1993)
  * above. Same seed, same numbers, on every platform that has IEEE doubles.
  */
+import { exp, log } from '../numeric/index.ts';
 
 /** Below this mean the multiplication method is exact and fast enough (Hörmann's PTRS needs λ ≥ 10). */
 const POISSON_SWITCH = 30;
@@ -45,20 +46,20 @@ export function uniformSource(seed: number): Uniform {
 /** ln k! exactly for small k, Stirling's series beyond (error < 1e-14 for k ≥ 16). */
 const LOG_FACT = (() => {
   const t = new Float64Array(16);
-  for (let k = 1; k < 16; k++) t[k] = t[k - 1] + Math.log(k);
+  for (let k = 1; k < 16; k++) t[k] = t[k - 1] + log(k);
   return t;
 })();
 export function logFactorial(k: number): number {
   if (k < 16) return LOG_FACT[k];
   const x = k + 1;
   const ix2 = 1 / (x * x);
-  return (x - 0.5) * Math.log(x) - x + 0.5 * Math.log(2 * Math.PI) + (1 / x) * (1 / 12 - ix2 * (1 / 360 - ix2 * (1 / 1260 - ix2 / 1680)));
+  return (x - 0.5) * log(x) - x + 0.5 * log(2 * Math.PI) + (1 / x) * (1 / 12 - ix2 * (1 / 360 - ix2 * (1 / 1260 - ix2 / 1680)));
 }
 
 export function poisson(lambda: number, u: Uniform): number {
   if (!(lambda > 0)) return 0;
   if (lambda < POISSON_SWITCH) {
-    const limit = Math.exp(-lambda);
+    const limit = exp(-lambda);
     let k = 0;
     let p = u();
     while (p > limit) {
@@ -68,7 +69,7 @@ export function poisson(lambda: number, u: Uniform): number {
     return k;
   }
   const slam = Math.sqrt(lambda);
-  const loglam = Math.log(lambda);
+  const loglam = log(lambda);
   const b = 0.931 + 2.53 * slam;
   const a = -0.059 + 0.02483 * b;
   const invalpha = 1.1239 + 1.1328 / (b - 3.4);
@@ -80,7 +81,7 @@ export function poisson(lambda: number, u: Uniform): number {
     const k = Math.floor(((2 * a) / us + b) * U + lambda + 0.43);
     if (us >= 0.07 && V <= vr) return k;
     if (k < 0 || (us < 0.013 && V > us)) continue;
-    if (Math.log(V) + Math.log(invalpha) - Math.log(a / (us * us) + b) <= -lambda + k * loglam - logFactorial(k)) return k;
+    if (log(V) + log(invalpha) - log(a / (us * us) + b) <= -lambda + k * loglam - logFactorial(k)) return k;
   }
 }
 

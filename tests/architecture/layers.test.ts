@@ -72,4 +72,22 @@ describe('layering', () => {
     const offenders = filesUnder(join(ROOT, 'generators')).filter((f) => ASTRO_IMPORT.test(readFileSync(f, 'utf8')));
     expect(offenders.map((f) => relative(ROOT, f))).toEqual([]);
   });
+
+  it('the product core takes exp/log/pow/expm1/log1p from generators/numeric, never from the engine', () => {
+    // ECMAScript leaves Math.exp, log, pow, expm1, log1p, hypot, the trigonometric functions and
+    // the ** operator to the engine (ECMA-262 §21.3.2, "implementation-approximated"): a product
+    // built in a browser would not equal the published bytes. generators/numeric fixes every bit.
+    const ENGINE_MATH = /\bMath\.(?:exp|log|log10|log2|pow|expm1|log1p|hypot|cbrt|sinh|cosh|tanh|asinh|acosh|atanh|sin|cos|tan|asin|acos|atan|atan2)\b|[\w)\]]\s*\*\*\s*[\w(.-]/;
+    /** Code of a line without doc comments, line comments and single-quoted strings (units such as 'cm**2'). */
+    const usesEngineMath = (line: string) => !/^\s*(?:\*|\/\*\*)/.test(line) && ENGINE_MATH.test(line.replace(/\/\/.*$/, '').replace(/'[^']*'/g, "''"));
+    expect([usesEngineMath('  y = Math.exp(x);'), usesEngineMath('  y = (a * b) ** 2;'), usesEngineMath('  y = x ** -1;'), usesEngineMath("  { unit: 'cm**2' }"), usesEngineMath(' * Math.exp in a doc comment'), usesEngineMath('  y = exp(x); // not Math.exp')]).toEqual([true, true, true, false, false, false]);
+    const CORE = ['fits', 'ogip', 'physics', 'response', 'fit', 'checks', 'compare', 'spectrum', 'model', 'site-data', 'content'];
+    const offenders: string[] = [];
+    for (const dir of CORE)
+      for (const f of filesUnder(join(ROOT, 'generators', dir)))
+        readFileSync(f, 'utf8').split('\n').forEach((line, i) => {
+          if (usesEngineMath(line)) offenders.push(`${relative(ROOT, f)}:${i + 1}: ${line.trim()}`);
+        });
+    expect(offenders).toEqual([]);
+  });
 });

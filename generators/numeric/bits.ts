@@ -1,0 +1,65 @@
+/**
+ * Access to the two 32-bit words of an IEEE 754 double, as the functions of this folder need them.
+ * One shared 8-byte view: JavaScript is single-threaded per realm, so no call can interleave.
+ * DataView is big-endian by default, so byte offset 0 holds the high word (sign, exponent, top of
+ * the mantissa) on every platform.
+ */
+const view = new DataView(new ArrayBuffer(8));
+
+/** High word of `x` as a signed 32-bit integer (sign bit in bit 31). */
+export function highWord(x: number): number {
+  view.setFloat64(0, x);
+  return view.getInt32(0);
+}
+
+/** Low word of `x` as an unsigned 32-bit integer. */
+export function lowWord(x: number): number {
+  view.setFloat64(0, x);
+  return view.getUint32(4);
+}
+
+/** The double with the given high word and `x`'s low word. */
+export function withHighWord(x: number, high: number): number {
+  view.setFloat64(0, x);
+  view.setInt32(0, high | 0);
+  return view.getFloat64(0);
+}
+
+/** The double with `x`'s high word and the given low word (fdlibm's `__LO(x) = lo`). */
+export function withLowWord(x: number, low: number): number {
+  view.setFloat64(0, x);
+  view.setUint32(4, low >>> 0);
+  return view.getFloat64(0);
+}
+
+/** The double made of the two words. */
+export function fromWords(high: number, low: number): number {
+  view.setInt32(0, high | 0);
+  view.setUint32(4, low >>> 0);
+  return view.getFloat64(0);
+}
+
+/** Exponent bias of an IEEE 754 double (IEEE 754-2008, table 3.5). */
+const EXPONENT_BIAS = 1023;
+/** Smallest exponent of a normal double. */
+const MIN_NORMAL_EXPONENT = -1022;
+/** 2⁻¹⁰⁰⁰: lets `scaleByPowerOfTwo` reach the subnormal range with a single rounding. */
+const TWO_M1000 = powerOfTwoNormal(-1000);
+
+/** 2^k exactly, for a normal exponent k in [-1022, 1023]. */
+function powerOfTwoNormal(k: number): number {
+  view.setInt32(0, (k + EXPONENT_BIAS) << 20);
+  view.setUint32(4, 0);
+  return view.getFloat64(0);
+}
+
+/**
+ * y · 2^k for an integer k, rounded once (as C's scalbn): exact unless the result leaves the
+ * normal range. Built from exact powers of two, not Math.pow, whose results JavaScript leaves to
+ * the engine.
+ */
+export function scaleByPowerOfTwo(y: number, k: number): number {
+  if (k > 1023) return y * powerOfTwoNormal(1023) * powerOfTwoNormal(Math.min(k - 1023, 1023));
+  if (k < MIN_NORMAL_EXPONENT) return y * powerOfTwoNormal(Math.max(k + 1000, MIN_NORMAL_EXPONENT)) * TWO_M1000;
+  return y * powerOfTwoNormal(k);
+}
