@@ -11,6 +11,7 @@ const CORE = [
   'generators/checks/**/*.ts',
   'generators/compare/**/*.ts',
   'generators/engine/**/*.ts',
+  'generators/numeric/**/*.ts',
   'generators/pipeline/atomic.ts',
   'generators/pipeline/archive.ts',
 ];

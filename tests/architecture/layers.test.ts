@@ -13,6 +13,7 @@ const ROOT = join(import.meta.dirname, '..', '..');
 /** Entry points that must run in a browser (what the inspect page and future in-browser builds use). */
 const BROWSER_SAFE = [
   'generators/fits/index.ts',
+  'generators/numeric/index.ts',
   'generators/ogip/index.ts',
   'generators/physics/index.ts',
   'generators/response/index.ts',
