@@ -4,11 +4,12 @@
  */
 import { FWHM_PER_SIGMA } from '../physics/resolution.ts';
 import { escapeInputsFor } from '../physics/escape-inputs.ts';
-import { binIndexOf, buildParamsAt, expandRow } from '../response/index.ts';
+import { binIndexOf, buildParamsAt, expandRow, withTransferLoss } from '../response/index.ts';
+import { detectorRegion, regionsOf, transferLossOf, type Region } from '../model/regions.ts';
 import { fitCentroidLaw, fitFwhmLaw, type FitResult } from '../fit/index.ts';
 import { isInputError } from '../errors.ts';
 import type { RmfData } from '../response/types.ts';
-import type { DetectorSite, LineFitSite, MatrixImage, ParameterRow, ProfileSet } from '../site-data/types.ts';
+import type { DetectorSite, LineFitSite, MatrixImage, ParameterRow, ProfileSet, RegionCurves } from '../site-data/types.ts';
 import type { DetectorJob } from './job.ts';
 import type { DetectorProducts } from './product.ts';
 
@@ -133,12 +134,27 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
   const rmf = built.redistribution.rmf;
   const silicon = spec.escape || spec.siFluorescenceFraction > 0 ? escapeInputsFor(detector.stack.sensor.material.formula) : undefined;
   // The sensor too: a collection-model tail needs its partially collecting layer.
-  const paramsAt = buildParamsAt(spec, detector.lineFits, { silicon, file: detector.lineFitsFile, sensor: detector.stack.sensor });
+  // Each region's curves as its matrix is built: its own redistribution model and the transfer
+  // loss of its band (the whole detector's band when the detector has regions).
+  const paramsOf = (r: Region) =>
+    withTransferLoss(buildParamsAt(r.spec, detector.lineFits, { silicon, file: detector.lineFitsFile, sensor: detector.stack.sensor }), transferLossOf(r), r.spec.pairEnergyEv);
+  const paramsAt = paramsOf(detectorRegion(detector));
   const emin = rmf.energLoKeV[0];
   const emax = rmf.energHiKeV[rmf.energHiKeV.length - 1];
   const curveE = logSpace(emin, emax, CURVE_POINTS);
   const fwhmAt = (e: number) => paramsAt(e).sigmaKeV * FWHM_PER_SIGMA * EV_PER_KEV;
   const shiftAt = (e: number) => (paramsAt(e).centroidKeV - e) * EV_PER_KEV;
+  const perRegion = regionsOf(detector, job.release.productsPer ?? 'detector').filter((r) => r.node !== null);
+  const regions: RegionCurves[] = perRegion.map((r) => {
+    const p = paramsOf(r);
+    return {
+      label: r.label,
+      node: r.node!,
+      rowBand: r.rowBand,
+      fwhmEv: curveE.map((e) => round(p(e).sigmaKeV * FWHM_PER_SIGMA * EV_PER_KEV)),
+      centroidOffsetEv: curveE.map((e) => round((p(e).centroidKeV - e) * EV_PER_KEV)),
+    };
+  });
 
   const lines = detector.lineFits;
   const lineFits: LineFitSite[] = lines.map((l) => {
@@ -185,6 +201,7 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
       effectiveAreaCm2: e.site.effectiveAreaCm2.map((x) => round(x, CURVE_DIGITS)),
     })),
     resolution: { energyKeV: curveE.map((e) => round(e)), fwhmEv: curveE.map((e) => round(fwhmAt(e))), centroidOffsetEv: curveE.map((e) => round(shiftAt(e))) },
+    ...(regions.length ? { regions } : {}),
     lineFits,
     fitQuality: {
       fwhmChi2: round(chi2(lineFits.map((l) => l.fwhmResidualEv), lines.map((l) => l.fwhmErrEv))),

@@ -56,6 +56,7 @@ export function splitDetector(
     kind: det.kind,
     epochs: det.epochs.map((e) => ({ id: e.id, date: e.date, validFrom: e.validFrom, validTo: e.validTo })),
     resolution: det.resolution,
+    ...(det.regions ? { regions: det.regions } : {}),
     lineFits: det.lineFits,
     fitQuality: det.fitQuality,
     parameters,
@@ -190,6 +191,7 @@ export function joinModel(model: DetectorModelDoc, read: DocReader, parts: JoinP
     kind: model.kind,
     epochs: wanted.map((e) => read<EpochDataDoc>(epochPath(detector, e.id)).epoch),
     resolution: model.resolution,
+    ...(model.regions ? { regions: model.regions } : {}),
     lineFits: model.lineFits,
     fitQuality: model.fitQuality,
     profiles: parts.profiles === false ? EMPTY_PROFILES : read<DetectorProfilesDoc>(profilesPath(detector)).profiles,
@@ -233,6 +235,7 @@ export function detectorForCompare(model: DetectorModelDoc, area: DetectorAreaDo
       return { ...e, energyKeV: a ? (a.energyKeV ?? area.energyKeV) : [], mirrorCm2: [], components: [], detectorQE: [], effectiveAreaCm2: a?.effectiveAreaCm2 ?? [] };
     }),
     resolution: model.resolution,
+    ...(model.regions ? { regions: model.regions } : {}),
     lineFits: model.lineFits,
     fitQuality: model.fitQuality,
     profiles: EMPTY_PROFILES,

@@ -249,6 +249,16 @@ export interface MatrixImage {
   log10Range: [number, number];
 }
 
+/** One region's model curves (site data of a per-node or per-node × row-band release). */
+export interface RegionCurves {
+  /** The product label, e.g. "bi1-b" or "bi1-b-top". */
+  label: string;
+  node: string;
+  rowBand: string | null;
+  fwhmEv: number[];
+  centroidOffsetEv: number[];
+}
+
 export interface DetectorSite {
   id: string;
   name: string;
@@ -256,6 +266,12 @@ export interface DetectorSite {
   epochs: EpochSite[];
   /** Model curves on a plotting grid. */
   resolution: { energyKeV: number[]; fwhmEv: number[]; centroidOffsetEv: number[] };
+  /**
+   * The same curves for each region the release builds products for (readout node, or node × row
+   * band: its own noise, gain and transfer loss), on the same energies; absent when the release
+   * builds whole-detector products only.
+   */
+  regions?: RegionCurves[];
   lineFits: LineFitSite[];
   /**
    * χ² of the published model (the release's laws or interpolation, as built) against the line
@@ -329,6 +345,7 @@ export interface DetectorModelDoc {
   /** The epochs whose documents are in epochs/ (same list as the summary's entry). */
   epochs: DetectorEntry['epochs'];
   resolution: DetectorSite['resolution'];
+  regions?: RegionCurves[];
   lineFits: LineFitSite[];
   fitQuality: DetectorSite['fitQuality'];
   parameters: ParameterRow[];

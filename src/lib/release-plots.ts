@@ -5,7 +5,7 @@
  * the same specs from the detector's documents (/data/releases/<id>/detectors/<det>/) when the reader interacts, so the page does not
  * carry the arrays twice. Series keep every published point; rendering thins them per view.
  */
-import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
+import type { DetectorSite, RegionCurves, ReleaseSite } from '../../generators/site-data/types.ts';
 import { lineSeries as lineSeriesDecimated, pointSeries, roundSig, OKABE_ITO, SERIES_COLOURS, SERIES_DASHES, VIRIDIS_STOPS, type PlotSpec, type SeriesSpec } from './plot/index.ts';
 import { interpolateRgbBasis } from 'd3-interpolate';
 
@@ -80,6 +80,14 @@ export function componentsPlot(det: DetectorSite, epochId?: string): PlotSpec {
   };
 }
 
+/** Label of a region's model curve (one per readout node, or node × row band). */
+export const regionCurveLabel = (r: RegionCurves): string => `model, node ${r.node}${r.rowBand !== null ? `, rows ${r.rowBand}` : ''}`;
+
+/** Each region's curve after the detector's model and the measured points (colours from index 2 on). */
+function regionSeries(det: DetectorSite, pick: (r: RegionCurves) => number[]): SeriesSpec[] {
+  return (det.regions ?? []).map((r, i) => ({ ...lineSeries(regionCurveLabel(r), det.resolution.energyKeV, pick(r), i + 2), widthPx: 1.2 }));
+}
+
 export function fwhmPlot(det: DetectorSite): PlotSpec {
   const f = det.lineFits;
   return {
@@ -92,6 +100,7 @@ export function fwhmPlot(det: DetectorSite): PlotSpec {
     series: [
       lineSeries('model', det.resolution.energyKeV, det.resolution.fwhmEv, 0),
       pointSeries('measured line fits (1σ)', f.map((l) => l.energyKeV), f.map((l) => l.fwhmEv), f.map((l) => l.fwhmErrEv), 1),
+      ...regionSeries(det, (r) => r.fwhmEv),
     ],
   };
 }
@@ -123,6 +132,7 @@ export function centroidPlot(det: DetectorSite): PlotSpec {
     series: [
       lineSeries('model', det.resolution.energyKeV, det.resolution.centroidOffsetEv, 0),
       pointSeries('measured (1σ)', f.map((l) => l.energyKeV), f.map((l) => roundSig((l.centroidKeV - l.energyKeV) * EV_PER_KEV, 5)), f.map((l) => l.centroidErrEv), 1),
+      ...regionSeries(det, (r) => r.centroidOffsetEv),
     ],
   };
 }

@@ -15,7 +15,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
 import { readReleaseSite } from '../../generators/pipeline/site-files.ts';
-import { centroidPlot, effectiveAreaPlot, fwhmPlot } from '../../src/lib/release-plots.ts';
+import { centroidPlot, effectiveAreaPlot, fwhmPlot, regionCurveLabel } from '../../src/lib/release-plots.ts';
 import { kiln, workspace, type Workspace } from '../pipeline/helpers.ts';
 import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 
@@ -102,9 +102,25 @@ const tailSource = (release: string, detector: string): string | undefined => {
   return m.parameters?.[detector]?.model?.tail?.source;
 };
 
-/** Whole-detector products only: the page's curves are the detector's model (per-node curves are not plotted yet). */
+/** Whole-detector products: the page's "model" curves are the detector's model. */
 const wholeDetector = (site: ReleaseSite, kind: string, detector: string, epoch: string) =>
   site.products.find((x) => x.kind === kind && x.detector === detector && x.epoch === epoch && x.node === undefined && x.rowBand === undefined);
+
+/**
+ * Each plotted resolution curve with the matrix it must describe: "model" with the whole-detector
+ * RMF, and each region's curve ("model, node b" …) with that region's RMF.
+ */
+function curveProducts(s: ReleaseSite, d: DetectorSite): { label: string; path: string }[] {
+  const out: { label: string; path: string }[] = [];
+  const whole = wholeDetector(s, 'rmf', d.id, 'all');
+  if (whole) out.push({ label: 'model', path: join(ws.out, 'releases', s.id, whole.path) });
+  for (const r of d.regions ?? []) {
+    const p = s.products.find((x) => x.kind === 'rmf' && x.detector === d.id && x.epoch === 'all' && x.node === r.node && (x.rowBand ?? null) === r.rowBand);
+    if (!p) throw new Error(`release ${s.id}: region ${r.label} has a curve but no RMF`);
+    out.push({ label: regionCurveLabel(r), path: join(ws.out, 'releases', s.id, p.path) });
+  }
+  return out;
+}
 const productPath = (site: ReleaseSite, kind: string, detector: string, epoch: string) => {
   const p = wholeDetector(site, kind, detector, epoch);
   if (!p) throw new Error(`release ${site.id}: no ${kind} for ${detector}/${epoch}`);
@@ -124,7 +140,7 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
     for (const s of sites)
       for (const d of s.detectors) {
         for (const ep of d.epochs) arfs.push(productPath(s, 'arf', d.id, ep.id));
-        if (wholeDetector(s, 'rmf', d.id, 'all')) rmfs[productPath(s, 'rmf', d.id, 'all')] = curveIndices(d.resolution.energyKeV.length).map((i) => d.resolution.energyKeV[i]);
+        for (const c of curveProducts(s, d)) rmfs[c.path] = curveIndices(d.resolution.energyKeV.length).map((i) => d.resolution.energyKeV[i]);
       }
     read = runPythonJson('astropy', READ_PRODUCTS, { arfs, rmfs, coreFraction: CORE_FRACTION });
   });
@@ -133,9 +149,10 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
   it('covers every release of the demo, archived ones included', () => {
     expect(sites.map((s) => s.id).sort()).toEqual(['1.0.0', '1.1.0', '2.0.0', '2.1.0']);
     // Release 2.1.0 publishes one matrix per readout node (regions.yaml) and no whole-detector
-    // matrix: its resolution curves are compared with nothing here. Its node matrices are checked
-    // by the build's rebuild check and tests/model/regions.test.ts.
+    // matrix: its page plots one curve per node, each compared with that node's matrix below.
     expect(sites.filter((s) => s.detectors.every((d) => wholeDetector(s, 'rmf', d.id, 'all'))).map((s) => s.id).sort()).toEqual(['1.0.0', '1.1.0', '2.0.0']);
+    const perNode = sites.find((s) => s.id === '2.1.0')!;
+    for (const d of perNode.detectors) expect(d.regions?.map((r) => r.node), `2.1.0 ${d.id}: one curve per node`).toEqual(perNode.products.filter((p) => p.kind === 'rmf' && p.detector === d.id).map((p) => p.node));
   });
 
   it('each epoch\'s plotted effective area equals the ARF read by astropy, bin by bin, within the site\'s 4-digit rounding', () => {
@@ -163,14 +180,17 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
     expect(compared).toBeGreaterThan(1000);
   });
 
-  it('the plotted FWHM and centroid model curves equal a Gaussian core refitted (scipy) to the published matrix rows', () => {
+  it('the plotted FWHM and centroid model curves (whole detector and each node) equal a Gaussian core refitted (scipy) to the published matrix rows', () => {
     let compared = 0;
+    let regionCurves = 0;
     for (const s of sites)
-      for (const d of s.detectors as DetectorSite[]) {
-        if (!wholeDetector(s, 'rmf', d.id, 'all')) continue;
-        const fw = fwhmPlot(d).series.find((x) => x.label === 'model')!;
-        const ce = centroidPlot(d).series.find((x) => x.label === 'model')!;
-        const cores = read.rmf[productPath(s, 'rmf', d.id, 'all')];
+      for (const d of s.detectors as DetectorSite[])
+        for (const c of curveProducts(s, d)) {
+        const fw = fwhmPlot(d).series.find((x) => x.label === c.label)!;
+        const ce = centroidPlot(d).series.find((x) => x.label === c.label)!;
+        expect(fw && ce, `${s.id} ${d.id}: "${c.label}" plotted`).toBeTruthy();
+        if (c.label !== 'model') regionCurves++;
+        const cores = read.rmf[c.path];
         const tiers = tailSource(s.id, d.id) === 'collection' ? PARTIAL_TOLERANCES : TOLERANCES;
         curveIndices(d.resolution.energyKeV.length).forEach((i, k) => {
           const core = cores[k];
@@ -190,5 +210,6 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
         });
       }
     expect(compared).toBeGreaterThan(50);
+    expect(regionCurves, 'node curves compared (release 2.1.0)').toBeGreaterThanOrEqual(8);
   });
 });
