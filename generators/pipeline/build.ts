@@ -35,7 +35,7 @@ import { recoverInterruptedSwap, removeStaleStaging, stagingDir, swapInto } from
 import { withLock } from './lock.ts';
 import { reached } from './phase.ts';
 import { crossReleaseChecks } from './cross-release.ts';
-import { impactChecks, releaseSpectral, type ReleaseProducts } from './impact.ts';
+import { impactChecks, releaseSpectral, spectralElements, type ReleaseProducts } from './impact.ts';
 import { pruneSpectralEntries, readSpectralEntry, spectralKey, writeSpectralEntry, SPECTRAL_DIR } from './spectral-cache.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
@@ -410,7 +410,10 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         const newerP = { id: rel.id, dir, products: ps };
         const olderP = older ? { id: older.r.release.id, dir: older.dir, products: older.products } : null;
         const s = cachedSpectral(ctx, spectralRoot, spectralUsed, r.instrument, newerP, olderP);
-        if (s) writeJson(join(dir, 'spectral.json'), s);
+        if (s) {
+          writeJson(join(dir, 'spectral.json'), s);
+          writeJson(join(dir, 'spectral-elements.json'), spectralElements(s));
+        }
         return s;
       };
       if (frozen) {

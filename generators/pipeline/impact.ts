@@ -5,13 +5,15 @@
  * Differences beyond the instrument's stated tolerances become `review` checks.
  */
 import { join } from 'node:path';
+import { XRAY_TABLE } from '../physics/data/xray-elements.ts';
+import type { XrayTable } from '../physics/data/xray-table-types.ts';
+import { interactionSubset } from '../model/document.ts';
 import type { Instrument } from '../content/types.ts';
 import { makeCheck } from '../checks/make-check.ts';
 import { readArf, readRmf } from '../ogip/index.ts';
 import { readFitsFile } from '../node/index.ts';
 import type { Check, ProductSummary, ReleaseSpectral, SpectralPrediction } from '../site-data/types.ts';
-import { foldingResponse, PILEUP_LEAVES_OUT, predict, sourceImpact, type FoldingResponse, type ReferenceSource, type SourceImpact } from '../spectrum/index.ts';
-import { arfValidOn } from './validity.ts';
+import { ABUNDANCE_TABLES, foldingResponse, impactPairs, PILEUP_LEAVES_OUT, predict, sourceImpact, type FoldingResponse, type ReferenceSource, type SourceImpact } from '../spectrum/index.ts';
 
 export interface ReleaseProducts {
   id: string;
@@ -33,19 +35,10 @@ export function referenceSources(ins: Instrument): ReferenceSource[] {
   }));
 }
 
-/** The newest ARF of a detector (its last epoch): what an observer downloads today. */
-function latestArf(products: readonly ProductSummary[], detector: string): ProductSummary | undefined {
-  return products.filter((p) => p.kind === 'arf' && p.detector === detector).sort((a, b) => a.validFrom.localeCompare(b.validFrom)).pop();
-}
-
 function responseOf(rel: ReleaseProducts, rmf: ProductSummary, arf: ProductSummary): FoldingResponse {
   const r = readRmf(readFitsFile(join(rel.dir, rmf.path))).data;
   const a = readArf(readFitsFile(join(rel.dir, arf.path))).data;
   return foldingResponse({ rmf: r, rmfName: rmf.path, arf: a, arfName: arf.path });
-}
-
-function detectorsOf(products: readonly ProductSummary[]): string[] {
-  return [...new Set(products.filter((p) => p.kind === 'rmf').map((p) => p.detector))];
 }
 
 export function releaseSpectral(ins: Instrument, newer: ReleaseProducts, older: ReleaseProducts | null, log: (line: string) => void = () => {}): ReleaseSpectral | null {
@@ -54,17 +47,13 @@ export function releaseSpectral(ins: Instrument, newer: ReleaseProducts, older: 
   const sources = referenceSources(ins);
   const predicted: SpectralPrediction[] = [];
   const impact: SourceImpact[] = [];
-  for (const det of detectorsOf(newer.products)) {
-    const rmf = newer.products.find((p) => p.kind === 'rmf' && p.detector === det)!;
-    const arf = latestArf(newer.products, det);
-    if (!arf) continue;
+  for (const pair of impactPairs(newer.products, older ? older.products : null)) {
+    const det = pair.detector;
+    const { rmf, arf } = pair.newer;
     const resp = responseOf(newer, rmf, arf);
     predicted.push({ detector: det, rmf: rmf.path, arf: arf.path, epoch: arf.epoch, sources: sources.map((s) => predict(resp, s, sp.bands, sp.pileup)) });
-    if (!older) continue;
-    const oRmf = older.products.find((p) => p.kind === 'rmf' && p.detector === det);
-    const oArf = arfValidOn(older.products, det, arf.validFrom);
-    if (!oRmf || !oArf) continue;
-    const oResp = responseOf(older, oRmf, oArf);
+    if (!older || !pair.older) continue;
+    const oResp = responseOf(older, pair.older.rmf, pair.older.arf);
     for (const s of sources) {
       const t0 = performance.now();
       impact.push(sourceImpact({ detector: det, source: s, newer: resp, older: oResp, bands: sp.bands, tolerance: sp.impact }));
@@ -82,6 +71,17 @@ export function releaseSpectral(ins: Instrument, newer: ReleaseProducts, older: 
     predicted,
     impact,
   };
+}
+
+/**
+ * The element data the reference sources' absorption uses (the elements of their abundance
+ * tables), published beside spectral.json as spectral-elements.json so the compare page's worker
+ * can fold and fit any pair with the build's own numbers without bundling the whole table.
+ */
+export function spectralElements(s: ReleaseSpectral): XrayTable {
+  const symbols = new Set<string>();
+  for (const src of s.sources) for (const sym of Object.keys(ABUNDANCE_TABLES.find((t) => t.name === src.abundances)?.logEpsilon ?? {})) symbols.add(sym);
+  return interactionSubset(XRAY_TABLE, [...symbols]);
 }
 
 function num(x: number): string {

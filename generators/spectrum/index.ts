@@ -16,3 +16,4 @@ export * from './fit.ts';
 export * from './pileup.ts';
 export * from './simulate.ts';
 export * from './impact.ts';
+export * from './pairing.ts';
