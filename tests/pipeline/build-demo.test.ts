@@ -45,7 +45,7 @@ describe('kiln build of the demo content', () => {
     const index = JSON.parse(tree.get('index.json')!.toString('utf8'));
     expect(index.releases.map((r: { id: string }) => r.id).sort()).toEqual(DEMO_RELEASES);
     for (const id of DEMO_RELEASES) {
-      for (const f of ['manifest.json', 'validation.json', 'summary.json', 'spectral.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
+      for (const f of ['manifest.json', 'validation.json', 'summary.json', 'spectral.json', 'spectral-elements.json']) expect(tree.has(`releases/${id}/${f}`), `${id}/${f}`).toBe(true);
       // Site data split per product: each detector's documents and one per epoch (generators/site-data/paths.ts).
       const summary = JSON.parse(tree.get(`releases/${id}/summary.json`)!.toString('utf8'));
       expect(summary.detectors.length).toBeGreaterThan(0);
@@ -62,7 +62,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|spectral\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|spectral\.json|spectral-elements\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every check of a validation report is identified by its id and product alone (sign-off and comparisons join on them)', () => {
