@@ -28,7 +28,7 @@ describe('kiln build is deterministic', () => {
   it('two builds (different content and output paths) give byte-identical trees, --workers 1 vs --workers 2', () => {
     const one = buildTree('1', 'out-a');
     const two = buildTree('2', 'site-b');
-    // 38 products + 4 × 4 JSON files (manifest, validation, summary, spectral) + index.json for the demo (content/releases/*/release.yaml), 2 × 2
+    // 38 products + 4 × 5 JSON files (manifest, validation, summary, spectral, spectral-elements) + index.json for the demo (content/releases/*/release.yaml), 2 × 2
     // model documents and schemas (built releases 2.0.0 and 2.1.0; the archives of 1.0.0 and 1.1.0 predate them),
     // a reexamined.json for each of the 2 archived releases (content/archive/),
     // plus the split site data: 5 documents per detector and one per epoch, and a finder document per detector.
@@ -36,7 +36,7 @@ describe('kiln build is deterministic', () => {
     const split = summaries.reduce((n, s) => n + s.detectors.reduce((m, d) => m + 5 + d.epochs.length, 0), 0);
     const finder = [...one.keys()].filter((p) => p.startsWith('finder/')).length;
     expect(finder).toBe(2);
-    expect(one.size).toBe(38 + 16 + 4 + 1 + 2 + split + finder);
+    expect(one.size).toBe(38 + 20 + 4 + 1 + 2 + split + finder);
     expectSameTrees(one, two);
   });
 
