@@ -38,11 +38,11 @@ describe('kiln build is deterministic', () => {
     expect(finder).toBe(2);
     expect(one.size).toBe(38 + 20 + 4 + 1 + 2 + split + finder);
     expectSameTrees(one, two);
-  });
+  }, 300_000); // two clean demo builds (impact fits included): ~30 s each on 2 loaded cores
 
   it('repeated builds with the same worker count are byte-identical too', () => {
     const a = buildTree('2', 'out');
     const b = buildTree('2', 'out');
     expectSameTrees(a, b);
-  });
+  }, 300_000);
 });
