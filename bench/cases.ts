@@ -51,7 +51,10 @@ export const RESPONSE_CASE = { kind: 'response' as const, name: 'response-demo',
 export const CHECK_PREFIX = 'check-';
 export const checkCaseOf = (productCase: string): string => `${CHECK_PREFIX}${productCase}`;
 
-export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name, RESPONSE_CASE.name];
+/** The finder and JSON index at 10,000 products (bench/finder.ts; synthetic index, no physics). */
+export const FINDER_CASE = 'finder-10k';
+
+export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name, RESPONSE_CASE.name, FINDER_CASE];
 
 /**
  * Profile with every component on: Gaussian core, low-energy tail, shelf, Si escape peak, Si

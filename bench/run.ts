@@ -15,11 +15,12 @@ import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { ARF_CASE, CASE_NAMES, LARGE_CASE, RESPONSE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { ARF_CASE, CASE_NAMES, FINDER_CASE, LARGE_CASE, RESPONSE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
 import { largeLines, timedRun } from './large.ts';
 import { filesUnder, totalSize } from './io.ts';
 import { round, type CaseResult } from './measure.ts';
 import { responsePageCase } from './browser.ts';
+import { finderCase } from './finder.ts';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 /** What the site build writes: the kiln build output (generators/cli/build.ts DEFAULT_OUT_DIR) and the Astro site. */
@@ -42,6 +43,9 @@ const TARGET_SITE_S = 60;
 /** The custom-response budgets (issue: `kiln response` ≤ 1 s, the page's generator chunk ≤ 150 KB before compression). */
 const TARGET_RESPONSE_S = 1;
 const TARGET_CHUNK_KB = 150;
+/** "Usable at 10,000 products" (our reading): a finder document ≤ 300 KB (the page budget) and a lookup ≤ 50 ms at the 99th percentile. */
+const TARGET_FINDER_DOC_KB = 300;
+const TARGET_LOOKUP_MS = 50;
 /** The page's budgets (issue): the 1024 × 800 case built in ≤ 2 s in chromium, no main-thread task over 100 ms. */
 const TARGET_PAGE_BUILD_S = 2;
 const TARGET_LONGEST_TASK_MS = 100;
@@ -277,6 +281,12 @@ for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
         verdict(`response page builds in <= ${TARGET_PAGE_BUILD_S} s (every run)`, Math.max(...p.buildS) <= TARGET_PAGE_BUILD_S, { buildS: p.buildS });
         verdict(`no main-thread task over ${TARGET_LONGEST_TASK_MS} ms while building`, p.longestTaskMs <= TARGET_LONGEST_TASK_MS, { longestTaskMs: p.longestTaskMs, longTasks: p.longTasks });
       } else console.log(JSON.stringify({ case: 'response-page', skipped: 'no built site with /response/ or no /usr/bin/chromium' }));
+      continue;
+    }
+    if (name === FINDER_CASE) {
+      const f = finderCase();
+      console.log(JSON.stringify(f));
+      verdict(`finder document <= ${TARGET_FINDER_DOC_KB} KB and lookup p99 <= ${TARGET_LOOKUP_MS} ms at ${f.products} products`, (f.largestFinderDocKB as number) <= TARGET_FINDER_DOC_KB && (f.lookupP99Ms as number) <= TARGET_LOOKUP_MS, { largestFinderDocKB: f.largestFinderDocKB, lookupP99Ms: f.lookupP99Ms, indexKB: f.indexKB });
       continue;
     }
     if (name === LARGE_CASE.name) {
