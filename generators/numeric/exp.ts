@@ -9,16 +9,8 @@
  * fdlibm's (hex patterns in the comments).
  */
 import { highWord, lowWord, scaleByPowerOfTwo } from './bits.ts';
+import { INV_LN2, LN2_HI, LN2_LO, P1, P2, P3, P4, P5 } from './constants.ts';
 
-const LN2_HI = 6.93147180369123816490e-1; // 0x3fe62e42 0xfee00000: the upper bits of ln 2, so k·LN2_HI is exact
-const LN2_LO = 1.90821492927058770002e-10; // 0x3dea39ef 0x35793c76: ln 2 − LN2_HI
-const INV_LN2 = 1.44269504088896338700; // 0x3ff71547 0x652b82fe
-/** Remez polynomial for (r·(e^r+1)/(e^r−1) − 2)/r² on |r| ≤ ln2/2 (fdlibm's P1…P5). */
-const P1 = 1.66666666666666019037e-1;
-const P2 = -2.77777777770155933842e-3;
-const P3 = 6.61375632143793436117e-5;
-const P4 = -1.65339022054652515390e-6;
-const P5 = 4.13813679705723846039e-8;
 /** Above this, e^x overflows (ln of the largest double). */
 const OVERFLOW_ABOVE = 7.09782712893383973096e2;
 /** Below this, e^x underflows to 0 (ln of half the smallest subnormal). */

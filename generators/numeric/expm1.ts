@@ -5,10 +5,8 @@
  * the exponent put back; error below 1 ulp. Constants are fdlibm's.
  */
 import { fromWords, highWord, lowWord, scaleByPowerOfTwo } from './bits.ts';
+import { INV_LN2, LN2_HI, LN2_LO } from './constants.ts';
 
-const LN2_HI = 6.93147180369123816490e-1; // 0x3fe62e42 0xfee00000
-const LN2_LO = 1.90821492927058770002e-10; // 0x3dea39ef 0x35793c76
-const INV_LN2 = 1.44269504088896338700; // 0x3ff71547 0x652b82fe
 /** Above this, e^x − 1 overflows. */
 const OVERFLOW_ABOVE = 7.09782712893383973096e2;
 const Q1 = -3.33333333333331316428e-2; // 0xbfa11111 0x111110f4

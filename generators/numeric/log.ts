@@ -6,18 +6,10 @@
  * Remez polynomial in s². Error below 1 ulp. Constants are fdlibm's.
  */
 import { highWord, lowWord, withHighWord } from './bits.ts';
+import { LG1, LG2, LG3, LG4, LG5, LG6, LG7, LN2_HI, LN2_LO } from './constants.ts';
 
-const LN2_HI = 6.93147180369123816490e-1; // 0x3fe62e42 0xfee00000
-const LN2_LO = 1.90821492927058770002e-10; // 0x3dea39ef 0x35793c76
 /** 2⁵⁴: lifts a subnormal argument into the normal range. */
 const TWO54 = 1.8014398509481984e16;
-const LG1 = 6.666666666666735130e-1; // 0x3fe55555 0x55555593
-const LG2 = 3.999999999940941908e-1; // 0x3fd99999 0x9997fa04
-const LG3 = 2.857142874366239149e-1; // 0x3fd24924 0x94229359
-const LG4 = 2.222219843214978396e-1; // 0x3fcc71c5 0x1d8e78af
-const LG5 = 1.818357216161805012e-1; // 0x3fc74664 0x96cb03de
-const LG6 = 1.531383769920937332e-1; // 0x3fc39a09 0xd078c69f
-const LG7 = 1.479819860511658591e-1; // 0x3fc2f112 0xdf3e5244
 
 export function log(x: number): number {
   let hx = highWord(x);

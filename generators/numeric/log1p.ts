@@ -4,16 +4,8 @@
  * correction c for the rounding of 1 + x, then the log polynomial of log.ts; error below 1 ulp.
  */
 import { highWord, withHighWord } from './bits.ts';
+import { LG1, LG2, LG3, LG4, LG5, LG6, LG7, LN2_HI, LN2_LO } from './constants.ts';
 
-const LN2_HI = 6.93147180369123816490e-1; // 0x3fe62e42 0xfee00000
-const LN2_LO = 1.90821492927058770002e-10; // 0x3dea39ef 0x35793c76
-const LP1 = 6.666666666666735130e-1; // 0x3fe55555 0x55555593
-const LP2 = 3.999999999940941908e-1; // 0x3fd99999 0x9997fa04
-const LP3 = 2.857142874366239149e-1; // 0x3fd24924 0x94229359
-const LP4 = 2.222219843214978396e-1; // 0x3fcc71c5 0x1d8e78af
-const LP5 = 1.818357216161805012e-1; // 0x3fc74664 0x96cb03de
-const LP6 = 1.531383769920937332e-1; // 0x3fc39a09 0xd078c69f
-const LP7 = 1.479819860511658591e-1; // 0x3fc2f112 0xdf3e5244
 
 export function log1p(x: number): number {
   const hx = highWord(x);
@@ -71,6 +63,6 @@ export function log1p(x: number): number {
   }
   const s = f / (2 + f);
   const z = s * s;
-  const r = z * (LP1 + z * (LP2 + z * (LP3 + z * (LP4 + z * (LP5 + z * (LP6 + z * LP7))))));
+  const r = z * (LG1 + z * (LG2 + z * (LG3 + z * (LG4 + z * (LG5 + z * (LG6 + z * LG7))))));
   return k === 0 ? f - (hfsq - s * (hfsq + r)) : k * LN2_HI - (hfsq - (s * (hfsq + r) + (k * LN2_LO + c)) - f);
 }

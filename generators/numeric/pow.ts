@@ -6,6 +6,7 @@
  * Special values follow ECMAScript's rules, which agree with C99's except pow(±1, ±∞) = NaN.
  */
 import { fromWords, highWord, lowWord, scaleByPowerOfTwo, withHighWord, withLowWord } from './bits.ts';
+import { P1, P2, P3, P4, P5 } from './constants.ts';
 
 const BP = [1, 1.5];
 const DP_H = [0, 5.84962487220764160156e-1]; // 0x3fe2b803 0x40000000: log₂(1.5), high part
@@ -18,11 +19,6 @@ const L3 = 3.33333329818377432918e-1; // 0x3fd55555 0x518f264d
 const L4 = 2.72728123808534006489e-1; // 0x3fd17460 0xa91d4101
 const L5 = 2.30660745775561754067e-1; // 0x3fcd864a 0x93c9db65
 const L6 = 2.06975017800338417784e-1; // 0x3fca7e28 0x4a454eef
-const P1 = 1.66666666666666019037e-1; // 0x3fc55555 0x5555553e
-const P2 = -2.77777777770155933842e-3; // 0xbf66c16c 0x16bebd93
-const P3 = 6.61375632143793436117e-5; // 0x3f11566a 0xaf25de2c
-const P4 = -1.65339022054652515390e-6; // 0xbebbbd41 0xc5d26bf1
-const P5 = 4.13813679705723846039e-8; // 0x3e663769 0x72bea4d0
 const LG2 = 6.93147180559945286227e-1; // 0x3fe62e42 0xfefa39ef
 const LG2_H = 6.93147182464599609375e-1; // 0x3fe62e43 0x00000000
 const LG2_L = -1.90465429995776804525e-9; // 0xbe205c61 0x0ca86c39

@@ -9,7 +9,7 @@ import { readArf, readRmf } from '../../../generators/ogip/index.ts';
 import { foldingResponse, impactPairs, sourceImpact, type FoldingResponse, type SourceImpact } from '../../../generators/spectrum/index.ts';
 import type { ProductSummary, ReleaseSpectral } from '../../../generators/site-data/types.ts';
 import { maybeGunzip } from '../inspect/gunzip.ts';
-import { productUrl } from '../published-row/read.ts';
+import { fetchBytes, productUrl } from '../published-row/read.ts';
 
 export interface ImpactSide {
   id: string;
@@ -26,17 +26,6 @@ export interface ImpactRequest {
 }
 
 export type Progress = (done: number, total: number, phase: string) => void;
-
-async function fetchBytes(url: string): Promise<Uint8Array> {
-  let r: Response;
-  try {
-    r = await fetch(url);
-  } catch (e) {
-    throw new Error(`could not fetch ${url} (${(e as Error).message})`);
-  }
-  if (!r.ok) throw new Error(`could not fetch ${url}: HTTP ${r.status}`);
-  return new Uint8Array(await r.arrayBuffer());
-}
 
 async function responseOf(release: string, rmf: ProductSummary, arf: ProductSummary): Promise<FoldingResponse> {
   const [rb, ab] = await Promise.all([fetchBytes(productUrl(release, rmf)), fetchBytes(productUrl(release, arf))]);

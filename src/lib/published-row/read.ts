@@ -28,8 +28,8 @@ export async function readPublishedRmf(bytes: Uint8Array, fileName: string): Pro
   return readRmf(readFits(await maybeGunzip(bytes), { fileName })).data;
 }
 
-/** Fetches and reads a product; a failed request says which URL and why. */
-export async function fetchPublishedRmf(url: string, fetchFn: typeof fetch = fetch): Promise<RmfData> {
+/** The bytes of a site file; a failed request says which URL and why. */
+export async function fetchBytes(url: string, fetchFn: typeof fetch = fetch): Promise<Uint8Array> {
   let r: Response;
   try {
     r = await fetchFn(url);
@@ -37,6 +37,11 @@ export async function fetchPublishedRmf(url: string, fetchFn: typeof fetch = fet
     throw new Error(`could not fetch ${url} (${(e as Error).message})`);
   }
   if (!r.ok) throw new Error(`could not fetch ${url}: HTTP ${r.status}`);
+  return new Uint8Array(await r.arrayBuffer());
+}
+
+/** Fetches and reads a product. */
+export async function fetchPublishedRmf(url: string, fetchFn: typeof fetch = fetch): Promise<RmfData> {
   const name = decodeURIComponent(url.slice(url.lastIndexOf('/') + 1));
-  return readPublishedRmf(new Uint8Array(await r.arrayBuffer()), name);
+  return readPublishedRmf(await fetchBytes(url, fetchFn), name);
 }
