@@ -1,42 +1,48 @@
 /**
  * Access to the two 32-bit words of an IEEE 754 double, as the functions of this folder need them.
- * One shared 8-byte view: JavaScript is single-threaded per realm, so no call can interleave.
- * DataView is big-endian by default, so byte offset 0 holds the high word (sign, exponent, top of
- * the mantissa) on every platform.
+ * One shared 8-byte buffer seen as a double and as two 32-bit words (typed arrays are much faster
+ * than DataView calls in the hot loops of the matrix builder); the platform's byte order, found
+ * once, says which word is the high one. JavaScript is single-threaded per realm, so no call can
+ * interleave.
  */
-const view = new DataView(new ArrayBuffer(8));
+const f64 = new Float64Array(1);
+const i32 = new Int32Array(f64.buffer);
+const u32 = new Uint32Array(f64.buffer);
+/** Index of the high word (sign, exponent, top of the mantissa): 1 on little-endian platforms. */
+const HI = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+const LO = 1 - HI;
 
 /** High word of `x` as a signed 32-bit integer (sign bit in bit 31). */
 export function highWord(x: number): number {
-  view.setFloat64(0, x);
-  return view.getInt32(0);
+  f64[0] = x;
+  return i32[HI];
 }
 
 /** Low word of `x` as an unsigned 32-bit integer. */
 export function lowWord(x: number): number {
-  view.setFloat64(0, x);
-  return view.getUint32(4);
+  f64[0] = x;
+  return u32[LO];
 }
 
 /** The double with the given high word and `x`'s low word. */
 export function withHighWord(x: number, high: number): number {
-  view.setFloat64(0, x);
-  view.setInt32(0, high | 0);
-  return view.getFloat64(0);
+  f64[0] = x;
+  i32[HI] = high | 0;
+  return f64[0];
 }
 
 /** The double with `x`'s high word and the given low word (fdlibm's `__LO(x) = lo`). */
 export function withLowWord(x: number, low: number): number {
-  view.setFloat64(0, x);
-  view.setUint32(4, low >>> 0);
-  return view.getFloat64(0);
+  f64[0] = x;
+  u32[LO] = low >>> 0;
+  return f64[0];
 }
 
 /** The double made of the two words. */
 export function fromWords(high: number, low: number): number {
-  view.setInt32(0, high | 0);
-  view.setUint32(4, low >>> 0);
-  return view.getFloat64(0);
+  i32[HI] = high | 0;
+  u32[LO] = low >>> 0;
+  return f64[0];
 }
 
 /** Exponent bias of an IEEE 754 double (IEEE 754-2008, table 3.5). */
@@ -48,9 +54,7 @@ const TWO_M1000 = powerOfTwoNormal(-1000);
 
 /** 2^k exactly, for a normal exponent k in [-1022, 1023]. */
 function powerOfTwoNormal(k: number): number {
-  view.setInt32(0, (k + EXPONENT_BIAS) << 20);
-  view.setUint32(4, 0);
-  return view.getFloat64(0);
+  return fromWords((k + EXPONENT_BIAS) << 20, 0);
 }
 
 /**
