@@ -49,13 +49,21 @@ export function fromWords(high: number, low: number): number {
 const EXPONENT_BIAS = 1023;
 /** Smallest exponent of a normal double. */
 const MIN_NORMAL_EXPONENT = -1022;
-/** 2⁻¹⁰⁰⁰: lets `scaleByPowerOfTwo` reach the subnormal range with a single rounding. */
-const TWO_M1000 = powerOfTwoNormal(-1000);
+
+/** 2^k for every normal exponent k in [-1022, 1023], made once from their bits (a table read is the fastest exact power of two). */
+const POWERS_OF_TWO = (() => {
+  const t = new Float64Array(2046);
+  for (let k = MIN_NORMAL_EXPONENT; k <= 1023; k++) t[k - MIN_NORMAL_EXPONENT] = fromWords((k + EXPONENT_BIAS) << 20, 0);
+  return t;
+})();
 
 /** 2^k exactly, for a normal exponent k in [-1022, 1023]. */
 function powerOfTwoNormal(k: number): number {
-  return fromWords((k + EXPONENT_BIAS) << 20, 0);
+  return POWERS_OF_TWO[k - MIN_NORMAL_EXPONENT];
 }
+
+/** 2⁻¹⁰⁰⁰: lets `scaleByPowerOfTwo` reach the subnormal range with a single rounding. */
+const TWO_M1000 = powerOfTwoNormal(-1000);
 
 /**
  * y · 2^k for an integer k, rounded once (as C's scalbn): exact unless the result leaves the

@@ -8,7 +8,7 @@
  * operations only, which JavaScript specifies exactly: error below 1 ulp. The constants are
  * fdlibm's (hex patterns in the comments).
  */
-import { highWord, lowWord, scaleByPowerOfTwo } from './bits.ts';
+import { fromWords, scaleByPowerOfTwo } from './bits.ts';
 import { INV_LN2, LN2_HI, LN2_LO, P1, P2, P3, P4, P5 } from './constants.ts';
 
 /** Above this, e^x overflows (ln of the largest double). */
@@ -16,18 +16,26 @@ const OVERFLOW_ABOVE = 7.09782712893383973096e2;
 /** Below this, e^x underflows to 0 (ln of half the smallest subnormal). */
 const UNDERFLOW_BELOW = -7.45133219101941108420e2;
 
+/** Smallest |x| whose high word is ≥ 0x40862e42 (fdlibm: "|x| ≥ 709.78"). */
+const HUGE_FROM = fromWords(0x40862e42, 0);
+/** Smallest |x| whose high word is > 0x3fd62e42 (fdlibm: "|x| > ln2/2"). */
+const REDUCE_FROM = fromWords(0x3fd62e43, 0);
+/** Smallest |x| whose high word is ≥ 0x3ff0a2b2 (fdlibm: "|x| ≥ 1.5 ln2"). */
+const NEAR_LN2_BELOW = fromWords(0x3ff0a2b2, 0);
+/** 2⁻²⁸ (high word 0x3e300000). */
+const TINY_BELOW = fromWords(0x3e300000, 0);
+
 export function exp(x: number): number {
   // V8 returns Math.E for e¹ (fdlibm gives the double one ulp above); kept so Node's bytes do not move.
   if (x === 1) return Math.E;
-  const hx = highWord(x);
-  const negative = hx < 0;
-  const ahx = hx & 0x7fffffff;
-  if (ahx >= 0x40862e42) {
-    // |x| ≥ 709.78…: non-finite, overflow or underflow.
-    if (ahx >= 0x7ff00000) {
-      if (((ahx & 0xfffff) | lowWord(x)) !== 0) return NaN;
-      return negative ? 0 : Infinity;
-    }
+  // fdlibm tests the high word of |x| against fixed patterns; the same tests on the double itself
+  // (each pattern's smallest double, REDUCE_ABOVE etc.) avoid the bit access in the common path.
+  const negative = x < 0;
+  const ax = negative ? -x : x;
+  if (!(ax < HUGE_FROM)) {
+    // |x| ≥ 709.78…: NaN, non-finite, overflow or underflow.
+    if (x !== x) return NaN;
+    if (ax === Infinity) return negative ? 0 : Infinity;
     if (x > OVERFLOW_ABOVE) return Infinity;
     if (x < UNDERFLOW_BELOW) return 0;
   }
@@ -36,9 +44,9 @@ export function exp(x: number): number {
   let lo = 0;
   let k = 0;
   let r = x;
-  if (ahx > 0x3fd62e42) {
+  if (ax >= REDUCE_FROM) {
     // |x| > ln2/2
-    if (ahx < 0x3ff0a2b2) {
+    if (ax < NEAR_LN2_BELOW) {
       // and |x| < 1.5·ln2
       hi = negative ? x + LN2_HI : x - LN2_HI;
       lo = negative ? -LN2_LO : LN2_LO;
@@ -49,7 +57,7 @@ export function exp(x: number): number {
       lo = k * LN2_LO;
     }
     r = hi - lo;
-  } else if (ahx < 0x3e300000) {
+  } else if (ax < TINY_BELOW) {
     // |x| < 2⁻²⁸: e^x = 1 + x to within half an ulp.
     return 1 + x;
   }
