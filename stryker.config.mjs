@@ -35,6 +35,9 @@ export default {
   // Reference tests start Debian's python per file; give a mutant's run room before calling it a timeout.
   timeoutMS: 60_000,
   timeoutFactor: 2,
+  // The first (coverage) run executes every related test once; on 2 loaded cores that took over
+  // Stryker's default 5 minutes for generators/numeric, which nearly every core test imports.
+  dryRunTimeoutMinutes: 30,
   reporters: ['clear-text', 'progress', 'json', 'html'],
   jsonReporter: { fileName: `.kiln/mutation/report-${name}.json` },
   htmlReporter: { fileName: `.kiln/mutation/report-${name}.html` },

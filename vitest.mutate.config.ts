@@ -16,6 +16,8 @@ export default defineConfig({
       'tests/checks/**/*.test.ts',
       'tests/compare/**/*.test.ts',
       'tests/engine/**/*.test.ts',
+      'tests/numeric/**/*.test.ts',
+      'tests/spectrum/**/*.test.ts',
       'tests/atomic/**/*.test.ts',
     ],
     testTimeout: 60_000,
