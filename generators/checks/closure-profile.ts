@@ -12,7 +12,7 @@ import type { RmfData } from '../response/types.ts';
 import { closureSigma, slug } from './closure.ts';
 import type { ClosurePull, ClosureQuantity } from './closure-joint.ts';
 import { fmt, makeCheck } from './make-check.ts';
-import { refitProfileAt, type RefitContext } from './profile-refit.ts';
+import { refitProfileAt, type ProfileRefit, type RefitContext } from './profile-refit.ts';
 import type { Check } from './types.ts';
 
 /** The refit's own accuracy (3σ), Kiln's choice from the refit of known rows (tests/checks/profile-refit.test.ts). */
@@ -38,7 +38,8 @@ export function profileQuantitiesOf(line: LineFit): ClosureQuantity[] {
   return q;
 }
 
-export function checkProfileClosure(inp: ProfileClosureInput): { checks: Check[]; pulls: ClosurePull[] } {
+/** `refit` is what the checks compared (null when the row could not be refitted); the site plots it at the line. */
+export function checkProfileClosure(inp: ProfileClosureInput): { checks: Check[]; pulls: ClosurePull[]; refit: ProfileRefit | null } {
   const { rmf, line, product, zMax } = inp;
   const s = slug(line.line);
   const quantities = profileQuantitiesOf(line);
@@ -48,7 +49,7 @@ export function checkProfileClosure(inp: ProfileClosureInput): { checks: Check[]
   });
   if (!refit) {
     const msg = `the matrix row near ${fmt(line.energyKeV)} keV could not be refitted with core, tail and shelf`;
-    return { checks: quantities.map((q) => makeCheck('fail', { id: `closure.${q}.${s}`, title: `${q} closure at ${line.line}`, product, message: msg })), pulls: [] };
+    return { checks: quantities.map((q) => makeCheck('fail', { id: `closure.${q}.${s}`, title: `${q} closure at ${line.line}`, product, message: msg })), pulls: [], refit: null };
   }
   const spec: Record<string, { model: number; measured: number; err: number | null | undefined; floor: number; unit: string; independent: boolean; digits: (x: number) => string }> = {
     'tail-fraction': { model: refit.tailFraction, measured: line.tailFraction, err: line.tailFractionErr, floor: PROFILE_FLOORS.tailFraction, unit: 'fraction', independent: inp.independent.tail, digits: fmt },
@@ -75,5 +76,5 @@ export function checkProfileClosure(inp: ProfileClosureInput): { checks: Check[]
       }),
     );
   }
-  return { checks, pulls };
+  return { checks, pulls, refit };
 }

@@ -47,6 +47,7 @@ import { jobFingerprint, jobIdOf, type JobOutput } from './job-output.ts';
 import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
 import { checksPath, REEXAMINED_FILE } from '../site-data/paths.ts';
+import { overlayDocument } from '../site-data/overlay.ts';
 import { reexamineArchive } from './reexamine.ts';
 export { gzipProduct } from './job-output.ts';
 import { modelJobs } from './model-jobs.ts';
@@ -282,6 +283,7 @@ interface JobSlot {
   fits: JobOutput['meta']['fits'];
   nnz: number;
   entry: ReturnType<typeof splitDetector>['entry'];
+  overlay: ReturnType<typeof splitDetector>['overlay'];
 }
 
 /** Writes one job's products and site documents (all but its checks) into the release directory. */
@@ -297,10 +299,10 @@ function writeJobOutput(dir: string, releaseId: string, out: JobOutput): JobSlot
       ...(f.validChannels ? { validChannels: f.validChannels } : {}),
     };
   });
-  const { entry, documents } = splitDetector(releaseId, m.site, m.parameters, products, []);
+  const { entry, documents, overlay } = splitDetector(releaseId, m.site, m.parameters, products, []);
   const checksDoc = checksPath(m.site.id);
   writeSiteDocuments(dir, documents.filter((d) => d.path !== checksDoc));
-  return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry };
+  return { detectorId: m.site.id, products, checks: m.checks, parameters: m.parameters, fits: m.fits, nnz: m.nnz, entry, overlay };
 }
 
 /** A release's spectral section, from the cache when its key (sources, product hashes, generator) is unchanged. */
@@ -454,6 +456,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         });
         const orphans = [...byDet].filter(([d]) => d === null || !known.has(d)).flatMap(([, cs]) => cs);
         const allParameters = slots.flatMap((x) => x.parameters);
+        writeSiteDocuments(dir, [overlayDocument(rel.id, slots.map((x) => x.overlay))]);
         writeSiteDocuments(dir, [{ path: 'summary.json', doc: summaryDoc({ ...releaseHead(rel), notesMarkdown: rel.notesMarkdown }, entries, orphans, allParameters.filter((p) => p.detector === null || !known.has(p.detector))) }]);
         const report: ValidationReport = { schema: 'kiln/validation/1', release: rel.id, checks };
         writeJson(join(dir, 'validation.json'), report);

@@ -27,6 +27,8 @@ export interface DetectorProducts {
   /** The whole detector's matrix (shipped when the release builds per-detector products; always used for checks and plots). */
   redistribution: RedistributionResult;
   epochs: EpochProducts[];
+  /** Each region's matrix by product label, when the release builds per-region products (in memory only: the site's per-region curves). */
+  regionMatrices: { label: string; rmf: RedistributionResult['rmf'] }[];
   /** Channels and energies the model covers completely (written in every product). */
   validRange: ValidRange;
 }
@@ -121,5 +123,6 @@ export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
       },
     });
   }
-  return { files, redistribution, epochs, validRange: range };
+  const regionMatrices = regions.flatMap((r, k) => (r.node !== null ? [{ label: r.label, rmf: matrices[k].rmf }] : []));
+  return { files, redistribution, epochs, regionMatrices, validRange: range };
 }

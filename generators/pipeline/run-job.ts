@@ -4,7 +4,7 @@ import type { FitResult } from '../fit/index.ts';
 import type { BuiltFile, DetectorJob } from './job.ts';
 import { buildDetectorProducts } from './product.ts';
 import { detectorSite } from './site-detector.ts';
-import { validateDetector } from './validate.ts';
+import { validateDetector, type LineRefits } from './validate.ts';
 import { rebuildChecks } from '../model/rebuild.ts';
 
 export interface DetectorJobResult {
@@ -20,9 +20,10 @@ export interface DetectorJobResult {
 
 export function runDetectorJob(job: DetectorJob): DetectorJobResult {
   const built = buildDetectorProducts(job);
-  const checks = validateDetector(job, built);
+  const refits: LineRefits = new Map();
+  const checks = validateDetector(job, built, refits);
   if (job.rebuildFrom && job.modelSha256) checks.push(...rebuildChecks(job.rebuildFrom, job.modelSha256, job.detector.id, built.files));
-  const { site, parameters, fits } = detectorSite(job, built);
+  const { site, parameters, fits } = detectorSite(job, built, refits);
   return {
     releaseId: job.release.id,
     detectorId: job.detector.id,

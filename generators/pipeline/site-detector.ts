@@ -9,9 +9,12 @@ import { detectorRegion, regionsOf, transferLossOf, type Region } from '../model
 import { fitCentroidLaw, fitFwhmLaw, type FitResult } from '../fit/index.ts';
 import { isInputError } from '../errors.ts';
 import type { RmfData } from '../response/types.ts';
-import type { DetectorSite, LineFitSite, MatrixImage, ParameterRow, ProfileSet, RegionCurves } from '../site-data/types.ts';
+import type { DetectorSite, EfficiencyCurve, LineFitSite, MatrixImage, ParameterRow, ProfileSet, RegionCurves } from '../site-data/types.ts';
+import { pick, thinIndices } from '../site-data/thin.ts';
+import { rowSums } from '../checks/numbers-rmf.ts';
 import type { DetectorJob } from './job.ts';
 import type { DetectorProducts } from './product.ts';
+import { lineEfficiencyModel, type LineRefits } from './validate.ts';
 
 const EV_PER_KEV = 1000;
 /** Points of the model curves on the plots (log-spaced). */
@@ -27,6 +30,12 @@ const PROFILE_ENERGIES_KEV = [0.3, 0.5, 1, 2, 3, 4.5, 6, 8, 10];
 const SITE_DIGITS = 5;
 /** Digits of curves that only feed plots (effective area, efficiencies): 1e-4 relative is far below a pixel. */
 const CURVE_DIGITS = 4;
+/**
+ * The efficiency curve keeps the matrix bins a straight line between kept ones misses by more than
+ * this fraction of the curve's span (on a log energy axis): a tenth of a pixel on a 1000-pixel
+ * plot, so edges stay sharp while the document carries a fraction of the bins.
+ */
+const EFFICIENCY_THIN_TOLERANCE = 1e-4;
 /** Digits of tabulated parameters: beyond any stated uncertainty. */
 const PARAMETER_DIGITS = 6;
 
@@ -128,7 +137,27 @@ export interface DetectorSiteResult {
   fits: { fwhm: FitResult | null; centroid: FitResult | null };
 }
 
-export function detectorSite(job: DetectorJob, built: DetectorProducts): DetectorSiteResult {
+/**
+ * Model line efficiency on the matrix energy grid for the detector's matrix and each region's: the
+ * first epoch's detector QE (bin averages, as in its ARF) × each row's detected fraction.
+ */
+function efficiencyCurves(built: DetectorProducts): { curve: EfficiencyCurve; regions: Map<string, number[]> } | null {
+  const ep = built.epochs[0];
+  const rmf = built.redistribution.rmf;
+  if (!ep || ep.site.detectorQE.length !== rmf.rows.length) return null;
+  const qe = ep.site.detectorQE;
+  const times = (sums: Float64Array) => qe.map((q, i) => q * sums[i]);
+  const whole = times(rowSums(rmf));
+  const regional = built.regionMatrices.map((r) => ({ label: r.label, values: times(rowSums(r.rmf)) }));
+  const keep = thinIndices(ep.site.energyKeV, [whole, ...regional.map((r) => r.values)], { tolerance: EFFICIENCY_THIN_TOLERANCE });
+  const rounded = (v: number[]) => pick(v, keep).map((x) => round(x, CURVE_DIGITS));
+  return {
+    curve: { epoch: ep.epoch, energyKeV: pick(ep.site.energyKeV, keep).map((x) => round(x, 6)), detected: rounded(whole) },
+    regions: new Map(regional.map((r) => [r.label, rounded(r.values)])),
+  };
+}
+
+export function detectorSite(job: DetectorJob, built: DetectorProducts, refits?: LineRefits): DetectorSiteResult {
   const { detector } = job;
   const spec = detector.redistribution;
   const rmf = built.redistribution.rmf;
@@ -145,19 +174,35 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
   const fwhmAt = (e: number) => paramsAt(e).sigmaKeV * FWHM_PER_SIGMA * EV_PER_KEV;
   const shiftAt = (e: number) => (paramsAt(e).centroidKeV - e) * EV_PER_KEV;
   const perRegion = regionsOf(detector, job.release.productsPer ?? 'detector').filter((r) => r.node !== null);
+  // The tail's share of events: for the collection model, the partial-charge share of its layer.
+  const tailOf = (p: ReturnType<typeof paramsAt>) => (spec.tail.source === 'collection' ? (p.partial?.fraction ?? 0) : p.tailFraction);
+  const tailCurve = curveE.map((e) => round(tailOf(paramsAt(e))));
+  const shelfCurve = curveE.map((e) => round(paramsAt(e).shelfFraction));
+  const same = (a: number[], b: number[]) => a.every((v, i) => v === b[i]);
+  const eff = efficiencyCurves(built);
   const regions: RegionCurves[] = perRegion.map((r) => {
     const p = paramsOf(r);
+    const tail = curveE.map((e) => round(tailOf(p(e))));
+    const shelf = curveE.map((e) => round(p(e).shelfFraction));
+    const effR = eff?.regions.get(r.label);
     return {
       label: r.label,
       node: r.node!,
       rowBand: r.rowBand,
       fwhmEv: curveE.map((e) => round(p(e).sigmaKeV * FWHM_PER_SIGMA * EV_PER_KEV)),
       centroidOffsetEv: curveE.map((e) => round((p(e).centroidKeV - e) * EV_PER_KEV)),
+      // A region's tail and shelf only where its model differs from the detector's (nodes usually differ in noise and gain only).
+      ...(same(tail, tailCurve) ? {} : { tailFraction: tail }),
+      ...(same(shelf, shelfCurve) ? {} : { shelfFraction: shelf }),
+      ...(effR ? { efficiencyDetected: effR } : {}),
     };
   });
 
   const lines = detector.lineFits;
+  const withEff = lines.filter((l) => l.efficiency !== null);
+  const modelEff = new Map(Array.from(lineEfficiencyModel(job, rmf, withEff.map((l) => l.energyKeV)), (v, i) => [withEff[i], v] as const));
   const lineFits: LineFitSite[] = lines.map((l) => {
+    const refit = refits?.get(l.line);
     const mf = fwhmAt(l.energyKeV);
     const mc = paramsAt(l.energyKeV).centroidKeV;
     return {
@@ -172,6 +217,13 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
       modelCentroidKeV: round(mc, 7),
       centroidResidualEv: round((l.centroidKeV - mc) * EV_PER_KEV),
       efficiency: l.efficiency,
+      efficiencyErr: l.efficiencyErr,
+      tailFraction: l.tailFraction,
+      tailFractionErr: l.tailFractionErr,
+      shelfFraction: l.shelfFraction,
+      shelfFractionErr: l.shelfFractionErr ?? null,
+      ...(refits ? { refitTailFraction: refit ? round(refit.tailFraction) : null, refitShelfFraction: refit ? round(refit.shelfFraction) : null } : {}),
+      modelEfficiency: modelEff.has(l) ? round(modelEff.get(l)!) : null,
     };
   });
   const chi2 = (res: number[], err: number[]) => res.reduce((s, r, i) => s + (r / err[i]) ** 2, 0);
@@ -200,7 +252,15 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts): Detecto
       detectorQE: e.site.detectorQE.map((x) => round(x, CURVE_DIGITS)),
       effectiveAreaCm2: e.site.effectiveAreaCm2.map((x) => round(x, CURVE_DIGITS)),
     })),
-    resolution: { energyKeV: curveE.map((e) => round(e)), fwhmEv: curveE.map((e) => round(fwhmAt(e))), centroidOffsetEv: curveE.map((e) => round(shiftAt(e))) },
+    resolution: {
+      energyKeV: curveE.map((e) => round(e)),
+      fwhmEv: curveE.map((e) => round(fwhmAt(e))),
+      centroidOffsetEv: curveE.map((e) => round(shiftAt(e))),
+      tailFraction: tailCurve,
+      shelfFraction: shelfCurve,
+      tailSource: spec.tail.source,
+    },
+    ...(eff ? { efficiency: eff.curve } : {}),
     ...(regions.length ? { regions } : {}),
     lineFits,
     fitQuality: {

@@ -8,6 +8,7 @@ import { countsStackFluorescence, DEFAULT_DROP_BUDGET, efficiencyOptionsFor } fr
 import { closureSigma, DEFAULT_CLOSURE_TOLERANCES } from '../checks/index.ts';
 import { jointBounds, jointClosureCheck, type ClosurePull } from '../checks/closure-joint.ts';
 import { checkProfileClosure, profileQuantitiesOf } from '../checks/closure-profile.ts';
+import type { ProfileRefit } from '../checks/profile-refit.ts';
 import { extrapolationChecks } from '../checks/extrapolation.ts';
 import { epochAdequacyChecks } from '../checks/epoch-adequacy.ts';
 import { defaultCheckSettings, type CheckSettings } from './check-settings.ts';
@@ -85,8 +86,26 @@ function rangeCheck(r: ValidRange, product: string): Check {
   });
 }
 
-export function validateDetector(job: DetectorJob, built: DetectorProducts): Check[] {
-  return validateDetectorRaw(job, built).map(tidyCheck);
+/**
+ * Model line efficiency at each energy, as closure.efficiency.* judges it: the stack's QE on the
+ * first epoch's date (plus the stack's fluorescence photons where the matrix carries them, as the
+ * ARF counts them) × the matrix row's detected fraction there.
+ */
+export function lineEfficiencyModel(job: DetectorJob, rmf: RmfData, energiesKeV: readonly number[]): Float64Array {
+  if (!energiesKeV.length) return new Float64Array(0);
+  const spec = job.detector.redistribution;
+  const firstDate = job.detector.epochs[0].date;
+  const e = Float64Array.from(energiesKeV);
+  const qe = efficiencyBreakdown(job.detector.stack, e, firstDate, efficiencyOptionsFor(spec)).detectorQE;
+  if (countsStackFluorescence(spec)) stackFluorescence(job.detector.stack, e, firstDate).forEach((f, i) => (qe[i] += f));
+  return qe.map((q, i) => q * foldedLineEfficiency(rmf, e[i]));
+}
+
+/** Matrix rows refitted at each line by the closure checks, by line name (the site plots them beside the line fits). */
+export type LineRefits = Map<string, ProfileRefit | null>;
+
+export function validateDetector(job: DetectorJob, built: DetectorProducts, refits?: LineRefits): Check[] {
+  return validateDetectorRaw(job, built, refits).map(tidyCheck);
 }
 
 /**
@@ -94,7 +113,7 @@ export function validateDetector(job: DetectorJob, built: DetectorProducts): Che
  * scale and shelf from a refit of the rows (closure-profile.ts), every per-line check at the joint
  * bound z*, and the joint χ² per detector (closure-joint.ts).
  */
-function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: CheckSettings): Check[] {
+function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: CheckSettings, refits?: LineRefits): Check[] {
   const spec = job.detector.redistribution;
   const lines = job.detector.lineFits;
   const independent = {
@@ -118,11 +137,7 @@ function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: 
   const pullFrom = (c: Check, line: string, quantity: ClosurePull['quantity'], sigma: number, unit: string, indep: boolean) => {
     if (typeof c.measured === 'number') pulls.push({ line, quantity, residual: c.measured, sigma, unit, independent: indep });
   };
-  const firstDate = job.detector.epochs[0].date;
-  const effEnergies = Float64Array.from(withEff, (l) => l.energyKeV);
-  const qe = withEff.length ? efficiencyBreakdown(job.detector.stack, effEnergies, firstDate, efficiencyOptionsFor(spec)).detectorQE : new Float64Array(0);
-  // the ARF also counts the stack's fluorescence photons when the matrix carries them
-  if (withEff.length && countsStackFluorescence(spec)) stackFluorescence(job.detector.stack, effEnergies, firstDate).forEach((f, i) => (qe[i] += f));
+  const modelEff = lineEfficiencyModel(job, rmf, withEff.map((l) => l.energyKeV));
   const silicon = spec.escape || spec.siFluorescenceFraction > 0 || spec.siFluorescenceSource === 'stack' ? escapeInputsFor(job.detector.stack.sensor.material.formula) : undefined;
   for (const line of lines) {
     const [c, f] = checkLineClosure(rmf, line, rmfId, tol, { binAveraged: true });
@@ -139,9 +154,10 @@ function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: 
     });
     checks.push(...prof.checks);
     pulls.push(...prof.pulls);
+    refits?.set(line.line, prof.refit);
   }
   withEff.forEach((line, i) => {
-    const eff = checkEfficiencyClosure(qe[i] * foldedLineEfficiency(rmf, line.energyKeV), line, rmfId, tol);
+    const eff = checkEfficiencyClosure(modelEff[i], line, rmfId, tol);
     if (!eff) return;
     checks.push(eff);
     pullFrom(eff, line.line, 'efficiency', closureSigma(line.efficiencyErr, tol.efficiencyFloor), 'fraction', true);
@@ -150,11 +166,11 @@ function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: 
   return checks;
 }
 
-function validateDetectorRaw(job: DetectorJob, built: DetectorProducts): Check[] {
+function validateDetectorRaw(job: DetectorJob, built: DetectorProducts, refits?: LineRefits): Check[] {
   const rmf = built.redistribution.rmf;
   // Accounting and closure are of the whole detector's matrix: per-region releases do not ship it, so name it by the detector.
   const rmfId = built.files.find((f) => f.kind === 'rmf' && f.node === undefined && f.rowBand === undefined)?.id ?? `${job.detector.id}-rmf`;
-  return [...fileChecks(built.files, rmf), ...accountingChecks(built, rmfId), ...modelChecks(job, rmf, rmfId, built.validRange)];
+  return [...fileChecks(built.files, rmf), ...accountingChecks(built, rmfId), ...modelChecks(job, rmf, rmfId, built.validRange, refits)];
 }
 
 /** One product file as the checks see it: id, file name, kind and its (uncompressed) FITS bytes. */
@@ -171,9 +187,9 @@ function fileChecks(files: readonly CheckedFile[], rmf: RmfData | undefined): Ch
 }
 
 /** Checks of the model a matrix stands for: valid range, closure against the line fits, extrapolation, epochs. */
-function modelChecks(job: DetectorJob, rmf: RmfData, rmfId: string, range: ValidRange): Check[] {
+function modelChecks(job: DetectorJob, rmf: RmfData, rmfId: string, range: ValidRange, refits?: LineRefits): Check[] {
   const settings = job.checks ?? defaultCheckSettings();
-  const checks: Check[] = [rangeCheck(range, rmfId), ...closureChecks(job, rmf, rmfId, settings)];
+  const checks: Check[] = [rangeCheck(range, rmfId), ...closureChecks(job, rmf, rmfId, settings, refits)];
   const grid = job.instrument.energyGrid;
   checks.push(
     ...extrapolationChecks(job.detector.redistribution, job.detector.lineFits, [grid.minKeV, grid.maxKeV], {

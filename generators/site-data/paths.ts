@@ -6,6 +6,8 @@
 export const SUMMARY_FILE = 'summary.json';
 /** Archived releases: today's checks on their bytes (ReexaminationDoc). */
 export const REEXAMINED_FILE = 'reexamined.json';
+/** Every detector's curves of a release, thinned for the release page's overlay plots (ReleaseOverlayDoc). */
+export const OVERLAY_FILE = 'overlay.json';
 
 export const detectorDir = (detector: string): string => `detectors/${detector}`;
 export const modelPath = (detector: string): string => `${detectorDir(detector)}/model.json`;

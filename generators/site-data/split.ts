@@ -5,6 +5,7 @@
  * keeps the whole-release `site.json` it was published with, and `joinRelease` puts the pieces
  * back together where a whole release is wanted (publishing, `kiln compare`, tests).
  */
+import { overlayDetector, overlayDocument } from './overlay.ts';
 import { finderPath, areaPath, checksPath, epochPath, matrixPath, modelPath, profilesPath } from './paths.ts';
 import type {
   Check,
@@ -15,6 +16,7 @@ import type {
   DetectorModelDoc,
   DetectorProfilesDoc,
   FinderDetectorDoc,
+  OverlayDetector,
   ReleaseIndex,
   DetectorSite,
   EpochDataDoc,
@@ -47,7 +49,7 @@ export function splitDetector(
   parameters: ParameterRow[],
   products: ProductSummary[],
   checks: Check[],
-): { entry: DetectorEntry; documents: SiteDocument[] } {
+): { entry: DetectorEntry; documents: SiteDocument[]; overlay: OverlayDetector } {
   const model: DetectorModelDoc = {
     schema: 'kiln/detector-model/1',
     release: releaseId,
@@ -56,6 +58,7 @@ export function splitDetector(
     kind: det.kind,
     epochs: det.epochs.map((e) => ({ id: e.id, date: e.date, validFrom: e.validFrom, validTo: e.validTo })),
     resolution: det.resolution,
+    ...(det.efficiency ? { efficiency: det.efficiency } : {}),
     ...(det.regions ? { regions: det.regions } : {}),
     lineFits: det.lineFits,
     fitQuality: det.fitQuality,
@@ -88,7 +91,7 @@ export function splitDetector(
     products: products.length,
     checks: countChecks(checks),
   };
-  return { entry, documents };
+  return { entry, documents, overlay: overlayDetector(det) };
 }
 
 /** Which detector each check belongs to (by its product), null for release-level ones. */
@@ -136,8 +139,9 @@ export function splitRelease(site: ReleaseSite, checks: Check[]): SiteDocument[]
   const byDet = checksByDetector(checks, site.products);
   const entries: DetectorEntry[] = [];
   const docs: SiteDocument[] = [];
+  const overlays: OverlayDetector[] = [];
   for (const d of site.detectors) {
-    const { entry, documents } = splitDetector(
+    const { entry, documents, overlay } = splitDetector(
       site.id,
       d,
       site.parameters.filter((p) => p.detector === d.id),
@@ -146,11 +150,12 @@ export function splitRelease(site: ReleaseSite, checks: Check[]): SiteDocument[]
     );
     entries.push(entry);
     docs.push(...documents);
+    overlays.push(overlay);
   }
   const known = new Set(site.detectors.map((d) => d.id));
   const orphanChecks = [...byDet].filter(([d]) => d === null || !known.has(d)).flatMap(([, cs]) => cs);
   const summary = summaryDoc(site, entries, orphanChecks, site.parameters.filter((p) => p.detector === null || !known.has(p.detector)));
-  return [{ path: 'summary.json', doc: summary }, ...docs];
+  return [{ path: 'summary.json', doc: summary }, overlayDocument(site.id, overlays), ...docs];
 }
 
 const EMPTY_PROFILES: DetectorSite['profiles'] = { channelEnergyKeV: [], energiesKeV: [], rows: [] };
@@ -191,6 +196,7 @@ export function joinModel(model: DetectorModelDoc, read: DocReader, parts: JoinP
     kind: model.kind,
     epochs: wanted.map((e) => read<EpochDataDoc>(epochPath(detector, e.id)).epoch),
     resolution: model.resolution,
+    ...(model.efficiency ? { efficiency: model.efficiency } : {}),
     ...(model.regions ? { regions: model.regions } : {}),
     lineFits: model.lineFits,
     fitQuality: model.fitQuality,
@@ -235,6 +241,7 @@ export function detectorForCompare(model: DetectorModelDoc, area: DetectorAreaDo
       return { ...e, energyKeV: a ? (a.energyKeV ?? area.energyKeV) : [], mirrorCm2: [], components: [], detectorQE: [], effectiveAreaCm2: a?.effectiveAreaCm2 ?? [] };
     }),
     resolution: model.resolution,
+    ...(model.efficiency ? { efficiency: model.efficiency } : {}),
     ...(model.regions ? { regions: model.regions } : {}),
     lineFits: model.lineFits,
     fitQuality: model.fitQuality,

@@ -9,6 +9,7 @@
  *   DIR/releases/<id>/manifest.json        ReleaseManifest
  *   DIR/releases/<id>/validation.json      ValidationReport
  *   DIR/releases/<id>/summary.json                       ReleaseSummaryDoc (small: what a page shows on load)
+ *   DIR/releases/<id>/overlay.json                       ReleaseOverlayDoc (every detector's curves, thinned, for the overlay plots)
  *   DIR/releases/<id>/detectors/<det>/model.json         DetectorModelDoc  (RMF side: curves, line fits, parameters, products)
  *   DIR/releases/<id>/detectors/<det>/profiles.json      DetectorProfilesDoc (line profiles, fetched when plotted)
  *   DIR/releases/<id>/detectors/<det>/matrix.json        DetectorMatrixDoc (the build's source of the matrix picture)
@@ -224,6 +225,39 @@ export interface LineFitSite {
   modelCentroidKeV: number;
   centroidResidualEv: number;
   efficiency: number | null;
+  /*
+   * The fields below are absent in archives published before the site plotted the profile
+   * parameters and line efficiencies (their site.json is kept as published).
+   */
+  efficiencyErr?: number | null;
+  tailFraction?: number;
+  tailFractionErr?: number;
+  shelfFraction?: number;
+  shelfFractionErr?: number | null;
+  /**
+   * The whole matrix row at the line energy refitted with core + tail + shelf by the closure
+   * checks (closure.tail-fraction.*, closure.shelf.*): what a line fit would measure on the
+   * product; null when the row could not be refitted.
+   */
+  refitTailFraction?: number | null;
+  refitShelfFraction?: number | null;
+  /** Model line efficiency at the line energy as closure.efficiency.* computes it; null without a measured efficiency. */
+  modelEfficiency?: number | null;
+}
+
+/** How the published model's tail is made (the tail curve means a different thing for each). */
+export type TailSource = 'law' | 'line-fits' | 'collection';
+
+/**
+ * Model line efficiency on the matrix energy grid (thinned where linear interpolation stays within
+ * 1e-4 of the curve): the first epoch's detector QE (the ARF's bin averages, no mirror) × the
+ * matrix row's detected fraction (its sum over channels above the threshold), as the measured
+ * line efficiencies count events per photon on the detector.
+ */
+export interface EfficiencyCurve {
+  epoch: string;
+  energyKeV: number[];
+  detected: number[];
 }
 
 export interface ProfileSet {
@@ -257,6 +291,11 @@ export interface RegionCurves {
   rowBand: string | null;
   fwhmEv: number[];
   centroidOffsetEv: number[];
+  /** Model tail and shelf fractions, on the same energies; absent in older archives. */
+  tailFraction?: number[];
+  shelfFraction?: number[];
+  /** Model line efficiency with this region's matrix, on the detector's `efficiency.energyKeV`. */
+  efficiencyDetected?: number[];
 }
 
 export interface DetectorSite {
@@ -264,8 +303,14 @@ export interface DetectorSite {
   name: string;
   kind: string;
   epochs: EpochSite[];
-  /** Model curves on a plotting grid. */
-  resolution: { energyKeV: number[]; fwhmEv: number[]; centroidOffsetEv: number[] };
+  /**
+   * Model curves on a plotting grid. tailFraction: the tail's share of events (law or line-fit
+   * interpolation; for tail source "collection", the partial-charge share of the sensor's partially
+   * collecting layer); shelfFraction: the shelf's share. Both absent in older archives.
+   */
+  resolution: { energyKeV: number[]; fwhmEv: number[]; centroidOffsetEv: number[]; tailFraction?: number[]; shelfFraction?: number[]; tailSource?: TailSource };
+  /** Model line efficiency (absent in older archives). */
+  efficiency?: EfficiencyCurve;
   /**
    * The same curves for each region the release builds products for (readout node, or node × row
    * band: its own noise, gain and transfer loss), on the same energies; absent when the release
@@ -335,6 +380,48 @@ export interface ReleaseSummaryDoc {
   detectors: DetectorEntry[];
 }
 
+/** A curve of the overlay document: thinned points of a detector document's curve. */
+export interface OverlayCurve {
+  energyKeV: number[];
+  values: number[];
+}
+
+export interface OverlayRegion {
+  label: string;
+  node: string;
+  rowBand: string | null;
+  fwhmEv: OverlayCurve;
+  centroidOffsetEv: OverlayCurve;
+  /** Only where the region's model differs from its detector's. */
+  tailFraction?: OverlayCurve;
+  shelfFraction?: OverlayCurve;
+  efficiency?: OverlayCurve;
+}
+
+/** One detector in the overlay: its model curves; tail, shelf and efficiency absent in older archives. */
+export interface OverlayDetector {
+  id: string;
+  name: string;
+  kind: string;
+  fwhmEv: OverlayCurve;
+  centroidOffsetEv: OverlayCurve;
+  tailFraction?: OverlayCurve;
+  shelfFraction?: OverlayCurve;
+  tailSource?: TailSource;
+  /** Model line efficiency (EfficiencyCurve) of the named epoch's QE. */
+  efficiency?: OverlayCurve & { epoch: string };
+  /** The latest epoch's effective area. */
+  effectiveAreaCm2?: OverlayCurve & { epoch: string };
+  regions?: OverlayRegion[];
+}
+
+/** releases/<id>/overlay.json: what the release page's overlay plots fetch (one small document for all detectors). */
+export interface ReleaseOverlayDoc {
+  schema: 'kiln/release-overlay/1';
+  release: string;
+  detectors: OverlayDetector[];
+}
+
 /** The RMF side of one detector: model curves, line fits, parameters and the detector's products. */
 export interface DetectorModelDoc {
   schema: 'kiln/detector-model/1';
@@ -345,6 +432,7 @@ export interface DetectorModelDoc {
   /** The epochs whose documents are in epochs/ (same list as the summary's entry). */
   epochs: DetectorEntry['epochs'];
   resolution: DetectorSite['resolution'];
+  efficiency?: EfficiencyCurve;
   regions?: RegionCurves[];
   lineFits: LineFitSite[];
   fitQuality: DetectorSite['fitQuality'];
