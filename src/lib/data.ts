@@ -9,7 +9,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, join } from 'node:path';
 import type { Check, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSpectral, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
-import { REEXAMINED_FILE, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
+import { OVERLAY_FILE, REEXAMINED_FILE, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
 import { joinDetector, joinRelease, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
 
 export const outDir = (): string => resolve(process.env.KILN_OUT ?? '.kiln/out');
@@ -45,6 +45,10 @@ export const loadManifest = (id: string): ReleaseManifest => readJson(join(relDi
 export const loadReexamination = (id: string): ReexaminationDoc | null =>
   existsSync(join(relDir(id), REEXAMINED_FILE)) ? readJson(join(relDir(id), REEXAMINED_FILE), 'kiln/reexamination/1') : null;
 /** The full report: for whole-release views only (it grows with the number of products). */
+/** Every detector's thinned curves for the release page's overlay plots; null for builds made before it existed. */
+export const loadOverlay = (id: string): import('../../generators/site-data/types.ts').ReleaseOverlayDoc | null =>
+  existsSync(join(relDir(id), OVERLAY_FILE)) ? readJson(join(relDir(id), OVERLAY_FILE), 'kiln/release-overlay/1') : null;
+
 export const loadValidation = (id: string): ValidationReport => readJson(join(relDir(id), 'validation.json'), 'kiln/validation/1');
 
 /** One detector of a release, joined from its documents (model, epochs, profiles, matrix, checks). */

@@ -5,7 +5,7 @@
  * the same specs from the detector's documents (/data/releases/<id>/detectors/<det>/) when the reader interacts, so the page does not
  * carry the arrays twice. Series keep every published point; rendering thins them per view.
  */
-import type { DetectorSite, RegionCurves, ReleaseSite } from '../../generators/site-data/types.ts';
+import type { DetectorSite, OverlayCurve, RegionCurves, ReleaseOverlayDoc, ReleaseSite } from '../../generators/site-data/types.ts';
 import { lineSeries as lineSeriesDecimated, pointSeries, roundSig, OKABE_ITO, SERIES_COLOURS, SERIES_DASHES, VIRIDIS_STOPS, type PlotSpec, type SeriesSpec } from './plot/index.ts';
 import { interpolateRgbBasis } from 'd3-interpolate';
 
@@ -151,6 +151,155 @@ export function centroidResidualPlot(det: DetectorSite): PlotSpec {
   };
 }
 
+/** What the tail curve is, by the model's tail source (the collection model has no tail parameter). */
+export function tailModelLabel(source: DetectorSite['resolution']['tailSource']): string {
+  return source === 'collection' ? 'model: partial-charge share (collection model)' : source === 'line-fits' ? 'model (interpolated line fits)' : 'model';
+}
+/** Label of the closure refit markers: the product's row at each line, as a line fit would measure it. */
+export const REFIT_LABEL = 'matrix row refitted at the line (closure check)';
+/** Log axes of fractions show four decades below the largest value. */
+const FRACTION_DECADES = 4;
+
+/** Tail fraction: the model curve, the measured line fits (1σ) and the refitted matrix rows; null for archives without them. */
+export function tailPlot(det: DetectorSite): PlotSpec | null {
+  const r = det.resolution;
+  const f = det.lineFits.filter((l) => l.tailFraction !== undefined);
+  if (!r.tailFraction || f.length === 0) return null;
+  const refit = det.lineFits.filter((l) => typeof l.refitTailFraction === 'number');
+  return {
+    id: `tail-${det.id}`,
+    title: `${det.name}: low-energy tail fraction vs energy`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
+    y: { label: 'Tail fraction of events', unit: '', scale: 'log', toggle: true, maxDecades: FRACTION_DECADES },
+    series: [
+      lineSeries(tailModelLabel(r.tailSource), r.energyKeV, r.tailFraction.map((v) => (v > 0 ? v : null)), 0),
+      pointSeries('measured line fits (1σ)', f.map((l) => l.energyKeV), f.map((l) => l.tailFraction!), f.map((l) => l.tailFractionErr ?? null), 1),
+      ...(refit.length ? [pointSeries(REFIT_LABEL, refit.map((l) => l.energyKeV), refit.map((l) => l.refitTailFraction!), undefined, 2)] : []),
+      ...(det.regions ?? []).filter((g) => g.tailFraction).map((g, i) => ({ ...lineSeries(regionCurveLabel(g), r.energyKeV, g.tailFraction!, i + 3), widthPx: 1.2 })),
+    ],
+  };
+}
+
+/** Shelf fraction: model curve, measured line fits (1σ where the CSV states it) and refitted rows; null for archives without them. */
+export function shelfPlot(det: DetectorSite): PlotSpec | null {
+  const r = det.resolution;
+  const f = det.lineFits.filter((l) => l.shelfFraction !== undefined);
+  if (!r.shelfFraction || f.length === 0) return null;
+  const refit = det.lineFits.filter((l) => typeof l.refitShelfFraction === 'number');
+  const withErr = f.some((l) => typeof l.shelfFractionErr === 'number');
+  return {
+    id: `shelf-${det.id}`,
+    title: `${det.name}: shelf fraction vs energy`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true, domain: resolutionRange(det) },
+    y: { label: 'Shelf fraction of events', unit: '', scale: 'linear', toggle: true },
+    series: [
+      lineSeries('model', r.energyKeV, r.shelfFraction, 0),
+      pointSeries(withErr ? 'measured line fits (1σ)' : 'measured line fits', f.map((l) => l.energyKeV), f.map((l) => l.shelfFraction!), f.map((l) => l.shelfFractionErr ?? null), 1),
+      ...(refit.length ? [pointSeries(REFIT_LABEL, refit.map((l) => l.energyKeV), refit.map((l) => l.refitShelfFraction!), undefined, 2)] : []),
+      ...(det.regions ?? []).filter((g) => g.shelfFraction).map((g, i) => ({ ...lineSeries(regionCurveLabel(g), r.energyKeV, g.shelfFraction!, i + 3), widthPx: 1.2 })),
+    ],
+  };
+}
+
+/** Label of the model line-efficiency curve (the epoch whose QE it folds). */
+export const efficiencyModelLabel = (epoch: string): string => `model: QE (epoch ${epoch}) × row's detected fraction`;
+
+/** Line efficiency: the model QE × detected-fraction curve (and each region's) against the measured efficiencies (1σ); null without a model curve. */
+export function efficiencyPlot(det: DetectorSite): PlotSpec | null {
+  const m = det.efficiency;
+  if (!m) return null;
+  const f = det.lineFits.filter((l) => l.efficiency !== null);
+  return {
+    id: `leff-${det.id}`,
+    title: `${det.name}: line efficiency (events above threshold per photon on the detector)`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: { label: 'Detected fraction', unit: '', scale: 'linear', toggle: true, domain: [0, 1.05] },
+    series: [
+      lineSeries(efficiencyModelLabel(m.epoch), m.energyKeV, m.detected, 0),
+      ...(f.length ? [pointSeries('measured line efficiencies (1σ)', f.map((l) => l.energyKeV), f.map((l) => l.efficiency), f.map((l) => l.efficiencyErr ?? null), 1)] : []),
+      ...(det.regions ?? []).filter((g) => g.efficiencyDetected).map((g, i) => ({ ...lineSeries(regionCurveLabel(g), m.energyKeV, g.efficiencyDetected!, i + 2), widthPx: 1.2 })),
+    ],
+    note: f.length ? undefined : 'No line of this detector states a measured efficiency.',
+  };
+}
+
+/** The overlay plots of a release, in page order. */
+export const OVERLAY_KINDS = ['fwhm', 'cen', 'tail', 'shelf', 'leff', 'ea'] as const;
+export type OverlayKind = (typeof OVERLAY_KINDS)[number];
+
+const OVERLAY_AXES: Record<OverlayKind, { title: string; y: PlotSpec['y']; yRef?: number }> = {
+  fwhm: { title: 'FWHM', y: { label: 'FWHM', unit: 'eV', scale: 'linear', toggle: true } },
+  cen: { title: 'centroid offset from line energy', y: { label: 'Centroid − line energy', unit: 'eV', scale: 'linear', toggle: true }, yRef: 0 },
+  tail: { title: 'low-energy tail fraction', y: { label: 'Tail fraction of events', unit: '', scale: 'log', toggle: true, maxDecades: FRACTION_DECADES } },
+  shelf: { title: 'shelf fraction', y: { label: 'Shelf fraction of events', unit: '', scale: 'linear', toggle: true } },
+  leff: { title: 'line efficiency (QE × detected fraction)', y: { label: 'Detected fraction', unit: '', scale: 'linear', toggle: true, domain: [0, 1.05] } },
+  ea: { title: 'effective area, latest epoch', y: { label: 'Effective area', unit: 'cm²', scale: 'log', toggle: true, maxDecades: AREA_DECADES } },
+};
+
+type OverlayDet = ReleaseOverlayDoc['detectors'][number];
+type OverlayReg = NonNullable<OverlayDet['regions']>[number];
+const DETECTOR_CURVE_PX = 2;
+const REGION_CURVE_PX = 1.2;
+/** Region curves take their detector's colour with a dash of their own (the first dash is solid). */
+const regionDash = (k: number) => SERIES_DASHES.filter((d) => d !== '')[k % (SERIES_DASHES.length - 2)];
+
+function overlayCurveOf(d: OverlayDet, kind: OverlayKind): OverlayCurve | undefined {
+  return { fwhm: d.fwhmEv, cen: d.centroidOffsetEv, tail: d.tailFraction, shelf: d.shelfFraction, leff: d.efficiency, ea: d.effectiveAreaCm2 }[kind];
+}
+function overlayRegionCurveOf(g: OverlayReg, kind: OverlayKind): OverlayCurve | undefined {
+  return { fwhm: g.fwhmEv, cen: g.centroidOffsetEv, tail: g.tailFraction, shelf: g.shelfFraction, leff: g.efficiency, ea: undefined }[kind];
+}
+/** Legend label of a detector's curve: its name, and for the efficiency and area the epoch. */
+export function overlayLabel(d: OverlayDet, kind: OverlayKind): string {
+  if (kind === 'ea' && d.effectiveAreaCm2) return `${d.name} (epoch ${d.effectiveAreaCm2.epoch})`;
+  if (kind === 'tail' && d.tailSource === 'collection') return `${d.name} (partial-charge share)`;
+  return d.name;
+}
+export const overlayRegionLabel = (d: OverlayDet, g: OverlayReg): string => `${d.name}, node ${g.node}${g.rowBand !== null ? `, rows ${g.rowBand}` : ''}`;
+
+/** One overlay plot: a curve per detector in its own colour, each region's curve in its detector's colour, dashed. Null when no detector has the curve. */
+export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec | null {
+  const a = OVERLAY_AXES[kind];
+  const series: SeriesSpec[] = [];
+  doc.detectors.forEach((d, i) => {
+    const c = overlayCurveOf(d, kind);
+    const colour = SERIES_COLOURS[i % SERIES_COLOURS.length];
+    const positive = (v: number) => (a.y.scale === 'log' && v <= 0 ? null : v);
+    if (c) series.push({ ...lineSeries(overlayLabel(d, kind), c.energyKeV, c.values.map(positive), i), colour, dash: undefined, widthPx: DETECTOR_CURVE_PX });
+    (d.regions ?? []).forEach((g, k) => {
+      const rc = overlayRegionCurveOf(g, kind);
+      if (rc) series.push({ ...lineSeries(overlayRegionLabel(d, g), rc.energyKeV, rc.values.map(positive), i), colour, dash: regionDash(k), widthPx: REGION_CURVE_PX });
+    });
+  });
+  if (!series.length) return null;
+  return {
+    id: `ov-${kind}`,
+    title: `All detectors: ${a.title} (release ${doc.release})`,
+    widthPx: W,
+    heightPx: H,
+    x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
+    y: a.y,
+    ...(a.yRef !== undefined ? { yRef: a.yRef } : {}),
+    series,
+  };
+}
+
+/** Every overlay plot the document has data for, by figure id. */
+export function overlayPlots(doc: ReleaseOverlayDoc): Map<string, PlotSpec> {
+  const out = new Map<string, PlotSpec>();
+  for (const k of OVERLAY_KINDS) {
+    const p = overlayPlot(doc, k);
+    if (p) out.set(p.id, p);
+  }
+  return out;
+}
+
 /** Indices of the profiles shown before the reader picks: lowest, middle and highest energy. */
 export function defaultProfileIndices(n: number): number[] {
   return [...new Set([0, Math.floor((n - 1) / 2), n - 1])].filter((i) => i >= 0 && i < n);
@@ -228,7 +377,7 @@ export function profilePlot(det: DetectorSite): PlotSpec {
 /** Every plot of one detector's section by figure id, as the build renders them (the client rebuilds these). */
 export function detectorPlots(d: DetectorSite, releaseId: string): Map<string, PlotSpec> {
   const out = new Map<string, PlotSpec>();
-  for (const spec of [effectiveAreaPlot(d, releaseId), componentsPlot(d), fwhmPlot(d), fwhmResidualPlot(d), centroidPlot(d), centroidResidualPlot(d), profilePlot(d)]) out.set(spec.id, spec);
+  for (const spec of [effectiveAreaPlot(d, releaseId), componentsPlot(d), fwhmPlot(d), fwhmResidualPlot(d), centroidPlot(d), centroidResidualPlot(d), tailPlot(d), shelfPlot(d), efficiencyPlot(d), profilePlot(d)]) if (spec) out.set(spec.id, spec);
   return out;
 }
 

@@ -5,8 +5,10 @@
  */
 import type { RmfData } from '../../generators/response/types.ts';
 import type { JoinedDetector } from '../../generators/site-data/split.ts';
-import { componentsPlot, detectorPlots, PICKED_PROFILE_DASH, profileColour } from '../lib/release-plots.ts';
-import { fetchDetector, parseDetectorSrc } from '../lib/site-fetch.ts';
+import type { ReleaseOverlayDoc } from '../../generators/site-data/types.ts';
+import { OVERLAY_FILE } from '../../generators/site-data/paths.ts';
+import { componentsPlot, detectorPlots, overlayPlots, PICKED_PROFILE_DASH, profileColour } from '../lib/release-plots.ts';
+import { fetchDetector, fetchJson, parseDetectorSrc } from '../lib/site-fetch.ts';
 import { esc, fmt4, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
 import { formatBytes } from '../lib/downloads.ts';
 import { initPlots, loadNow, replacePlot, updatePlot } from './plots.ts';
@@ -33,8 +35,24 @@ function siteDoc(src: string) {
   return p;
 }
 
+/** The overlay plots' specs, built from the release's overlay document (fetched once). */
+const overlays = new Map<string, Promise<Map<string, PlotSpec>>>();
+function overlaySpecs(src: string): Promise<Map<string, PlotSpec>> {
+  let p = overlays.get(src);
+  if (!p) {
+    p = fetchJson<ReleaseOverlayDoc>(src).then(overlayPlots);
+    overlays.set(src, p);
+    p.catch(() => overlays.delete(src));
+  }
+  return p;
+}
+
 export function initReleasePlots(root: Document): void {
-  initPlots(root, async (fig) => (await siteDoc(fig.dataset.specSrc!)).specs.get(fig.id) ?? null);
+  initPlots(root, async (fig) => {
+    const src = fig.dataset.specSrc!;
+    if (src.endsWith(`/${OVERLAY_FILE}`)) return (await overlaySpecs(src)).get(fig.id) ?? null;
+    return (await siteDoc(src)).specs.get(fig.id) ?? null;
+  });
   root.querySelectorAll<HTMLElement>('.profiles').forEach((box) => {
     const fig = root.getElementById(box.dataset.plot ?? '');
     const pick = box.querySelector<HTMLFieldSetElement>('.profile-pick');
