@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 process.env.ASTRO_TELEMETRY_DISABLED = '1';
 
 const DIR = resolve(process.env.KILN_OUT ?? '.kiln/out');
-const DOCS = ['manifest.json', 'validation.json', 'summary.json', 'spectral.json', 'spectral-elements.json', 'model.json', 'model.schema.json', 'reexamined.json'];
+const DOCS = ['overlay.json', 'manifest.json', 'validation.json', 'summary.json', 'spectral.json', 'spectral-elements.json', 'model.json', 'model.schema.json', 'reexamined.json'];
 /** Split per-detector documents the pages fetch; matrix.json only feeds the build's PNG. */
 const BUILD_ONLY = new Set(['matrix.json']);
 

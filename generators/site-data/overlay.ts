@@ -27,7 +27,7 @@ export function overlayDetector(d: DetectorSite): OverlayDetector {
   const eff = d.efficiency ? curve(d.efficiency.energyKeV, d.efficiency.detected) : undefined;
   const regions: OverlayRegion[] = (d.regions ?? []).map((g) => {
     const effR = d.efficiency && g.efficiencyDetected ? curve(d.efficiency.energyKeV, g.efficiencyDetected) : undefined;
-    const tail = curve(r.energyKeV, g.tailFraction);
+    const tail = curve(r.energyKeV, g.tailFraction, true);
     const shelf = curve(r.energyKeV, g.shelfFraction);
     return {
       label: g.label,
@@ -40,7 +40,7 @@ export function overlayDetector(d: DetectorSite): OverlayDetector {
       ...(effR ? { efficiency: effR } : {}),
     };
   });
-  const tail = curve(r.energyKeV, r.tailFraction);
+  const tail = curve(r.energyKeV, r.tailFraction, true);
   const shelf = curve(r.energyKeV, r.shelfFraction);
   return {
     id: d.id,

@@ -1,6 +1,6 @@
 /**
  * Thinning of plotted curves for site documents: the points a polyline through the kept points
- * needs to stay within `tolerance` of every dropped one (Ramer–Douglas–Peucker), in plot
+ * needs to stay within `tolerance` (vertically) of every dropped one (Ramer–Douglas–Peucker), in plot
  * coordinates normalised to the curve's own span (x on a log axis; y linear or log), so steps at
  * absorption edges survive while smooth stretches shrink to a few points. Pure, browser-safe.
  */
@@ -50,13 +50,12 @@ function rdp(px: readonly number[], py: readonly number[], a0: number, b0: numbe
   while (stack.length) {
     const [a, b] = stack.pop()!;
     const dx = px[b] - px[a];
-    const dy = py[b] - py[a];
-    const len2 = dx * dx + dy * dy;
+    const slope = dx > 0 ? (py[b] - py[a]) / dx : 0;
     let worst = -1;
     let worstD = tol2;
     for (let i = a + 1; i < b; i++) {
-      const c = dx * (py[i] - py[a]) - dy * (px[i] - px[a]);
-      const d = len2 === 0 ? (px[i] - px[a]) ** 2 + (py[i] - py[a]) ** 2 : (c * c) / len2;
+      // Vertical distance: what a reader of a value off the drawn line would be wrong by.
+      const d = (py[i] - py[a] - slope * (px[i] - px[a])) ** 2;
       if (d > worstD) ((worstD = d), (worst = i));
     }
     if (worst > 0) {

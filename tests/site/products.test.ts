@@ -7,6 +7,13 @@
  *   within the rounding the site applies (4 significant digits, DEVELOPERS.md "Site");
  * - FWHM and centroid model curves = the core refitted to the published matrix rows, within the
  *   bias a tail and shelf put on a Gaussian fit to the top of a row (measured, see TOLERANCES).
+ * - line efficiency model curves (whole detector and each node) = the first epoch's QE × the row sums
+ *   astropy reads from the published RMF, with that QE = the ARF's SPECRESP / the mirror area;
+ * - tail and shelf: the "matrix row refitted" markers = the published RMF's rows (read back)
+ *   refitted with the closure's refit; the measured points = the content's line-fit CSV; the model
+ *   parameter curves (law or interpolation) agree with the refits within the refit's accuracy;
+ * - the release overlay (overlay.json): every point is a point of the detector documents' curves,
+ *   and every dropped point lies within the stated thinning tolerance of the drawn line.
  * So a wrong curve (the bare mirror area, another epoch's or detector's curve, σ for FWHM) cannot
  * reach a page while the suite is green.
  */
@@ -15,7 +22,15 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DetectorSite, ReleaseSite } from '../../generators/site-data/types.ts';
 import { readReleaseSite } from '../../generators/pipeline/site-files.ts';
-import { centroidPlot, effectiveAreaPlot, fwhmPlot, regionCurveLabel } from '../../src/lib/release-plots.ts';
+import { centroidPlot, effectiveAreaPlot, efficiencyModelLabel, efficiencyPlot, fwhmPlot, overlayPlot, regionCurveLabel, REFIT_LABEL, shelfPlot, tailPlot } from '../../src/lib/release-plots.ts';
+import type { ReleaseOverlayDoc } from '../../generators/site-data/types.ts';
+import { gunzipSync } from 'node:zlib';
+import { readFits } from '../../generators/fits/index.ts';
+import { readRmf } from '../../generators/ogip/index.ts';
+import { refitProfileAt } from '../../generators/checks/profile-refit.ts';
+import { PROFILE_FLOORS } from '../../generators/checks/closure-profile.ts';
+import { escapeInputsFor } from '../../generators/physics/escape-inputs.ts';
+import { OVERLAY_THIN_TOLERANCE } from '../../generators/site-data/overlay.ts';
 import { kiln, workspace, type Workspace } from '../pipeline/helpers.ts';
 import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 
@@ -83,6 +98,34 @@ for p, energies in d['rmfs'].items():
         out['rmf'][p] = res
 print(json.dumps(out))
 `;
+
+/** Every row's sum over channels (astropy), for the line-efficiency curves. */
+const READ_ROW_SUMS = String.raw`
+import json, sys, numpy as np
+from astropy.io import fits
+out = {}
+for p in json.load(sys.stdin):
+    with fits.open(p) as f:
+        m = f['MATRIX'].data
+        out[p] = {'lo': np.asarray(m['ENERG_LO'], float).tolist(), 'hi': np.asarray(m['ENERG_HI'], float).tolist(), 'sum': [float(np.sum(np.asarray(r, float))) for r in m['MATRIX']]}
+print(json.dumps(out))
+`;
+/**
+ * SPECRESP / mirror area against the site's detector QE (both per ARF bin): SPECRESP averages
+ * mirror × QE over the bin (README, "ARF bins are averaged"), the site's mirror area is its value
+ * at the bin centre; measured on the demo ≤ 0.44 % (at absorption edges), tolerance + ~30 %.
+ */
+const QE_FROM_ARF_REL = 0.006;
+/** The efficiency curve is thinned in the build so a straight line (log energy) stays within 1e-4 of its span (site-detector.ts). */
+const EFFICIENCY_THIN = 1e-4;
+/**
+ * The refit markers come from the build's in-memory matrix (float64), the file stores float32
+ * (TFORM E): refits of the row read back differ by at most a tenth of the refit's own accuracy
+ * (closure-profile.ts PROFILE_FLOORS; measured on the demo ≤ 1e-6 tail, ≤ 2e-7 shelf).
+ */
+const REFIT_READBACK = { tail: PROFILE_FLOORS.tailFraction / 10, shelf: PROFILE_FLOORS.shelfFraction / 10 };
+/** Si: the demo sensors' material (content/instruments/quillon-tarncam/instrument.yaml). */
+const SENSOR_FORMULA = 'Si';
 
 interface ArfRead { lo: number[]; hi: number[]; area: number[] }
 interface CoreRead { binLo: number; binHi: number; muKeV: number; sigmaKeV: number }
@@ -211,5 +254,154 @@ describe.runIf(runAstropyChecks)('site curves against the published products (as
       }
     expect(compared).toBeGreaterThan(50);
     expect(regionCurves, 'node curves compared (release 2.1.0)').toBeGreaterThanOrEqual(8);
+  });
+
+  /** Linear interpolation in log energy of a thinned curve at x. */
+  const interpLog = (xs: number[], ys: (number | null)[], x: number): number => {
+    let k = 0;
+    while (k < xs.length - 2 && xs[k + 1] < x) k++;
+    const t = (Math.log(x) - Math.log(xs[k])) / (Math.log(xs[k + 1]) - Math.log(xs[k]));
+    return (ys[k] as number) * (1 - t) + (ys[k + 1] as number) * t;
+  };
+  const model = (release: string, detector: string) =>
+    (JSON.parse(readFileSync(join(ws.out, 'releases', release, 'manifest.json'), 'utf8')) as { parameters: Record<string, { model: { thresholdKeV: number; escape: boolean; siFluorescenceFraction: number; siFluorescenceSource?: string; tail: { source: string }; shelf: { source: string } } }> }).parameters[detector].model;
+  /** The content's line-fit CSV of a release's detector, as records of numbers (empty cells null). */
+  const csv = (release: string, detector: string): Record<string, number | null>[] => {
+    const rows = readFileSync(join(ws.content, 'releases', release, 'linefits', `${detector}.csv`), 'utf8').split('\n').filter((l) => l && !l.startsWith('#'));
+    const head = rows[0].split(',');
+    return rows.slice(1).map((r) => Object.fromEntries(r.split(',').map((v, i) => [head[i], head[i] === 'line' ? null : v === '' ? null : Number(v)])));
+  };
+
+  it('the plotted line efficiency (whole detector and each node) equals the first epoch\'s QE × the row sums astropy reads from the published RMF; that QE is SPECRESP / mirror area', () => {
+    const built = sites.filter((s) => s.detectors.some((d) => d.efficiency));
+    expect(built.map((s) => s.id).sort(), 'built releases carry the curve (archives predate it)').toEqual(['2.0.0', '2.1.0']);
+    const paths = built.flatMap((s) => s.detectors.flatMap((d) => curveProducts(s, d).map((c) => c.path)));
+    const sums = runPythonJson<Record<string, { lo: number[]; hi: number[]; sum: number[] }>>('astropy', READ_ROW_SUMS, paths);
+    let bins = 0;
+    let nodeCurves = 0;
+    for (const s of built)
+      for (const d of s.detectors) {
+        const e1 = d.epochs[0];
+        expect(d.efficiency!.epoch).toBe(e1.id);
+        const arf = read.arf[productPath(s, 'arf', d.id, e1.id)];
+        // The site's QE is the ARF's over the mirror area (ARF read by astropy).
+        e1.detectorQE.forEach((q, i) => expect(Math.abs(q - arf.area[i] / e1.mirrorCm2[i]), `${s.id} ${d.id} bin ${i}: QE ${q} vs SPECRESP/mirror`).toBeLessThanOrEqual(QE_FROM_ARF_REL * q));
+        const plot = efficiencyPlot(d)!;
+        for (const c of curveProducts(s, d)) {
+          const label = c.label === 'model' ? efficiencyModelLabel(e1.id) : c.label;
+          const series = plot.series.find((x) => x.label === label);
+          expect(series, `${s.id} ${d.id}: "${label}" plotted`).toBeTruthy();
+          if (c.label !== 'model') nodeCurves++;
+          const R = sums[c.path];
+          const values = R.sum.map((v, i) => e1.detectorQE[i] * v);
+          const span = Math.max(...values) - Math.min(...values);
+          // Every matrix bin: the drawn (thinned) line at its centre against QE × row sum.
+          R.sum.forEach((_, i) => {
+            const centre = 0.5 * (R.lo[i] + R.hi[i]);
+            const drawn = interpLog(series!.x, series!.y, centre);
+            const slack = EFFICIENCY_THIN * span + roundingSlack(values[i], CURVE_DIGITS) * 2 + roundingSlack(e1.detectorQE[i], CURVE_DIGITS) * R.sum[i] + 2 * FLOAT32_REL;
+            expect(Math.abs(drawn - values[i]), `${s.id} ${c.label} ${d.id} ${centre.toFixed(4)} keV: drawn ${drawn} vs QE × row sum ${values[i]}`).toBeLessThanOrEqual(slack);
+            bins++;
+          });
+        }
+      }
+    expect(bins).toBeGreaterThan(5000);
+    expect(nodeCurves, 'node curves of 2.1.0').toBe(8);
+  });
+
+  it('tail and shelf: the refit markers are the published rows read back and refitted, the measured points the line-fit CSV, the law curves within the refit\'s accuracy', () => {
+    const s = sites.find((x) => x.id === '2.0.0')!; // publishes whole-detector matrices (2.1.0 ships per-node ones only)
+    let compared = 0;
+    for (const d of s.detectors) {
+      const m = model(s.id, d.id);
+      const rows = csv(s.id, d.id);
+      const rmfFile = productPath(s, 'rmf', d.id, 'all');
+      const rmf = readRmf(readFits(gunzipSync(readFileSync(rmfFile)), { fileName: rmfFile })).data;
+      const si = m.escape || m.siFluorescenceFraction > 0 || m.siFluorescenceSource === 'stack' ? escapeInputsFor(SENSOR_FORMULA) : undefined;
+      const tail = tailPlot(d)!;
+      const shelf = shelfPlot(d)!;
+      const get = (p: typeof tail, label: string) => p.series.find((x) => x.label === label)!;
+      const measuredTail = get(tail, 'measured line fits (1σ)');
+      const measuredShelf = shelf.series[1];
+      const refitTail = get(tail, REFIT_LABEL);
+      const refitShelf = get(shelf, REFIT_LABEL);
+      d.lineFits.forEach((l, k) => {
+        const row = rows[k];
+        // Measured points: the CSV's columns as stated (tail_fraction ± tail_fraction_err, shelf_fraction).
+        expect(measuredTail.x[k]).toBeCloseTo(row.energy_keV!, 9);
+        expect(measuredTail.y[k]).toBe(row.tail_fraction);
+        expect(measuredTail.yErr![k]).toBe(row.tail_fraction_err);
+        expect(measuredShelf.y[k]).toBe(row.shelf_fraction);
+        const r = refitProfileAt(rmf, l.energyKeV, { thresholdKeV: m.thresholdKeV, siKAlphaKeV: si?.kAlphaKeV, siKEdgeKeV: si?.kEdgeKeV, start: { tailFraction: row.tail_fraction!, tailScaleEv: row.tail_scale_eV!, shelfFraction: row.shelf_fraction! } })!;
+        expect(r, `${d.id} ${l.line}: row refitted`).toBeTruthy();
+        expect(Math.abs(refitTail.y[k]! - r.tailFraction), `${d.id} ${l.line}: tail marker ${refitTail.y[k]} vs refit of the file ${r.tailFraction}`).toBeLessThanOrEqual(REFIT_READBACK.tail);
+        expect(Math.abs(refitShelf.y[k]! - r.shelfFraction), `${d.id} ${l.line}: shelf marker ${refitShelf.y[k]} vs refit of the file ${r.shelfFraction}`).toBeLessThanOrEqual(REFIT_READBACK.shelf);
+        // A law or interpolated tail and shelf are what a refit recovers, within the refit's accuracy.
+        if (m.tail.source !== 'collection') {
+          const mt = interpLog(tail.series[0].x, tail.series[0].y, l.energyKeV);
+          expect(Math.abs(mt - r.tailFraction), `${d.id} ${l.line}: model tail ${mt} vs refit ${r.tailFraction}`).toBeLessThanOrEqual(PROFILE_FLOORS.tailFraction);
+          const ms = interpLog(shelf.series[0].x, shelf.series[0].y, l.energyKeV);
+          expect(Math.abs(ms - r.shelfFraction), `${d.id} ${l.line}: model shelf ${ms} vs refit ${r.shelfFraction}`).toBeLessThanOrEqual(PROFILE_FLOORS.shelfFraction);
+        }
+        compared++;
+      });
+    }
+    expect(compared).toBeGreaterThanOrEqual(14);
+  });
+
+  it('the release overlay draws one curve per detector and node from the detector documents\' points, thinned within its stated tolerance', () => {
+    let checked = 0;
+    for (const s of sites) {
+      const doc = JSON.parse(readFileSync(join(ws.out, 'releases', s.id, 'overlay.json'), 'utf8')) as ReleaseOverlayDoc;
+      expect(doc.detectors.map((d) => d.id)).toEqual(s.detectors.map((d) => d.id));
+      const fw = overlayPlot(doc, 'fwhm')!;
+      expect(fw.series.length, `${s.id}: one FWHM curve per detector and region`).toBe(s.detectors.reduce((n, d) => n + 1 + (d.regions?.length ?? 0), 0));
+      for (const d of s.detectors) {
+        const o = doc.detectors.find((x) => x.id === d.id)!;
+        const last = d.epochs[d.epochs.length - 1];
+        const pairs: [string, { energyKeV: number[]; values: number[] } | undefined, number[], (number | undefined)[] | undefined, boolean][] = [
+          ['fwhm', o.fwhmEv, d.resolution.energyKeV, d.resolution.fwhmEv, false],
+          ['centroid', o.centroidOffsetEv, d.resolution.energyKeV, d.resolution.centroidOffsetEv, false],
+          ['tail', o.tailFraction, d.resolution.energyKeV, d.resolution.tailFraction, true],
+          ['shelf', o.shelfFraction, d.resolution.energyKeV, d.resolution.shelfFraction, false],
+          ['efficiency', o.efficiency, d.efficiency?.energyKeV ?? [], d.efficiency?.detected, false],
+          ['area', o.effectiveAreaCm2, last.energyKeV, last.effectiveAreaCm2, true],
+        ];
+        for (const [name, c, x, y, yLog] of pairs) {
+          if (!y) {
+            expect(c, `${s.id} ${d.id} ${name}: no curve without data`).toBeUndefined();
+            continue;
+          }
+          expect(c, `${s.id} ${d.id} ${name}`).toBeTruthy();
+          const ys = y as number[];
+          // Kept points are the document's own points.
+          c!.energyKeV.forEach((e, k) => {
+            const i = x.indexOf(e);
+            expect(i, `${s.id} ${d.id} ${name}: ${e} keV is a point of the document`).toBeGreaterThanOrEqual(0);
+            expect(c!.values[k]).toBe(ys[i]);
+          });
+          // Dropped points lie within the tolerance of the drawn line (normalised span, log energy; log tail and area, as plotted).
+          const f = (v: number) => (yLog ? Math.log(v) : v);
+          const fin = ys.filter((v) => !yLog || v > 0).map(f);
+          const span = Math.max(...fin) - Math.min(...fin) || 1;
+          const lx = (v: number) => Math.log(v);
+          const dx = lx(x[x.length - 1]) - lx(x[0]);
+          x.forEach((e, i) => {
+            if (yLog && !(ys[i] > 0)) return;
+            let k = 0;
+            while (k < c!.energyKeV.length - 2 && c!.energyKeV[k + 1] < e) k++;
+            const [x0, x1] = [lx(c!.energyKeV[k]) / dx, lx(c!.energyKeV[k + 1]) / dx];
+            const [y0, y1] = [f(c!.values[k]) / span, f(c!.values[k + 1]) / span];
+            const [px, py] = [lx(e) / dx, f(ys[i]) / span];
+            // Vertical distance from the drawn line (thin.ts), in units of the curve's span.
+            const dist = Math.abs(py - y0 - ((y1 - y0) * (px - x0)) / (x1 - x0));
+            expect(dist, `${s.id} ${d.id} ${name} at ${e} keV`).toBeLessThanOrEqual(OVERLAY_THIN_TOLERANCE * (1 + 1e-9));
+            checked++;
+          });
+          expect(c!.energyKeV.length, `${s.id} ${d.id} ${name}: thinned`).toBeLessThan(x.length);
+        }
+      }
+    }
+    expect(checked).toBeGreaterThan(3000);
   });
 });
