@@ -41,9 +41,9 @@ const checks = [check('x', null), check('y', 'a-e1-arf', 'warn'), check('z', 'b-
 describe('split and join', () => {
   const docs = splitRelease(site, checks);
   const byPath = new Map(docs.map((d) => [d.path, d.doc]));
-  it('writes a summary, five documents per detector and one per epoch', () => {
+  it('writes a summary, the overlay, five documents per detector and one per epoch', () => {
     expect([...byPath.keys()].sort()).toEqual(
-      ['summary.json', ...['a', 'b'].flatMap((d) => ['model', 'profiles', 'matrix', 'checks', 'area'].map((f) => `detectors/${d}/${f}.json`)), 'detectors/a/epochs/e1.json'].sort(),
+      ['summary.json', 'overlay.json', ...['a', 'b'].flatMap((d) => ['model', 'profiles', 'matrix', 'checks', 'area'].map((f) => `detectors/${d}/${f}.json`)), 'detectors/a/epochs/e1.json'].sort(),
     );
   });
   it('joins back into the same release, checks release-level first', () => {
