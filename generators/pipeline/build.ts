@@ -16,6 +16,8 @@ import type { ContentTree, ResolvedRelease } from '../content/types.ts';
 import { inTermsOf, KilnInputError } from '../errors.ts';
 import type {
   Check,
+  DetectorModelDoc,
+  DetectorSupplementDoc,
   InstrumentSummary,
   ManifestFile,
   ProductSummary,
@@ -39,15 +41,15 @@ import { impactChecks, releaseSpectral, spectralElements, type ReleaseProducts }
 import { pruneSpectralEntries, readSpectralEntry, spectralKey, writeSpectralEntry, SPECTRAL_DIR } from './spectral-cache.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
-import { finderDocuments, splitRelease } from '../site-data/split.ts';
+import { finderDocuments, splitRelease, withSupplement } from '../site-data/split.ts';
 import { changedInputFiles, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import { generatorVersion } from './generator-version.ts';
 import { jobFingerprint, jobIdOf, type JobOutput } from './job-output.ts';
 import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
-import { checksPath, REEXAMINED_FILE } from '../site-data/paths.ts';
-import { overlayDocument } from '../site-data/overlay.ts';
+import { checksPath, OVERLAY_FILE, REEXAMINED_FILE, supplementPath } from '../site-data/paths.ts';
+import { overlayDetector, overlayDocument } from '../site-data/overlay.ts';
 import { reexamineArchive } from './reexamine.ts';
 export { gzipProduct } from './job-output.ts';
 import { modelJobs } from './model-jobs.ts';
@@ -253,6 +255,7 @@ function serveArchive(
   r: ResolvedRelease,
   archive: VerifiedArchive,
   dir: string,
+  supplements: Map<string, DetectorSupplementDoc> = new Map(),
 ): { products: ProductSummary[]; checks: Check[]; site: ReleaseSite; parameters: Record<string, unknown>; model: ModelRef | null } {
   const { bytes, site, report } = archive;
   mkdirSync(join(dir, 'files'), { recursive: true });
@@ -260,7 +263,19 @@ function serveArchive(
   // Status, title and notes may change after publishing; the products and numbers may not.
   const rel = r.release;
   const current: ReleaseSite = { ...site, status: rel.status, title: rel.title, notesMarkdown: rel.notesMarkdown, supersedes: rel.supersedes };
-  writeSiteDocuments(dir, splitRelease(current, report.checks));
+  // The served documents join back into the archived site data; curves it predates go beside
+  // them (supplement.json, flagged in the model document) and into the overlay.
+  const docs = splitRelease(current, report.checks).map((d) => {
+    const m = d.doc as DetectorModelDoc;
+    return m.schema === 'kiln/detector-model/1' && supplements.has(m.id) ? { ...d, doc: { ...m, supplement: true } } : d;
+  });
+  if (supplements.size) {
+    const merged = current.detectors.map((d) => (supplements.has(d.id) ? withSupplement(d, supplements.get(d.id)!) : d));
+    const i = docs.findIndex((d) => d.path === OVERLAY_FILE);
+    docs[i] = overlayDocument(current.id, merged.map(overlayDetector));
+    for (const [det, doc] of supplements) docs.push({ path: supplementPath(det), doc });
+  }
+  writeSiteDocuments(dir, docs);
   writeJson(join(dir, 'validation.json'), report);
   // Archives sealed since model documents exist carry theirs; older ones have none.
   const modelBytes = bytes.get(MODEL_FILE);
@@ -419,13 +434,14 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         return s;
       };
       if (frozen) {
-        const served = serveArchive(r, archives.get(rel.id)!, dir);
+        // Today's checks on the archived bytes, read-only: shown beside the published report.
+        const supplements = new Map<string, DetectorSupplementDoc>();
+        const re = reexamineArchive(r, archives.get(rel.id)!, ctx.generator, supplements);
+        const served = serveArchive(r, archives.get(rel.id)!, dir, supplements);
         ({ products, checks } = served);
         parameters = served.parameters;
         modelRef = served.model;
         log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
-        // Today's checks on the archived bytes, read-only: shown beside the published report.
-        const re = reexamineArchive(r, archives.get(rel.id)!, ctx.generator);
         writeJson(join(dir, REEXAMINED_FILE), re);
         reexamined = re.counts;
         log(`release ${rel.id} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);

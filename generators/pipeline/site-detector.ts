@@ -9,6 +9,7 @@ import { detectorRegion, regionsOf, transferLossOf, type Region } from '../model
 import { fitCentroidLaw, fitFwhmLaw, type FitResult } from '../fit/index.ts';
 import { isInputError } from '../errors.ts';
 import type { RmfData } from '../response/types.ts';
+import type { LineFit } from '../response/model-types.ts';
 import type { DetectorSite, EfficiencyCurve, LineFitSite, MatrixImage, ParameterRow, ProfileSet, RegionCurves } from '../site-data/types.ts';
 import { pick, thinIndices } from '../site-data/thin.ts';
 import { rowSums } from '../checks/numbers-rmf.ts';
@@ -143,18 +144,56 @@ export interface DetectorSiteResult {
  */
 function efficiencyCurves(built: DetectorProducts): { curve: EfficiencyCurve; regions: Map<string, number[]> } | null {
   const ep = built.epochs[0];
-  const rmf = built.redistribution.rmf;
-  if (!ep || ep.site.detectorQE.length !== rmf.rows.length) return null;
-  const qe = ep.site.detectorQE;
+  return ep ? efficiencyCurvesFrom(ep.epoch, ep.site.energyKeV, ep.site.detectorQE, built.redistribution.rmf, built.regionMatrices) : null;
+}
+
+/** The same from an epoch's QE (per matrix bin) and the matrices; null when the grids differ. */
+export function efficiencyCurvesFrom(epoch: string, energyKeV: number[], qe: number[], rmf: RmfData, regionMatrices: { label: string; rmf: RmfData }[] = []): { curve: EfficiencyCurve; regions: Map<string, number[]> } | null {
+  if (qe.length !== rmf.rows.length || energyKeV.length !== qe.length) return null;
   const times = (sums: Float64Array) => qe.map((q, i) => q * sums[i]);
   const whole = times(rowSums(rmf));
-  const regional = built.regionMatrices.map((r) => ({ label: r.label, values: times(rowSums(r.rmf)) }));
-  const keep = thinIndices(ep.site.energyKeV, [whole, ...regional.map((r) => r.values)], { tolerance: EFFICIENCY_THIN_TOLERANCE });
+  const regional = regionMatrices.map((r) => ({ label: r.label, values: times(rowSums(r.rmf)) }));
+  const keep = thinIndices(energyKeV, [whole, ...regional.map((r) => r.values)], { tolerance: EFFICIENCY_THIN_TOLERANCE });
   const rounded = (v: number[]) => pick(v, keep).map((x) => round(x, CURVE_DIGITS));
   return {
-    curve: { epoch: ep.epoch, energyKeV: pick(ep.site.energyKeV, keep).map((x) => round(x, 6)), detected: rounded(whole) },
+    curve: { epoch, energyKeV: pick(energyKeV, keep).map((x) => round(x, 6)), detected: rounded(whole) },
     regions: new Map(regional.map((r) => [r.label, rounded(r.values)])),
   };
+}
+
+/** The whole detector's profile parameters as its matrix is built, and the tail's share of events. */
+export function detectorParamsAt(job: DetectorJob): { paramsAt: ReturnType<typeof buildParamsAt>; tailOf: (p: ReturnType<ReturnType<typeof buildParamsAt>>) => number } {
+  const { detector } = job;
+  const spec = detector.redistribution;
+  const silicon = spec.escape || spec.siFluorescenceFraction > 0 ? escapeInputsFor(detector.stack.sensor.material.formula) : undefined;
+  const r = detectorRegion(detector);
+  const paramsAt = withTransferLoss(buildParamsAt(r.spec, detector.lineFits, { silicon, file: detector.lineFitsFile, sensor: detector.stack.sensor }), transferLossOf(r), r.spec.pairEnergyEv);
+  // For the collection model: the partial-charge share of its layer.
+  return { paramsAt, tailOf: (p) => (spec.tail.source === 'collection' ? (p.partial?.fraction ?? 0) : p.tailFraction) };
+}
+
+/** A line's profile fields for the site: the line fit's tail, shelf and efficiency with errors, the closure refit, the model efficiency. */
+export function lineFitExtras(job: DetectorJob, rmf: RmfData, refits?: LineRefits): Map<LineFit, Partial<LineFitSite>> {
+  const lines = job.detector.lineFits;
+  const withEff = lines.filter((l) => l.efficiency !== null);
+  const modelEff = new Map(Array.from(lineEfficiencyModel(job, rmf, withEff.map((l) => l.energyKeV)), (v, i) => [withEff[i], v] as const));
+  return new Map(
+    lines.map((l) => {
+      const refit = refits?.get(l);
+      return [
+        l,
+        {
+          efficiencyErr: l.efficiencyErr,
+          tailFraction: l.tailFraction,
+          tailFractionErr: l.tailFractionErr,
+          shelfFraction: l.shelfFraction,
+          shelfFractionErr: l.shelfFractionErr ?? null,
+          ...(refits ? { refitTailFraction: refit ? round(refit.tailFraction) : null, refitShelfFraction: refit ? round(refit.shelfFraction) : null } : {}),
+          modelEfficiency: modelEff.has(l) ? round(modelEff.get(l)!) : null,
+        },
+      ] as const;
+    }),
+  );
 }
 
 export function detectorSite(job: DetectorJob, built: DetectorProducts, refits?: LineRefits): DetectorSiteResult {
@@ -199,10 +238,8 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts, refits?:
   });
 
   const lines = detector.lineFits;
-  const withEff = lines.filter((l) => l.efficiency !== null);
-  const modelEff = new Map(Array.from(lineEfficiencyModel(job, rmf, withEff.map((l) => l.energyKeV)), (v, i) => [withEff[i], v] as const));
+  const extras = lineFitExtras(job, rmf, refits);
   const lineFits: LineFitSite[] = lines.map((l) => {
-    const refit = refits?.get(l.line);
     const mf = fwhmAt(l.energyKeV);
     const mc = paramsAt(l.energyKeV).centroidKeV;
     return {
@@ -217,13 +254,7 @@ export function detectorSite(job: DetectorJob, built: DetectorProducts, refits?:
       modelCentroidKeV: round(mc, 7),
       centroidResidualEv: round((l.centroidKeV - mc) * EV_PER_KEV),
       efficiency: l.efficiency,
-      efficiencyErr: l.efficiencyErr,
-      tailFraction: l.tailFraction,
-      tailFractionErr: l.tailFractionErr,
-      shelfFraction: l.shelfFraction,
-      shelfFractionErr: l.shelfFractionErr ?? null,
-      ...(refits ? { refitTailFraction: refit ? round(refit.tailFraction) : null, refitShelfFraction: refit ? round(refit.shelfFraction) : null } : {}),
-      modelEfficiency: modelEff.has(l) ? round(modelEff.get(l)!) : null,
+      ...extras.get(l),
     };
   });
   const chi2 = (res: number[], err: number[]) => res.reduce((s, r, i) => s + (r / err[i]) ** 2, 0);

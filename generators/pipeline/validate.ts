@@ -9,6 +9,7 @@ import { closureSigma, DEFAULT_CLOSURE_TOLERANCES } from '../checks/index.ts';
 import { jointBounds, jointClosureCheck, type ClosurePull } from '../checks/closure-joint.ts';
 import { checkProfileClosure, profileQuantitiesOf } from '../checks/closure-profile.ts';
 import type { ProfileRefit } from '../checks/profile-refit.ts';
+import type { LineFit } from '../response/model-types.ts';
 import { extrapolationChecks } from '../checks/extrapolation.ts';
 import { epochAdequacyChecks } from '../checks/epoch-adequacy.ts';
 import { defaultCheckSettings, type CheckSettings } from './check-settings.ts';
@@ -101,8 +102,8 @@ export function lineEfficiencyModel(job: DetectorJob, rmf: RmfData, energiesKeV:
   return qe.map((q, i) => q * foldedLineEfficiency(rmf, e[i]));
 }
 
-/** Matrix rows refitted at each line by the closure checks, by line name (the site plots them beside the line fits). */
-export type LineRefits = Map<string, ProfileRefit | null>;
+/** Matrix rows refitted at each line by the closure checks, by line fit (names repeat across row bands); the site plots them beside the line fits. */
+export type LineRefits = Map<LineFit, ProfileRefit | null>;
 
 export function validateDetector(job: DetectorJob, built: DetectorProducts, refits?: LineRefits): Check[] {
   return validateDetectorRaw(job, built, refits).map(tidyCheck);
@@ -154,7 +155,7 @@ function closureChecks(job: DetectorJob, rmf: RmfData, rmfId: string, settings: 
     });
     checks.push(...prof.checks);
     pulls.push(...prof.pulls);
-    refits?.set(line.line, prof.refit);
+    refits?.set(line, prof.refit);
   }
   withEff.forEach((line, i) => {
     const eff = checkEfficiencyClosure(modelEff[i], line, rmfId, tol);
@@ -213,13 +214,13 @@ function modelChecks(job: DetectorJob, rmf: RmfData, rmfId: string, range: Valid
  * Today's checks on products made earlier (an archived release's bytes, read-only): the file
  * checks on every file and the model checks on its matrix, judged with the job's settings. What
  * needs the model's own loss bookkeeping (row accounting, dropped probability) is not in a file,
- * so it is not re-run. Null when the detector has no matrix among the files.
+ * so it is not re-run. Null when the detector has no matrix among the files; with it, the matrix read.
  */
-export function recheckDetector(job: DetectorJob, files: readonly CheckedFile[]): Check[] | null {
+export function recheckDetector(job: DetectorJob, files: readonly CheckedFile[], refits?: LineRefits): { checks: Check[]; rmf: RmfData } | null {
   const rmfFile = files.find((f) => f.kind === 'rmf');
   if (!rmfFile) return null;
   const rmf = readRmf(readFits(rmfFile.fits, { fileName: rmfFile.name })).data;
   const spec = job.detector.redistribution;
   const range = validRange(job.instrument.channels, job.instrument.energyGrid, spec.thresholdKeV);
-  return [...fileChecks(files, rmf), ...modelChecks(job, rmf, rmfFile.id, range)].map(tidyCheck);
+  return { checks: [...fileChecks(files, rmf), ...modelChecks(job, rmf, rmfFile.id, range, refits)].map(tidyCheck), rmf };
 }

@@ -14,6 +14,7 @@ export const modelPath = (detector: string): string => `${detectorDir(detector)}
 export const profilesPath = (detector: string): string => `${detectorDir(detector)}/profiles.json`;
 export const matrixPath = (detector: string): string => `${detectorDir(detector)}/matrix.json`;
 export const checksPath = (detector: string): string => `${detectorDir(detector)}/checks.json`;
+export const supplementPath = (detector: string): string => `${detectorDir(detector)}/supplement.json`;
 export const areaPath = (detector: string): string => `${detectorDir(detector)}/area.json`;
 export const epochPath = (detector: string, epoch: string): string => `${detectorDir(detector)}/epochs/${epoch}.json`;
 

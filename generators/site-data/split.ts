@@ -16,6 +16,7 @@ import type {
   DetectorModelDoc,
   DetectorProfilesDoc,
   FinderDetectorDoc,
+  DetectorSupplementDoc,
   OverlayDetector,
   ReleaseIndex,
   DetectorSite,
@@ -204,6 +205,18 @@ export function joinModel(model: DetectorModelDoc, read: DocReader, parts: JoinP
     matrix: parts.matrix === false ? EMPTY_MATRIX : read<DetectorMatrixDoc>(matrixPath(detector)).matrix,
   };
   return { site, parameters: model.parameters, products: model.products, checks: parts.checks === false ? [] : read<DetectorChecksDoc>(checksPath(detector)).checks };
+}
+
+/** A detector's site data with an archive's supplement (curves computed at this build) merged in. */
+export function withSupplement(site: DetectorSite, sup: DetectorSupplementDoc): DetectorSite {
+  const aligned = sup.lineFits.length === site.lineFits.length;
+  return {
+    ...site,
+    resolution: { ...site.resolution, ...sup.resolution },
+    ...(sup.efficiency ? { efficiency: sup.efficiency } : {}),
+    lineFits: aligned ? site.lineFits.map((l, i) => ({ ...l, ...sup.lineFits[i] })) : site.lineFits,
+    supplementedBy: sup.generator,
+  };
 }
 
 /** The whole release, with its checks in release-then-detector order. */

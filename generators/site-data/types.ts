@@ -311,6 +311,8 @@ export interface DetectorSite {
   resolution: { energyKeV: number[]; fwhmEv: number[]; centroidOffsetEv: number[]; tailFraction?: number[]; shelfFraction?: number[]; tailSource?: TailSource };
   /** Model line efficiency (absent in older archives). */
   efficiency?: EfficiencyCurve;
+  /** Set when the tail, shelf and efficiency curves come from an archive's supplement (the generator that computed them), not its published site data. */
+  supplementedBy?: string;
   /**
    * The same curves for each region the release builds products for (readout node, or node × row
    * band: its own noise, gain and transfer loss), on the same energies; absent when the release
@@ -438,6 +440,26 @@ export interface DetectorModelDoc {
   fitQuality: DetectorSite['fitQuality'];
   parameters: ParameterRow[];
   products: ProductSummary[];
+  /** Archived releases: curves computed at this build beside the published ones (detectors/<id>/supplement.json). */
+  supplement?: true;
+}
+
+/**
+ * detectors/<id>/supplement.json of an archived release: the profile and line-efficiency curves
+ * its published site data predate, computed at each build from the archived matrix (read back
+ * from the verified bytes) and the release's frozen inputs, as for a built release. The archive
+ * and its site.json are never changed; pages show these beside the published curves.
+ */
+export interface DetectorSupplementDoc {
+  schema: 'kiln/detector-supplement/1';
+  release: string;
+  detector: string;
+  /** Version of the Kiln generator that computed it. */
+  generator: string;
+  resolution: { tailFraction: number[]; shelfFraction: number[]; tailSource: TailSource };
+  efficiency?: EfficiencyCurve;
+  /** Aligned with the published lineFits (same lines, same order). */
+  lineFits: Partial<LineFitSite>[];
 }
 
 export interface DetectorProfilesDoc {

@@ -8,9 +8,9 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, join } from 'node:path';
-import type { Check, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSpectral, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
-import { OVERLAY_FILE, REEXAMINED_FILE, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
-import { joinDetector, joinRelease, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
+import type { Check, DetectorModelDoc, DetectorSupplementDoc, ReexaminationDoc, ReleaseIndex, ReleaseManifest, ReleaseSite, ReleaseSpectral, ReleaseSummaryDoc, ValidationReport } from '../../generators/site-data/types.ts';
+import { modelPath, OVERLAY_FILE, REEXAMINED_FILE, SUMMARY_FILE, supplementPath } from '../../generators/site-data/paths.ts';
+import { joinDetector, joinRelease, withSupplement, type JoinedDetector, type JoinParts } from '../../generators/site-data/split.ts';
 
 export const outDir = (): string => resolve(process.env.KILN_OUT ?? '.kiln/out');
 
@@ -56,7 +56,10 @@ export function loadDetector(id: string, detector: string): JoinedDetector {
   const key = `${id}\u0000${detector}`;
   const hit = detectors.get(key);
   if (hit) return hit;
-  const joined = joinDetector(detector, reader(id));
+  const read = reader(id);
+  const base = joinDetector(detector, read);
+  // An archive's curves computed at this build (supplement.json) beside its published ones.
+  const joined = read<DetectorModelDoc>(modelPath(detector)).supplement ? { ...base, site: withSupplement(base.site, read<DetectorSupplementDoc>(supplementPath(detector))) } : base;
   detectors.set(key, joined);
   if (detectors.size > DETECTOR_CACHE) detectors.delete(detectors.keys().next().value!);
   return joined;

@@ -2,9 +2,9 @@
  * Browser side of the split site data: each document fetched at most once per page, and a
  * detector joined from its documents only when one of its sections is opened or plotted.
  */
-import { checksPath, epochPath, modelPath, profilesPath, siteDataBase, SUMMARY_FILE } from '../../generators/site-data/paths.ts';
-import { joinModel, type JoinedDetector } from '../../generators/site-data/split.ts';
-import type { DetectorModelDoc, ReleaseSummaryDoc } from '../../generators/site-data/types.ts';
+import { checksPath, epochPath, modelPath, profilesPath, siteDataBase, SUMMARY_FILE, supplementPath } from '../../generators/site-data/paths.ts';
+import { joinModel, withSupplement, type JoinedDetector } from '../../generators/site-data/split.ts';
+import type { DetectorModelDoc, DetectorSupplementDoc, ReleaseSummaryDoc } from '../../generators/site-data/types.ts';
 
 const docs = new Map<string, Promise<unknown>>();
 
@@ -40,8 +40,11 @@ export async function fetchDetector(releaseId: string, detector: string, parts: 
     ...(parts.profiles === false ? [] : [profilesPath(detector)]),
     ...(parts.checks === false ? [] : [checksPath(detector)]),
   ];
+  if (model.supplement) paths.push(supplementPath(detector));
   const got = new Map<string, unknown>(await Promise.all(paths.map(async (p) => [p, await fetchJson(base + p)] as const)));
-  return joinModel(model, <T,>(p: string) => got.get(p) as T, { matrix: false, profiles: parts.profiles, checks: parts.checks, epochs: parts.epochs });
+  const joined = joinModel(model, <T,>(p: string) => got.get(p) as T, { matrix: false, profiles: parts.profiles, checks: parts.checks, epochs: parts.epochs });
+  // An archive's curves computed at this build beside its published ones.
+  return model.supplement ? { ...joined, site: withSupplement(joined.site, got.get(supplementPath(detector)) as DetectorSupplementDoc) } : joined;
 }
 
 /** Release id and detector id of a figure's data-spec-src (".../data/releases/<id>/detectors/<det>/"). */
