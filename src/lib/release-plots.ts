@@ -263,19 +263,32 @@ export function overlayLabel(d: OverlayDet, kind: OverlayKind): string {
 }
 export const overlayRegionLabel = (d: OverlayDet, g: OverlayReg): string => `${d.name}, node ${g.node}${g.rowBand !== null ? `, rows ${g.rowBand}` : ''}`;
 
+/**
+ * Region curves drawn in one overlay plot at most: beyond this (e.g. four sensors of eight nodes)
+ * each detector's own page shows its nodes, and the overlay keeps one curve per detector, so the
+ * release page's static SVG stays within its budget and the plot stays readable.
+ */
+export const OVERLAY_MAX_REGION_CURVES = 16;
+
 /** One overlay plot: a curve per detector in its own colour, each region's curve in its detector's colour, dashed. Null when no detector has the curve. */
 export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec | null {
   const a = OVERLAY_AXES[kind];
   const series: SeriesSpec[] = [];
+  const regionCurves = doc.detectors.reduce((n, d) => n + (d.regions ?? []).filter((g) => overlayRegionCurveOf(g, kind)).length, 0);
+  const withRegions = regionCurves <= OVERLAY_MAX_REGION_CURVES;
+  const colours = SERIES_COLOURS.length;
   doc.detectors.forEach((d, i) => {
     const c = overlayCurveOf(d, kind);
-    const colour = SERIES_COLOURS[i % SERIES_COLOURS.length];
+    const colour = SERIES_COLOURS[i % colours];
+    // Past the palette, detectors repeat a colour with a dash of their own.
+    const dash = i < colours ? undefined : regionDash(Math.floor(i / colours) - 1);
     const positive = (v: number) => (a.y.scale === 'log' && v <= 0 ? null : v);
-    if (c) series.push({ ...lineSeries(overlayLabel(d, kind), c.energyKeV, c.values.map(positive), i), colour, dash: undefined, widthPx: DETECTOR_CURVE_PX });
-    (d.regions ?? []).forEach((g, k) => {
-      const rc = overlayRegionCurveOf(g, kind);
-      if (rc) series.push({ ...lineSeries(overlayRegionLabel(d, g), rc.energyKeV, rc.values.map(positive), i), colour, dash: regionDash(k), widthPx: REGION_CURVE_PX });
-    });
+    if (c) series.push({ ...lineSeries(overlayLabel(d, kind), c.energyKeV, c.values.map(positive), i), colour, dash, widthPx: DETECTOR_CURVE_PX });
+    if (withRegions)
+      (d.regions ?? []).forEach((g, k) => {
+        const rc = overlayRegionCurveOf(g, kind);
+        if (rc) series.push({ ...lineSeries(overlayRegionLabel(d, g), rc.energyKeV, rc.values.map(positive), i), colour, dash: regionDash(k), widthPx: REGION_CURVE_PX });
+      });
   });
   if (!series.length) return null;
   return {
@@ -287,6 +300,7 @@ export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec
     y: a.y,
     ...(a.yRef !== undefined ? { yRef: a.yRef } : {}),
     series,
+    ...(withRegions ? {} : { note: `${regionCurves} readout-node curves are left out here (at most ${OVERLAY_MAX_REGION_CURVES} are drawn); each detector's page shows its nodes.` }),
   };
 }
 
