@@ -259,8 +259,17 @@ function overlayRegionCurveOf(g: OverlayReg, kind: OverlayKind): OverlayCurve | 
 export function overlayLabel(d: OverlayDet, kind: OverlayKind): string {
   if (kind === 'ea' && d.effectiveAreaCm2) return `${d.name} (epoch ${d.effectiveAreaCm2.epoch})`;
   if (kind === 'tail' && d.tailSource === 'collection') return `${d.name} (partial-charge share)`;
+  // Beside its nodes' curves, the detector's own is the whole-detector model (its matrix may not be shipped).
+  if ((d.regions ?? []).some((g) => overlayRegionCurveOf(g, kind))) return `${d.name} (whole detector)`;
   return d.name;
 }
+
+/**
+ * Detectors drawn in the overlay at most: three per palette colour (solid, then two dashes); more
+ * curves are hard to tell apart (Kiln's choice), and the static SVG (~0.5 KB per curve and plot)
+ * would outgrow the page budget.
+ */
+export const OVERLAY_MAX_DETECTORS = 21;
 export const overlayRegionLabel = (d: OverlayDet, g: OverlayReg): string => `${d.name}, node ${g.node}${g.rowBand !== null ? `, rows ${g.rowBand}` : ''}`;
 
 /**

@@ -68,7 +68,7 @@ describe(`release ${id}: overlay of every detector`, () => {
     // Legend names each detector; node curves name their node.
     const legend = await page.locator('figure#ov-fwhm ul.legend li').allTextContents();
     for (const d of doc.detectors) {
-      expect(legend).toContain(d.name);
+      expect(legend).toContain((d.regions ?? []).length ? `${d.name} (whole detector)` : d.name);
       for (const g of d.regions ?? []) expect(legend).toContain(`${d.name}, node ${g.node}`);
     }
     // Interaction loads overlay.json once and redraws the same curves on a log axis.

@@ -51,7 +51,7 @@ const doc = (n: number, nodes: number): ReleaseOverlayDoc => ({ schema: 'kiln/re
 describe('overlayPlot', () => {
   it('draws each detector and each of its nodes, labelled, with axis units', () => {
     const p = overlayPlot(doc(2, 4), 'fwhm')!;
-    expect(p.series.map((s) => s.label)).toEqual(['Sensor 0', 'Sensor 0, node a', 'Sensor 0, node b', 'Sensor 0, node c', 'Sensor 0, node d', 'Sensor 1', 'Sensor 1, node a', 'Sensor 1, node b', 'Sensor 1, node c', 'Sensor 1, node d']);
+    expect(p.series.map((s) => s.label)).toEqual(['Sensor 0 (whole detector)', 'Sensor 0, node a', 'Sensor 0, node b', 'Sensor 0, node c', 'Sensor 0, node d', 'Sensor 1 (whole detector)', 'Sensor 1, node a', 'Sensor 1, node b', 'Sensor 1, node c', 'Sensor 1, node d']);
     expect([p.x.label, p.x.unit, p.y.label, p.y.unit]).toEqual(['Energy', 'keV', 'FWHM', 'eV']);
     expect(p.note).toBeUndefined();
     // No curve of the overlay without data: no tail curves were given.
