@@ -62,7 +62,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|reexamined\.json|spectral\.json|spectral-elements\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|overlay\.json|reexamined\.json|spectral\.json|spectral-elements\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area|supplement)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every check of a validation report is identified by its id and product alone (sign-off and comparisons join on them)', () => {

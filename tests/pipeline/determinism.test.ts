@@ -31,12 +31,16 @@ describe('kiln build is deterministic', () => {
     // 38 products + 4 × 5 JSON files (manifest, validation, summary, spectral, spectral-elements) + index.json for the demo (content/releases/*/release.yaml), 2 × 2
     // model documents and schemas (built releases 2.0.0 and 2.1.0; the archives of 1.0.0 and 1.1.0 predate them),
     // a reexamined.json for each of the 2 archived releases (content/archive/),
-    // plus the split site data: 5 documents per detector and one per epoch, and a finder document per detector.
+    // plus the split site data: 5 documents per detector and one per epoch, an overlay per release, a
+    // supplement per detector of an archived release (the curves its site data predate), and a finder document per detector.
     const summaries = [...one.keys()].filter((p) => p.endsWith('/summary.json')).map((p) => JSON.parse(one.get(p)!.toString('utf8')) as { detectors: { epochs: unknown[] }[] });
     const split = summaries.reduce((n, s) => n + s.detectors.reduce((m, d) => m + 5 + d.epochs.length, 0), 0);
     const finder = [...one.keys()].filter((p) => p.startsWith('finder/')).length;
     expect(finder).toBe(2);
-    expect(one.size).toBe(38 + 20 + 4 + 1 + 2 + split + finder);
+    const overlays = summaries.length;
+    const supplements = [...one.keys()].filter((p) => p.endsWith('/supplement.json'));
+    expect(supplements.map((p) => p.split('/')[1]).sort()).toEqual(['1.0.0', '1.0.0', '1.1.0', '1.1.0']);
+    expect(one.size).toBe(38 + 20 + 4 + 1 + 2 + split + overlays + supplements.length + finder);
     expectSameTrees(one, two);
   }, 300_000); // two clean demo builds (impact fits included): ~30 s each on 2 loaded cores
 
