@@ -15,8 +15,9 @@ import { KilnInputError, throwInputErrors } from '../errors.ts';
 import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText, parseSpectralText } from './documents.ts';
 import { formatPath, valueAt } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
-import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
+import { allowedReleaseKeys, qualifiedReleaseName } from './release-key.ts';
 import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
 import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
@@ -212,18 +213,19 @@ export async function loadContent(root: string): Promise<ContentTree> {
       const bytes = await readBytes(root, file, 'yaml', `${RELEASE_FILE}, the release description`);
       const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
       const source: DocSource = { file, locate: yaml.locate };
-      if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
+      const keys = allowedReleaseKeys(doc.instrument, doc.id);
+      if (!keys.includes(name)) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `a folder named "${keys[0]}" or "${keys[1]}" (or the id matching "${name}")`);
       if (!instruments.has(doc.instrument) && !broken.has(doc.instrument))
         throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys(), ...broken].sort().join(', ') || '(no instrument in the content tree)'}`);
       const notesFile = join(dir, NOTES_FILE);
       const notesBytes = await readBytes(root, notesFile, 'notes', `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
-      const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
+      const release: Release = { ...doc, key: name, supersedesKey: null, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
       return { release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] };
     });
     if (one) parsed.push(one);
     else brokenReleases.add(name);
   }
-  parsed.sort((a, b) => compareSemver(a.release.id, b.release.id));
+  parsed.sort((a, b) => compareSemver(a.release.id, b.release.id) || (a.release.instrument < b.release.instrument ? -1 : a.release.instrument > b.release.instrument ? 1 : 0));
   errors.push(...checkReleaseHistory(parsed, brokenReleases));
 
   const releases: ResolvedRelease[] = [];
@@ -247,22 +249,31 @@ export async function loadContent(root: string): Promise<ContentTree> {
   };
 }
 
-function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
+/** `supersedes` names a release of the same instrument (ids are scoped by instrument); sets `supersedesKey`. */
+function checkReleaseHistory(list: { release: Release; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
   const errors: KilnInputError[] = [];
-  const byId = new Map(list.map((p) => [p.release.id, p]));
-  const supersededBy = new Map<string, string>();
+  const scoped = (instrument: string, id: string) => `${instrument}\u0000${id}`;
+  const byId = new Map(list.map((p) => [scoped(p.release.instrument, p.release.id), p]));
+  const supersededBy = new Set<string>();
   for (const { release: r, source } of list) {
     if (r.supersedes === null) continue;
-    const old = byId.get(r.supersedes);
-    if (!old && broken.has(r.supersedes)) continue; // reported already, as its own error
-    if (!old) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`));
-    else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
-    else if (old.release.instrument !== r.instrument)
-      errors.push(releaseError(source, ['supersedes'], `supersedes a release of another instrument (${old.release.instrument})`, r.supersedes, `a release of ${r.instrument}`));
-    else supersededBy.set(r.supersedes, r.id);
+    const old = byId.get(scoped(r.instrument, r.supersedes));
+    if (!old && (broken.has(r.supersedes) || broken.has(qualifiedReleaseName(r.instrument, r.supersedes)))) continue; // reported already, as its own error
+    if (!old) {
+      const other = list.find((p) => p.release.id === r.supersedes && p.release.instrument !== r.instrument);
+      if (other) errors.push(releaseError(source, ['supersedes'], `supersedes a release of another instrument (${other.release.instrument})`, r.supersedes, `a release of ${r.instrument}`));
+      else {
+        const own = list.filter((p) => p.release.instrument === r.instrument && p.release !== r).map((p) => p.release.id);
+        errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${own.join(', ') || `(no other release of ${r.instrument})`}, or null`));
+      }
+    } else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
+    else {
+      supersededBy.add(old.release.key);
+      r.supersedesKey = old.release.key;
+    }
   }
   for (const { release: r, source } of list)
-    if (r.status === 'superseded' && !supersededBy.has(r.id) && broken.size === 0)
+    if (r.status === 'superseded' && !supersededBy.has(r.key) && broken.size === 0)
       errors.push(releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`));
   return errors;
 }

@@ -25,6 +25,10 @@ export interface Instrument extends InstrumentDoc {
 }
 
 export interface Release extends ReleaseDoc {
+  /** Its folder name under releases/: the id, or `<instrument>~<id>` (release-key.ts). */
+  key: string;
+  /** Key of the release it supersedes (same instrument), or null. */
+  supersedesKey: string | null;
   dir: string;
   file: string;
   notesFile: string;
@@ -78,6 +82,6 @@ export interface ContentTree {
   root: string;
   /** Sorted by id. */
   instruments: Instrument[];
-  /** Sorted by semantic version, oldest first. */
+  /** Sorted by semantic version, oldest first (ties by instrument id). */
   releases: ResolvedRelease[];
 }

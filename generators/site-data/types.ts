@@ -75,6 +75,13 @@ export interface ProductSummary {
 export interface ReleaseSummary {
   id: string;
   instrument: string;
+  /**
+   * Where the release lives: its folder name under releases/ (build output, archive, site URLs
+   * /releases/<key>/ and /data/releases/<key>/), the id or `<instrument>~<id>`.
+   */
+  key: string;
+  /** Key of the release it supersedes (same instrument), or null. */
+  supersedesKey: string | null;
   title: string;
   date: string;
   status: ReleaseStatus;
