@@ -21,7 +21,8 @@ export function fetchJson<T>(url: string): Promise<T> {
   return p as Promise<T>;
 }
 
-export const fetchSummary = (releaseId: string): Promise<ReleaseSummaryDoc> => fetchJson(siteDataBase(releaseId) + SUMMARY_FILE);
+/** A release's summary by its key; `id` becomes the key, so labels and data paths name the release unambiguously (instrument~id where ids are shared). */
+export const fetchSummary = (releaseKey: string): Promise<ReleaseSummaryDoc> => fetchJson<ReleaseSummaryDoc>(siteDataBase(releaseKey) + SUMMARY_FILE).then((s) => ({ ...s, id: releaseKey }));
 
 export interface DetectorParts {
   profiles?: boolean;

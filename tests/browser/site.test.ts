@@ -301,7 +301,7 @@ describe('archived releases re-examined with current checks', () => {
       expect(rows).toEqual(doc.findings.map((f) => [f.status, f.id]));
       await page.close();
       const home = await open('/');
-      const link = await home.page.$eval(`#releases a[href="/releases/${r.id}/#reexamined"]`, (a) => a.textContent ?? '');
+      const link = await home.page.$eval(`.releases a[href="/releases/${r.id}/#reexamined"]`, (a) => a.textContent ?? '');
       expect(link).toContain(`${r.reexamined!.warn} warn since publication`);
       await home.page.close();
       expect([...problems, ...home.problems]).toEqual([]);
