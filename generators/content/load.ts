@@ -20,7 +20,7 @@ import { compareSemver } from './semver.ts';
 import { allowedReleaseKeys, qualifiedReleaseName } from './release-key.ts';
 import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
-import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
+import type { ContentTree, InputFile, Instrument, Release, ResolvedDetector, ResolvedRelease } from './types.ts';
 
 const UTF8 = new TextDecoder('utf-8', { fatal: true });
 /** Plain files allowed beside the entry directories (documentation). */
@@ -290,8 +290,9 @@ async function resolveRelease(
   const instrument = await effectiveInstrument(root, ins, release, source, rel);
   const inputs = [...p.inputs, ...instrument.inputs];
   const used = new Set<string>();
-  const detectors = [];
+  const detectors: ResolvedDetector[] = [];
   const errors: KilnInputError[] = [];
+  const configurations = await collecting(errors, () => releaseConfigurations(ins, release, source));
   for (const detectorId of Object.keys(release.detectors)) {
     const relFile = lineFitsFileOf(release, detectorId);
     const file = join(release.dir, relFile);
@@ -313,7 +314,7 @@ async function resolveRelease(
         regionsSource: ins.regions?.source,
       });
     });
-    if (d) detectors.push(d);
+    if (d && configurations) detectors.push(...configuredDetectors(d, configurations));
   }
   // regions.yaml is an input of the releases whose products depend on it (as in the fingerprint).
   if (ins.regions && (release.productsPer !== 'detector' || detectors.some((d) => d.redistribution.transferLoss !== undefined))) inputs.push(ins.regions.input);
@@ -331,6 +332,48 @@ async function resolveRelease(
   throwInputErrors(errors);
   inputs.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
   return { release, instrument: instrument.instrument, detectors, inputs };
+}
+
+type Configuration = NonNullable<InstrumentDoc['configurations']>[number];
+
+/**
+ * The configurations a release builds: those it lists under `configurations:` (each must be one
+ * of its instrument's), else all of them; [null] for an instrument without configurations.
+ */
+function releaseConfigurations(ins: LoadedInstrument, release: Release, source: DocSource): (Configuration | null)[] {
+  const declared = ins.instrument.configurations;
+  if (!release.configurations) return declared ?? [null];
+  if (!declared)
+    throw releaseError(source, ['configurations'], `instrument ${ins.instrument.id} declares no configurations`, release.configurations, `no configurations field, or configurations: in ${basename(ins.source.file)} of ${ins.instrument.id}`);
+  const errors: KilnInputError[] = [];
+  const out: Configuration[] = [];
+  release.configurations.forEach((id, i) => {
+    const c = declared.find((x) => x.id === id);
+    if (!c) errors.push(releaseError(source, ['configurations', i], 'unknown configuration', id, `one of ${declared.map((x) => x.id).join(', ')} (configurations of ${ins.instrument.id} in ${ins.source.file})`));
+    else if (out.includes(c)) errors.push(releaseError(source, ['configurations', i], 'configuration listed twice', id, 'each configuration at most once'));
+    else out.push(c);
+  });
+  throwInputErrors(errors);
+  return out;
+}
+
+/**
+ * One build entry per configuration: the detector with the configuration's filters in place of
+ * its own, id `<detector>.<configuration>` (products, site documents, review pairing and the
+ * finder then keep the configurations apart), name and FILTER value of the configuration.
+ */
+function configuredDetectors(d: ResolvedDetector, configurations: (Configuration | null)[]): ResolvedDetector[] {
+  return configurations.map((c) =>
+    c === null
+      ? d
+      : {
+          ...d,
+          id: `${d.id}.${c.id}`,
+          name: `${d.name} (${c.title ?? c.id})`,
+          stack: { ...d.stack, filters: c.filters.map((l) => ({ ...l, kind: 'filter' as const })) },
+          configuration: { id: c.id, filter: c.filter, detector: d.id },
+        },
+  );
 }
 
 /**

@@ -51,6 +51,12 @@ export interface ResolvedDetector {
   /** Line fits measured in row bands (the CSV's region column); they feed the transfer-loss fit. */
   bandLineFits?: LineFit[];
   regions?: ResolvedRegions;
+  /**
+   * The configuration (filter position) this entry is built for, when the instrument declares
+   * configurations: the entry's id is then `<detector>.<configuration>` and its stack carries the
+   * configuration's filters. Absent for instruments without configurations.
+   */
+  configuration?: { id: string; filter: string; detector: string };
 }
 
 /** A detector's readout nodes (each with its own resolved model) and row bands. */

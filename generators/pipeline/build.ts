@@ -139,6 +139,7 @@ function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
     description: i.description,
     channels: i.channels.count,
     detectors: i.detectors.map((d) => ({ id: d.id, name: d.name, kind: d.kind, description: d.description })),
+    ...(i.configurations ? { configurations: i.configurations.map((c) => ({ id: c.id, title: c.title ?? c.id, filter: c.filter })) } : {}),
   }));
 }
 
@@ -206,6 +207,7 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     sha256: p.sha256,
     kind: p.kind,
     detector: p.detector,
+    ...(p.filter !== undefined ? { filter: p.filter } : {}),
     ...(p.node !== undefined ? { node: p.node } : {}),
     ...(p.rowBand !== undefined ? { rowBand: p.rowBand } : {}),
     epoch: p.epoch,
@@ -438,7 +440,9 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
         modelRef = { path: MODEL_FILE, bytes: model.bytes, sha256: model.sha256 };
         const slots = await runReleaseJobs(r, jobs, dir, pool, ctx);
-        products = slots.flatMap((x) => x.products);
+        // Each product of a configured entry states its configuration (the finder and index select by it).
+        const confOf = new Map(r.detectors.map((d) => [d.id, d.configuration?.id]));
+        products = slots.flatMap((x) => x.products.map((p) => (confOf.get(p.detector) ? { ...p, filter: confOf.get(p.detector) } : p)));
         checks = slots.flatMap((x) => x.checks);
         nnz += slots.reduce((s, x) => s + x.nnz, 0);
         // The review pairs a release with the one before it of the same instrument (ids are scoped by instrument).

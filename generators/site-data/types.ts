@@ -49,6 +49,11 @@ export interface InstrumentSummary {
   description: string;
   detectors: DetectorSummary[];
   channels: number;
+  /**
+   * Named configurations (filter positions), when the instrument declares them: products of
+   * detector D in configuration C have detector `D.C` and `filter: C`.
+   */
+  configurations?: { id: string; title: string; filter: string }[];
 }
 
 export interface ProductSummary {
@@ -56,6 +61,8 @@ export interface ProductSummary {
   id: string;
   kind: ProductKind;
   detector: string;
+  /** Configuration (filter position) id of an instrument with configurations; absent otherwise. */
+  filter?: string;
   /** Readout node and row band of a per-region product; absent for a whole-detector product. */
   node?: string;
   rowBand?: string;
@@ -403,7 +410,10 @@ export interface DetectorAreaDoc {
 export interface FinderDetectorDoc {
   schema: 'kiln/finder-detector/1';
   instrument: string;
+  /** The detector's entry id: `D.C` for detector D in configuration C of an instrument with configurations. */
   detector: string;
+  /** Configuration id, for an instrument with configurations. */
+  filter?: string;
   /** Newest first, as in the index; products filtered to this detector. */
   releases: ReleaseSummary[];
 }
