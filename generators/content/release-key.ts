@@ -30,16 +30,17 @@ export interface NamedRelease {
  * the candidates (exit 2).
  */
 export function findReleaseByName<T extends NamedRelease>(releases: readonly T[], name: string, where: { file: string; field?: string }): T {
-  const exact = releases.find((r) => r.key === name || qualifiedReleaseName(r.instrument, r.id) === name);
-  if (exact) return exact;
+  // A bare id used by several instruments is ambiguous even where one of them keeps it as its folder name.
   const byId = releases.filter((r) => r.id === name);
-  if (byId.length === 1) return byId[0];
   if (byId.length > 1)
     throw new KilnInputError(`release id ${name} is used by ${byId.length} instruments`, {
       ...where,
       value: name,
       expected: `an instrument-qualified name: ${byId.map((r) => qualifiedReleaseName(r.instrument, r.id)).join(', ')}`,
     });
+  const exact = releases.find((r) => r.key === name || qualifiedReleaseName(r.instrument, r.id) === name);
+  if (exact) return exact;
+  if (byId.length === 1) return byId[0];
   throw new KilnInputError('no such release', {
     ...where,
     value: name,

@@ -65,7 +65,7 @@ export interface BuildOptions {
   /** Progress lines (to the terminal). */
   log?: (line: string) => void;
   /**
-   * Publishing: build releases up to and including this id only, and build this one from its
+   * Publishing: build releases up to and including this one only (its key), and build this one from its
    * inputs even if its status is already published (it has no archive yet).
    */
   publishing?: string;
@@ -83,7 +83,7 @@ export interface BuildOptions {
   prebuilt?: (jobId: string, fingerprint: string) => JobOutput;
   /** Lines that must be seen even with --quiet (a cache entry rejected and rebuilt). */
   warn?: (line: string) => void;
-  /** Build releases up to and including this id only (`kiln report`). */
+  /** Build releases up to and including this one only (`kiln report`): a key, instrument~id, or a bare id one instrument uses. */
   upTo?: string;
   /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
   acceptAll?: AcceptAll;
@@ -372,7 +372,10 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const content = await loadContent(opts.contentDir);
   const last = opts.publishing ?? opts.upTo;
   if (last !== undefined) {
-    const target = findReleaseByName(content.releases.map((r) => r.release), last, { file: opts.contentDir });
+    // `publishing` is a key (publish resolved the name); `upTo` is the name the user gave.
+    const target =
+      (opts.publishing !== undefined ? content.releases.find((r) => r.release.key === opts.publishing)?.release : undefined) ??
+      findReleaseByName(content.releases.map((r) => r.release), last, { file: opts.contentDir });
     const at = content.releases.findIndex((r) => r.release === target);
     content.releases.splice(at + 1);
   }
