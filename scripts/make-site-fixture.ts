@@ -486,7 +486,7 @@ releases.forEach((rel, ri) => {
   writeSiteDocuments(dir, splitRelease(site, checks));
   writeJson(join(dir, 'manifest.json'), manifest);
   writeJson(join(dir, 'validation.json'), validation);
-  summaries.push({ id: rel.id, instrument: instrument.id, title: site.title, date: rel.date, status: rel.status, validFrom: rel.validFrom, validTo: rel.validTo, supersedes: rel.supersedes, checks: counts, products });
+  summaries.push({ id: rel.id, instrument: instrument.id, key: rel.id, supersedesKey: rel.supersedes, title: site.title, date: rel.date, status: rel.status, validFrom: rel.validFrom, validTo: rel.validTo, supersedes: rel.supersedes, checks: counts, products });
 });
 
 const index: ReleaseIndex = { schema: 'kiln/release-index/1', instruments: [instrument], releases: summaries };

@@ -4,7 +4,7 @@ import { resolve } from 'node:path';
 import { formatCompareText, formatImpactText, needsReview } from '../compare/index.ts';
 import { loadContent } from '../content/index.ts';
 import { KilnInputError } from '../errors.ts';
-import { compareFiles, compareImpact, compareReleases } from '../pipeline/compare-releases.ts';
+import { compareFiles, compareImpact, compareReleases, comparedKeys } from '../pipeline/compare-releases.ts';
 import type { ReleaseSpectral } from '../site-data/types.ts';
 import { optFlag, optString, UsageError, type CommandSpec } from './args.ts';
 import { DEFAULT_OUT_DIR } from './build.ts';
@@ -35,7 +35,8 @@ export const command: CommandSpec = {
     let spectral: ReleaseSpectral | null = null;
     if (impact) {
       const content = await loadContent(resolve(optString(args, 'content') ?? 'content'));
-      const rel = content.releases.find((r) => r.release.id === b) ?? content.releases.find((r) => r.release.id === a);
+      const [ka, kb] = comparedKeys(outDir, a, b);
+      const rel = content.releases.find((r) => r.release.key === kb) ?? content.releases.find((r) => r.release.key === ka);
       if (!rel) throw new KilnInputError(`neither release ${a} nor ${b} is in the content tree`, { file: content.root, expected: 'the content tree the build was made from (--content DIR)' });
       spectral = compareImpact(outDir, rel.instrument, a, b, (line) => process.stderr.write(`kiln compare: ${line}\n`));
     }

@@ -13,7 +13,7 @@ export const command: CommandSpec = {
   name: 'publish',
   summary: 'Freeze a release: build and check it, then archive its products with their SHA-256 in the content tree (never rewritten).',
   usage: 'kiln publish ID [--content DIR] [--accept-all --reason TEXT [--role TEXT]] [--quiet]',
-  positionals: { min: 1, max: 1, names: 'ID (the release id)' },
+  positionals: { min: 1, max: 1, names: 'ID (the release id, or INSTRUMENT~ID when two instruments use it)' },
   options: [
     { name: 'content', arg: 'DIR', help: `content tree (default ${DEFAULT_CONTENT_DIR})` },
     { name: 'accept-all', help: 'accept every review item release.yaml does not accept (needs --reason); recorded in the seal' },

@@ -9,7 +9,7 @@ export const command: CommandSpec = {
   summary:
     "Print a release's checks: failed, then open review items, warnings and accepted items, each with the measured and the allowed value. Builds in a private temporary folder; writes nothing. Exit 0 nothing open, 1 failed checks or open review items, 2 bad input.",
   usage: 'kiln report ID [--content DIR] [--all] [--json]',
-  positionals: { min: 1, max: 1, names: 'ID (the release id)' },
+  positionals: { min: 1, max: 1, names: 'ID (the release id, or INSTRUMENT~ID when two instruments use it)' },
   options: [
     { name: 'content', arg: 'DIR', help: `content tree (default ${DEFAULT_CONTENT_DIR})` },
     { name: 'all', help: 'text report: list passing checks too' },

@@ -5,6 +5,7 @@
  * code the site's response page runs in the browser). Nothing is written unless every choice is
  * valid.
  */
+import { builtReleaseKey } from '../pipeline/compare-releases.ts';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { KilnInputError } from '../errors.ts';
@@ -39,7 +40,7 @@ export async function runResponse(args: ParsedArgs, write: (s: string) => void =
   const from = optString(args, 'from') ?? DEFAULT_FROM;
   const outDir = resolve(optString(args, 'out') ?? '.');
 
-  const modelPath = join(from, 'releases', release, MODEL_FILE);
+  const modelPath = join(from, 'releases', builtReleaseKey(from, release).key, MODEL_FILE);
   if (!existsSync(modelPath)) {
     const have = existsSync(join(from, 'releases')) ? `a release of ${from} with a model document` : `a build output directory (run kiln build first, or give --from DIR)`;
     throw new KilnInputError(`no model document for release ${release}`, { file: modelPath, field: '--release', value: release, expected: have });

@@ -15,11 +15,12 @@ import { KilnInputError, throwInputErrors } from '../errors.ts';
 import { checkMirrorCoversGrid, parseInstrumentText, parseRegionsText, parseReleaseText, parseSpectralText } from './documents.ts';
 import { formatPath, valueAt } from './issues.ts';
 import { lineFitsFileOf, resolveDetector, type DocSource } from './resolve.ts';
-import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc, type ReleaseDoc } from './schema.ts';
+import { CONTENT_DIRS, energyGridSchema, INSTRUMENT_FILE, LINEFITS_DIR, NOTES_FILE, REGIONS_FILE, RELEASE_FILE, SPECTRAL_FILE, type InstrumentDoc } from './schema.ts';
 import { compareSemver } from './semver.ts';
+import { allowedReleaseKeys, qualifiedReleaseName } from './release-key.ts';
 import { parseSourceText, SOURCES_DIR, type SourceSpec } from './source-schema.ts';
 import { parseLineFits, parseMirrorArea } from './tables.ts';
-import type { ContentTree, InputFile, Instrument, Release, ResolvedRelease } from './types.ts';
+import type { ContentTree, InputFile, Instrument, Release, ResolvedDetector, ResolvedRelease } from './types.ts';
 
 const UTF8 = new TextDecoder('utf-8', { fatal: true });
 /** Plain files allowed beside the entry directories (documentation). */
@@ -212,18 +213,19 @@ export async function loadContent(root: string): Promise<ContentTree> {
       const bytes = await readBytes(root, file, 'yaml', `${RELEASE_FILE}, the release description`);
       const { doc, yaml } = parseReleaseText(decode(bytes, file), file);
       const source: DocSource = { file, locate: yaml.locate };
-      if (doc.id !== name) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `"${name}" (or rename the directory)`);
+      const keys = allowedReleaseKeys(doc.instrument, doc.id);
+      if (!keys.includes(name)) throw releaseError(source, ['id'], 'release id differs from its directory name', doc.id, `a folder named "${keys[0]}" or "${keys[1]}" (or the id matching "${name}")`);
       if (!instruments.has(doc.instrument) && !broken.has(doc.instrument))
         throw releaseError(source, ['instrument'], 'unknown instrument', doc.instrument, `one of ${[...instruments.keys(), ...broken].sort().join(', ') || '(no instrument in the content tree)'}`);
       const notesFile = join(dir, NOTES_FILE);
       const notesBytes = await readBytes(root, notesFile, 'notes', `${NOTES_FILE}, the release notes in Markdown, beside ${RELEASE_FILE}`);
-      const release: Release = { ...doc, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
+      const release: Release = { ...doc, key: name, supersedesKey: null, dir, file, notesFile, notesMarkdown: decode(notesBytes, notesFile) };
       return { release, source, inputs: [{ path: rel(file), bytes }, { path: rel(notesFile), bytes: notesBytes }] };
     });
     if (one) parsed.push(one);
     else brokenReleases.add(name);
   }
-  parsed.sort((a, b) => compareSemver(a.release.id, b.release.id));
+  parsed.sort((a, b) => compareSemver(a.release.id, b.release.id) || (a.release.instrument < b.release.instrument ? -1 : a.release.instrument > b.release.instrument ? 1 : 0));
   errors.push(...checkReleaseHistory(parsed, brokenReleases));
 
   const releases: ResolvedRelease[] = [];
@@ -247,22 +249,31 @@ export async function loadContent(root: string): Promise<ContentTree> {
   };
 }
 
-function checkReleaseHistory(list: { release: ReleaseDoc; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
+/** `supersedes` names a release of the same instrument (ids are scoped by instrument); sets `supersedesKey`. */
+function checkReleaseHistory(list: { release: Release; source: DocSource }[], broken: ReadonlySet<string>): KilnInputError[] {
   const errors: KilnInputError[] = [];
-  const byId = new Map(list.map((p) => [p.release.id, p]));
-  const supersededBy = new Map<string, string>();
+  const scoped = (instrument: string, id: string) => `${instrument}\u0000${id}`;
+  const byId = new Map(list.map((p) => [scoped(p.release.instrument, p.release.id), p]));
+  const supersededBy = new Set<string>();
   for (const { release: r, source } of list) {
     if (r.supersedes === null) continue;
-    const old = byId.get(r.supersedes);
-    if (!old && broken.has(r.supersedes)) continue; // reported already, as its own error
-    if (!old) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${[...byId.keys()].filter((k) => k !== r.id).join(', ') || '(no other release)'}, or null`));
-    else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
-    else if (old.release.instrument !== r.instrument)
-      errors.push(releaseError(source, ['supersedes'], `supersedes a release of another instrument (${old.release.instrument})`, r.supersedes, `a release of ${r.instrument}`));
-    else supersededBy.set(r.supersedes, r.id);
+    const old = byId.get(scoped(r.instrument, r.supersedes));
+    if (!old && (broken.has(r.supersedes) || broken.has(qualifiedReleaseName(r.instrument, r.supersedes)))) continue; // reported already, as its own error
+    if (!old) {
+      const other = list.find((p) => p.release.id === r.supersedes && p.release.instrument !== r.instrument);
+      if (other) errors.push(releaseError(source, ['supersedes'], `supersedes a release of another instrument (${other.release.instrument})`, r.supersedes, `a release of ${r.instrument}`));
+      else {
+        const own = list.filter((p) => p.release.instrument === r.instrument && p.release !== r).map((p) => p.release.id);
+        errors.push(releaseError(source, ['supersedes'], 'supersedes a release that does not exist', r.supersedes, `one of ${own.join(', ') || `(no other release of ${r.instrument})`}, or null`));
+      }
+    } else if (compareSemver(r.supersedes, r.id) >= 0) errors.push(releaseError(source, ['supersedes'], 'supersedes a release that is not older', r.supersedes, `a version below ${r.id}`));
+    else {
+      supersededBy.add(old.release.key);
+      r.supersedesKey = old.release.key;
+    }
   }
   for (const { release: r, source } of list)
-    if (r.status === 'superseded' && !supersededBy.has(r.id) && broken.size === 0)
+    if (r.status === 'superseded' && !supersededBy.has(r.key) && broken.size === 0)
       errors.push(releaseError(source, ['status'], 'status is superseded but no release supersedes it', r.status, `a later release with supersedes: ${r.id}, or another status`));
   return errors;
 }
@@ -279,8 +290,9 @@ async function resolveRelease(
   const instrument = await effectiveInstrument(root, ins, release, source, rel);
   const inputs = [...p.inputs, ...instrument.inputs];
   const used = new Set<string>();
-  const detectors = [];
+  const detectors: ResolvedDetector[] = [];
   const errors: KilnInputError[] = [];
+  const configurations = await collecting(errors, () => releaseConfigurations(ins, release, source));
   for (const detectorId of Object.keys(release.detectors)) {
     const relFile = lineFitsFileOf(release, detectorId);
     const file = join(release.dir, relFile);
@@ -302,7 +314,7 @@ async function resolveRelease(
         regionsSource: ins.regions?.source,
       });
     });
-    if (d) detectors.push(d);
+    if (d && configurations) detectors.push(...configuredDetectors(d, configurations));
   }
   // regions.yaml is an input of the releases whose products depend on it (as in the fingerprint).
   if (ins.regions && (release.productsPer !== 'detector' || detectors.some((d) => d.redistribution.transferLoss !== undefined))) inputs.push(ins.regions.input);
@@ -320,6 +332,48 @@ async function resolveRelease(
   throwInputErrors(errors);
   inputs.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
   return { release, instrument: instrument.instrument, detectors, inputs };
+}
+
+type Configuration = NonNullable<InstrumentDoc['configurations']>[number];
+
+/**
+ * The configurations a release builds: those it lists under `configurations:` (each must be one
+ * of its instrument's), else all of them; [null] for an instrument without configurations.
+ */
+function releaseConfigurations(ins: LoadedInstrument, release: Release, source: DocSource): (Configuration | null)[] {
+  const declared = ins.instrument.configurations;
+  if (!release.configurations) return declared ?? [null];
+  if (!declared)
+    throw releaseError(source, ['configurations'], `instrument ${ins.instrument.id} declares no configurations`, release.configurations, `no configurations field, or configurations: in ${basename(ins.source.file)} of ${ins.instrument.id}`);
+  const errors: KilnInputError[] = [];
+  const out: Configuration[] = [];
+  release.configurations.forEach((id, i) => {
+    const c = declared.find((x) => x.id === id);
+    if (!c) errors.push(releaseError(source, ['configurations', i], 'unknown configuration', id, `one of ${declared.map((x) => x.id).join(', ')} (configurations of ${ins.instrument.id} in ${ins.source.file})`));
+    else if (out.includes(c)) errors.push(releaseError(source, ['configurations', i], 'configuration listed twice', id, 'each configuration at most once'));
+    else out.push(c);
+  });
+  throwInputErrors(errors);
+  return out;
+}
+
+/**
+ * One build entry per configuration: the detector with the configuration's filters in place of
+ * its own, id `<detector>.<configuration>` (products, site documents, review pairing and the
+ * finder then keep the configurations apart), name and FILTER value of the configuration.
+ */
+function configuredDetectors(d: ResolvedDetector, configurations: (Configuration | null)[]): ResolvedDetector[] {
+  return configurations.map((c) =>
+    c === null
+      ? d
+      : {
+          ...d,
+          id: `${d.id}.${c.id}`,
+          name: `${d.name} (${c.title ?? c.id})`,
+          stack: { ...d.stack, filters: c.filters.map((l) => ({ ...l, kind: 'filter' as const })) },
+          configuration: { id: c.id, filter: c.filter, detector: d.id },
+        },
+  );
 }
 
 /**

@@ -407,6 +407,23 @@ export const detectorSchema = z
   .strict()
   .superRefine(checkDetectorModel);
 
+/**
+ * A named configuration of the instrument, e.g. one position of a filter wheel: its filter
+ * layers replace every detector's `stack.filters`, and its products state `filter` as their FITS
+ * FILTER value. A release builds products for each configuration it lists (default: all).
+ */
+export const configurationSchema = z
+  .object({
+    id: safeId,
+    /** Shown on the site, e.g. "thin optical blocking filter". */
+    title: text.optional(),
+    /** FITS FILTER of its products (OGIP CAL/GEN/92-002). */
+    filter: fitsString,
+    filters: z.array(layerSchema).min(1),
+  })
+  .strict();
+export type ConfigurationDoc = z.output<typeof configurationSchema>;
+
 export const instrumentSchema = z
   .object({
     id: safeId,
@@ -421,9 +438,16 @@ export const instrumentSchema = z
     channels: channelGridSchema,
     energyGrid: energyGridSchema,
     detectors: z.array(detectorSchema).min(1),
+    /** Absent: one configuration, the detectors' own filters (FILTER their layer names). */
+    configurations: z.array(configurationSchema).min(1).optional(),
   })
   .strict()
   .superRefine((ins, ctx) => {
+    const confs = new Map<string, number>();
+    (ins.configurations ?? []).forEach((c, i) => {
+      if (confs.has(c.id)) issue(ctx, `configuration id "${c.id}" is used twice (also configurations[${confs.get(c.id)}])`, 'unique configuration ids', ['configurations', i, 'id']);
+      confs.set(c.id, i);
+    });
     const ids = new Map<string, number>();
     ins.detectors.forEach((d, i) => {
       if (ids.has(d.id)) issue(ctx, `detector id "${d.id}" is used twice (also detectors[${ids.get(d.id)}])`, 'unique detector ids', ['detectors', i, 'id']);
@@ -588,6 +612,8 @@ export const releaseSchema = z
     /** Review items accepted for this release (shown as accepted; `kiln publish` requires all). */
     accepted: z.array(acceptedItemSchema).default([]),
     detectors: z.record(safeId, releaseDetectorSchema),
+    /** Configurations of the instrument to build (ids of its `configurations`); default all of them. */
+    configurations: z.array(safeId).min(1).optional(),
     checks: releaseChecksSchema.optional(),
   })
   .strict()

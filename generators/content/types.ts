@@ -25,6 +25,10 @@ export interface Instrument extends InstrumentDoc {
 }
 
 export interface Release extends ReleaseDoc {
+  /** Its folder name under releases/: the id, or `<instrument>~<id>` (release-key.ts). */
+  key: string;
+  /** Key of the release it supersedes (same instrument), or null. */
+  supersedesKey: string | null;
   dir: string;
   file: string;
   notesFile: string;
@@ -47,6 +51,12 @@ export interface ResolvedDetector {
   /** Line fits measured in row bands (the CSV's region column); they feed the transfer-loss fit. */
   bandLineFits?: LineFit[];
   regions?: ResolvedRegions;
+  /**
+   * The configuration (filter position) this entry is built for, when the instrument declares
+   * configurations: the entry's id is then `<detector>.<configuration>` and its stack carries the
+   * configuration's filters. Absent for instruments without configurations.
+   */
+  configuration?: { id: string; filter: string; detector: string };
 }
 
 /** A detector's readout nodes (each with its own resolved model) and row bands. */
@@ -78,6 +88,6 @@ export interface ContentTree {
   root: string;
   /** Sorted by id. */
   instruments: Instrument[];
-  /** Sorted by semantic version, oldest first. */
+  /** Sorted by semantic version, oldest first (ties by instrument id). */
   releases: ResolvedRelease[];
 }

@@ -100,6 +100,7 @@ const detector = obj(
     epochs: { type: 'array', minItems: 1, items: epoch },
     bandLineFits: { type: 'array', items: { $ref: '#/$defs/lineFit' } },
     regions,
+    configuration: obj({ id, filter: str, detector: id }),
   },
   ['id', 'name', 'kind', 'description', 'stack', 'redistribution', 'lineFits', 'lineFitsFile', 'epochs'],
   false,

@@ -21,7 +21,8 @@ const MAX_FITS_STRING = 68;
 
 function filterName(job: DetectorJob): string {
   const names = job.detector.stack.filters.map((f) => f.name);
-  const s = names.length ? names.join('+') : NO_FILTER;
+  // A configuration states its own FILTER value (checked as a FITS string by the content schema).
+  const s = job.detector.configuration?.filter ?? (names.length ? names.join('+') : NO_FILTER);
   // A quote takes two characters on the card (FITS 4.0 §4.2.1.1), so count it twice.
   let cut = s;
   while (cut.replace(/'/g, "''").length > MAX_FITS_STRING) cut = cut.slice(0, -1);
@@ -86,7 +87,7 @@ export function metaFor(job: DetectorJob, validity: ValidityStamp, extra: string
   return {
     telescop: job.instrument.telescope,
     instrume: job.instrument.instrument,
-    detnam: job.detector.id.toUpperCase(),
+    detnam: (job.detector.configuration?.detector ?? job.detector.id).toUpperCase(),
     filter: filterName(job),
     chantype: 'PI',
     date: job.release.date,

@@ -18,6 +18,7 @@
  * review of content/archive/ guard against; the seal makes every accidental or silent edit loud.
  */
 import { lstatSync, readdirSync, readFileSync } from 'node:fs';
+import { idOfKey } from '../content/release-key.ts';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { parseWith } from '../content/issues.ts';
@@ -91,8 +92,9 @@ export type Seal = SealV1 | SealV2;
 export type SealFile = Seal['files'][number];
 export type SignOffItem = z.infer<typeof signOffItem>;
 
-export function archiveDirOf(contentRoot: string, releaseId: string): string {
-  return join(contentRoot, ARCHIVE_DIR, releaseId);
+/** `archive/<key>/`: the key is the release's folder name (id, or `<instrument>~<id>`). */
+export function archiveDirOf(contentRoot: string, releaseKey: string): string {
+  return join(contentRoot, ARCHIVE_DIR, releaseKey);
 }
 
 function kindOf(path: string): 'missing' | 'file' | 'dir' | 'link' | 'other' {
@@ -135,8 +137,9 @@ function readArchiveFile(releaseId: string, file: string, maxBytes: number): Uin
   return new Uint8Array(readFileSync(file));
 }
 
-export function readSeal(contentRoot: string, releaseId: string): Seal {
-  const file = join(archiveDirOf(contentRoot, releaseId), SEAL_FILE);
+export function readSeal(contentRoot: string, releaseKey: string): Seal {
+  const file = join(archiveDirOf(contentRoot, releaseKey), SEAL_FILE);
+  const releaseId = idOfKey(releaseKey);
   const bytes = readArchiveFile(releaseId, file, MAX_SEAL_BYTES);
   let raw: unknown;
   try {
@@ -201,9 +204,9 @@ export interface VerifiedArchive {
  * and the site data and manifest advertising the same hashes as the seal. Every difference is an
  * input error naming the archive file.
  */
-export function verifyArchive(contentRoot: string, seal: Seal, release: { date: string }): VerifiedArchive {
+export function verifyArchive(contentRoot: string, seal: Seal, release: { date: string; key: string }): VerifiedArchive {
   const id = seal.release;
-  const dir = archiveDirOf(contentRoot, id);
+  const dir = archiveDirOf(contentRoot, release.key);
   const sealPath = join(dir, SEAL_FILE);
   if (seal.date !== release.date) throw tampered(id, 'seal date differs from the release date', sealPath, seal.date, release.date);
   const listed = new Map(seal.files.map((f) => [f.path, f]));

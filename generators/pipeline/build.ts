@@ -12,6 +12,7 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { isForwardOf, type ReleaseStatus } from '../content/status-line.ts';
 import { basename, dirname, join } from 'node:path';
 import { loadContent } from '../content/index.ts';
+import { findReleaseByName } from '../content/release-key.ts';
 import type { ContentTree, ResolvedRelease } from '../content/types.ts';
 import { inTermsOf, KilnInputError } from '../errors.ts';
 import type {
@@ -67,7 +68,7 @@ export interface BuildOptions {
   /** Progress lines (to the terminal). */
   log?: (line: string) => void;
   /**
-   * Publishing: build releases up to and including this id only, and build this one from its
+   * Publishing: build releases up to and including this one only (its key), and build this one from its
    * inputs even if its status is already published (it has no archive yet).
    */
   publishing?: string;
@@ -85,7 +86,7 @@ export interface BuildOptions {
   prebuilt?: (jobId: string, fingerprint: string) => JobOutput;
   /** Lines that must be seen even with --quiet (a cache entry rejected and rebuilt). */
   warn?: (line: string) => void;
-  /** Build releases up to and including this id only (`kiln report`). */
+  /** Build releases up to and including this one only (`kiln report`): a key, instrument~id, or a bare id one instrument uses. */
   upTo?: string;
   /** Publishing with `--accept-all`: every open review item of the published release is accepted so. */
   acceptAll?: AcceptAll;
@@ -99,6 +100,7 @@ export const defaultCacheDir = (outDir: string): string => (basename(dirname(out
 const JOBS_DIR = 'jobs';
 
 export interface ReleaseOutcome {
+  /** The release's key (its folder name: the id, or `<instrument>~<id>`). */
   id: string;
   status: string;
   source: 'built' | 'archive';
@@ -140,6 +142,7 @@ function instrumentSummaries(content: ContentTree): InstrumentSummary[] {
     description: i.description,
     channels: i.channels.count,
     detectors: i.detectors.map((d) => ({ id: d.id, name: d.name, kind: d.kind, description: d.description })),
+    ...(i.configurations ? { configurations: i.configurations.map((c) => ({ id: c.id, title: c.title ?? c.id, filter: c.filter })) } : {}),
   }));
 }
 
@@ -148,7 +151,7 @@ export function verifyFrozenInputs(r: ResolvedRelease, seal: Seal): void {
   const now = inputsSha256(r);
   if (now === seal.inputsSha256) return;
   const changed = changedInputFiles(r, seal);
-  throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.id} changed since it was published`, {
+  throw new KilnInputError(`inputs of ${r.release.status} release ${r.release.key} changed since it was published`, {
     file: r.release.file,
     value: changed.length ? `changed files: ${changed.join(', ')}` : `fingerprint ${now}`,
     expected: `the inputs with fingerprint ${seal.inputsSha256}; published releases are never rewritten — keep these inputs and restate the corrected ones in a new release (release.yaml overrides:, README "How to correct a published release")`,
@@ -190,6 +193,8 @@ function releaseSummary(w: ReleaseWork): ReleaseSummary {
   const c = w.outcome.checks;
   return {
     ...releaseHead(w.r.release),
+    key: w.r.release.key,
+    supersedesKey: w.r.release.supersedesKey,
     checks: { pass: c.pass, fail: c.fail, warn: c.warn, review: c.review, accepted: c.accepted },
     products: w.products,
     ...(w.reexamined ? { reexamined: w.reexamined } : {}),
@@ -205,6 +210,7 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
     sha256: p.sha256,
     kind: p.kind,
     detector: p.detector,
+    ...(p.filter !== undefined ? { filter: p.filter } : {}),
     ...(p.node !== undefined ? { node: p.node } : {}),
     ...(p.rowBand !== undefined ? { rowBand: p.rowBand } : {}),
     epoch: p.epoch,
@@ -234,16 +240,16 @@ function manifestOf(w: ReleaseWork, inputs: string, parameters: Record<string, u
  */
 export function verifyFrozen(root: string, r: ResolvedRelease): VerifiedArchive {
   const rel = r.release;
-  const seal = readSeal(root, rel.id);
+  const seal = readSeal(root, rel.key);
   const archive = verifyArchive(root, seal, rel);
   if (!isForwardOf(archive.sealedStatus as ReleaseStatus, rel.status as ReleaseStatus)) {
     const finish = rel.status === 'candidate' && archive.sealedStatus === 'published';
-    throw new KilnInputError(`release ${rel.id} is archived as ${archive.sealedStatus}; its status may only move forward (published → superseded → withdrawn)`, {
+    throw new KilnInputError(`release ${rel.key} is archived as ${archive.sealedStatus}; its status may only move forward (published → superseded → withdrawn)`, {
       file: rel.file,
       field: 'status',
       value: rel.status,
       expected: `${archive.sealedStatus}${archive.sealedStatus === 'withdrawn' ? '' : ' or a later status'}`,
-      todo: finish ? `if a publish was interrupted, \`kiln publish ${rel.id}\` finishes it` : `set status back to ${archive.sealedStatus}; to change the calibration make a new release`,
+      todo: finish ? `if a publish was interrupted, \`kiln publish ${rel.key}\` finishes it` : `set status back to ${archive.sealedStatus}; to change the calibration make a new release`,
     });
   }
   verifyFrozenInputs(r, seal);
@@ -349,18 +355,18 @@ export function verifyFrozenReleases(
   content: ContentTree,
   publishing?: string,
 ): { archives: Map<string, VerifiedArchive>; isFrozen: (r: ResolvedRelease) => boolean } {
-  const isFrozen = (r: ResolvedRelease) => r.release.id !== publishing && hasArchive(content.root, r.release.id);
+  const isFrozen = (r: ResolvedRelease) => r.release.key !== publishing && hasArchive(content.root, r.release.key);
   const archives = new Map<string, VerifiedArchive>();
   for (const r of content.releases) {
-    if (r.release.id === publishing) continue;
-    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.id))
-      throw new KilnInputError(`release ${r.release.id} has status ${r.release.status} but no archive`, {
+    if (r.release.key === publishing) continue;
+    if (FROZEN_STATUSES.has(r.release.status) && !hasArchive(content.root, r.release.key))
+      throw new KilnInputError(`release ${r.release.key} has status ${r.release.status} but no archive`, {
         file: r.release.file,
         field: 'status',
         value: r.release.status,
-        expected: `draft or candidate until \`kiln publish ${r.release.id}\` has frozen it`,
+        expected: `draft or candidate until \`kiln publish ${r.release.key}\` has frozen it`,
       });
-    if (isFrozen(r)) archives.set(r.release.id, verifyFrozen(content.root, r));
+    if (isFrozen(r)) archives.set(r.release.key, verifyFrozen(content.root, r));
   }
   return { archives, isFrozen };
 }
@@ -383,9 +389,11 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const content = await loadContent(opts.contentDir);
   const last = opts.publishing ?? opts.upTo;
   if (last !== undefined) {
-    const at = content.releases.findIndex((r) => r.release.id === last);
-    if (at < 0)
-      throw new KilnInputError('no such release', { file: opts.contentDir, value: last, expected: `one of ${content.releases.map((r) => r.release.id).join(', ')}` });
+    // `publishing` is a key (publish resolved the name); `upTo` is the name the user gave.
+    const target =
+      (opts.publishing !== undefined ? content.releases.find((r) => r.release.key === opts.publishing)?.release : undefined) ??
+      findReleaseByName(content.releases.map((r) => r.release), last, { file: opts.contentDir });
+    const at = content.releases.findIndex((r) => r.release === target);
     content.releases.splice(at + 1);
   }
   const { archives, isFrozen } = verifyFrozenReleases(content, opts.publishing);
@@ -412,7 +420,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   try {
     for (const r of content.releases) {
       const rel = r.release;
-      const dir = join(staging, 'releases', rel.id);
+      const dir = join(staging, 'releases', rel.key);
       mkdirSync(dir, { recursive: true });
       const inputs = inputsSha256(r);
       const frozen = isFrozen(r);
@@ -422,10 +430,10 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       let reexamined: ReexaminedCounts | undefined;
       let modelRef: ModelRef | null = null;
       // Predicted rates of the reference sources and the impact of the change from the superseded release.
-      const older = works.find((w) => w.r.release.id === rel.supersedes) ?? null;
+      const older = works.find((w) => w.r.release.key === rel.supersedesKey) ?? null;
       const spectralOf = (ps: ProductSummary[]) => {
-        const newerP = { id: rel.id, dir, products: ps };
-        const olderP = older ? { id: older.r.release.id, dir: older.dir, products: older.products } : null;
+        const newerP = { id: rel.key, dir, products: ps };
+        const olderP = older ? { id: older.r.release.key, dir: older.dir, products: older.products } : null;
         const s = cachedSpectral(ctx, spectralRoot, spectralUsed, r.instrument, newerP, olderP);
         if (s) {
           writeJson(join(dir, 'spectral.json'), s);
@@ -436,15 +444,15 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       if (frozen) {
         // Today's checks on the archived bytes, read-only: shown beside the published report.
         const supplements = new Map<string, DetectorSupplementDoc>();
-        const re = reexamineArchive(r, archives.get(rel.id)!, ctx.generator, supplements);
-        const served = serveArchive(r, archives.get(rel.id)!, dir, supplements);
+        const re = reexamineArchive(r, archives.get(rel.key)!, ctx.generator, supplements);
+        const served = serveArchive(r, archives.get(rel.key)!, dir, supplements);
         ({ products, checks } = served);
         parameters = served.parameters;
         modelRef = served.model;
-        log(`release ${rel.id} (${rel.status}): ${products.length} archived products verified`);
+        log(`release ${rel.key} (${rel.status}): ${products.length} archived products verified`);
         writeJson(join(dir, REEXAMINED_FILE), re);
         reexamined = re.counts;
-        log(`release ${rel.id} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
+        log(`release ${rel.key} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
         // A frozen release's validation report stays as archived; its impact is in spectral.json only.
         spectralOf(products);
       } else {
@@ -453,14 +461,17 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         writeJson(join(dir, MODEL_SCHEMA_FILE), MODEL_JSON_SCHEMA);
         modelRef = { path: MODEL_FILE, bytes: model.bytes, sha256: model.sha256 };
         const slots = await runReleaseJobs(r, jobs, dir, pool, ctx);
-        products = slots.flatMap((x) => x.products);
+        // Each product of a configured entry states its configuration (the finder and index select by it).
+        const confOf = new Map(r.detectors.map((d) => [d.id, d.configuration?.id]));
+        products = slots.flatMap((x) => x.products.map((p) => (confOf.get(p.detector) ? { ...p, filter: confOf.get(p.detector) } : p)));
         checks = slots.flatMap((x) => x.checks);
         nnz += slots.reduce((s, x) => s + x.nnz, 0);
-        const prev = works.length ? works[works.length - 1] : null;
+        // The review pairs a release with the one before it of the same instrument (ids are scoped by instrument).
+        const prev = [...works].reverse().find((w) => w.r.release.instrument === rel.instrument) ?? null;
         if (prev) checks.push(...crossReleaseChecks(prev.dir, prev.products, prev.r.release.id, dir, products, rel.id));
         const spectral = spectralOf(products);
         if (spectral) checks.push(...impactChecks(spectral, products));
-        checks = applySignOff(checks, rel.accepted, rel.id === opts.publishing ? (opts.acceptAll ?? null) : null);
+        checks = applySignOff(checks, rel.accepted, rel.key === opts.publishing ? (opts.acceptAll ?? null) : null);
         parameters = Object.fromEntries(slots.map((x) => [x.detectorId, { fits: x.fits, model: r.detectors.find((d) => d.id === x.detectorId)?.redistribution }]));
         // Checks go to their detector's document once the cross-release review has added its own.
         const byDet = checksByDetector(checks, products);
@@ -485,7 +496,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         model: modelRef,
         reexamined,
         outcome: {
-          id: rel.id,
+          id: rel.key,
           status: rel.status,
           source: frozen ? 'archive' : 'built',
           files: products.length,
@@ -497,7 +508,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       };
       writeJson(join(dir, 'manifest.json'), manifestOf(work, inputs, parameters));
       works.push(work);
-      log(`release ${rel.id} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`);
+      log(`release ${rel.key} (${rel.status}): ${counts.pass} passed, ${counts.fail} failed, ${counts.warn} warnings, ${counts.review} for review${counts.accepted ? `, ${counts.accepted} accepted` : ''}`);
     }
   } catch (e) {
     await pool.close();
@@ -554,7 +565,7 @@ async function runReleaseJobs(r: ResolvedRelease, jobs: DetectorJob[], dir: stri
   const take = (out: JobOutput, i: number, how: string) => {
     slots[i] = writeJobOutput(dir, rel.id, out);
     done++;
-    ctx.log(`release ${rel.id} (${rel.status}): detector ${slots[i].detectorId} ${how}, ${out.meta.files.length} products, ${out.meta.nnz} matrix elements [${done}/${tasks.length}, ${((performance.now() - t0) / 1000).toFixed(1)} s]`);
+    ctx.log(`release ${rel.key} (${rel.status}): detector ${slots[i].detectorId} ${how}, ${out.meta.files.length} products, ${out.meta.nnz} matrix elements [${done}/${tasks.length}, ${((performance.now() - t0) / 1000).toFixed(1)} s]`);
   };
   const toRun: number[] = [];
   tasks.forEach((t, i) => {

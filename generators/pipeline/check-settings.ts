@@ -44,9 +44,11 @@ export function defaultCheckSettings(detectors = 1): CheckSettings {
 
 export function checkSettingsOf(r: ResolvedRelease, detectorId: string): CheckSettings {
   const c = r.release.checks;
+  // A stated reason names the detector; it holds for each of its configurations.
+  const hardware = r.detectors.find((d) => d.id === detectorId)?.configuration?.detector ?? detectorId;
   const reasons: Partial<Record<ProfileParameter, string>> = {};
   for (const x of c?.extrapolation ?? []) {
-    if (x.detector !== detectorId) continue;
+    if (x.detector !== detectorId && x.detector !== hardware) continue;
     for (const p of x.parameter === 'all' ? (['fwhm', 'centroid', 'tail', 'shelf'] as const) : [x.parameter]) reasons[p] = x.reason;
   }
   return {

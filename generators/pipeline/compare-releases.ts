@@ -2,18 +2,45 @@
  * kiln compare: two release ids (read from a build's output) or two product files. Node layer:
  * reads the files, then hands the data to the pure tables in generators/compare/.
  */
+import { existsSync, readFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
+import { findReleaseByName } from '../content/release-key.ts';
 import { compareArf, compareRmf } from '../checks/index.ts';
 import { arfDiffTable, parameterDiffs, rmfDiffTable, type ComparedPair, type CompareReport } from '../compare/index.ts';
 import { KilnInputError } from '../errors.ts';
 import { readFitsFile } from '../node/index.ts';
 import { identifyProduct, readArf, readRmf } from '../ogip/index.ts';
-import type { ReleaseSite, ReleaseSpectral } from '../site-data/types.ts';
+import type { ReleaseIndex, ReleaseSite, ReleaseSpectral } from '../site-data/types.ts';
 import { SPECTRAL_FILE } from '../content/schema.ts';
 import type { Instrument } from '../content/types.ts';
 import { releaseSpectral } from './impact.ts';
 import { arfValidOn } from './validity.ts';
 import { hasReleaseSummary, readReleaseSite } from './site-files.ts';
+
+/**
+ * The key of a release named on the command line (key, instrument~id, or a bare id that only one
+ * instrument uses), from the build's index; the name itself when the output has no index.
+ */
+export function builtReleaseKey(outDir: string, name: string): { key: string; instrument: string | null } {
+  const file = join(outDir, 'index.json');
+  if (!existsSync(file)) return { key: name, instrument: null };
+  const index = JSON.parse(readFileSync(file, 'utf8')) as ReleaseIndex;
+  const r = findReleaseByName(index.releases.map((x) => ({ ...x, key: x.key ?? x.id })), name, { file });
+  return { key: r.key, instrument: r.instrument };
+}
+
+/** Both releases of a comparison, by key; a pair of two instruments is refused (its products describe different hardware). */
+export function comparedKeys(outDir: string, a: string, b: string): [string, string] {
+  const ka = builtReleaseKey(outDir, a);
+  const kb = builtReleaseKey(outDir, b);
+  if (ka.instrument !== null && kb.instrument !== null && ka.instrument !== kb.instrument)
+    throw new KilnInputError(`releases of two instruments cannot be compared (${ka.instrument} and ${kb.instrument})`, {
+      file: join(outDir, 'index.json'),
+      value: `${a} (${ka.instrument}) and ${b} (${kb.instrument})`,
+      expected: 'two releases of the same instrument (or two product files, compared as files)',
+    });
+  return [ka.key, kb.key];
+}
 
 function readSite(outDir: string, id: string): ReleaseSite {
   const dir = join(outDir, 'releases', id);
@@ -23,7 +50,8 @@ function readSite(outDir: string, id: string): ReleaseSite {
 }
 
 
-export function compareReleases(outDir: string, idA: string, idB: string): CompareReport {
+export function compareReleases(outDir: string, nameA: string, nameB: string): CompareReport {
+  const [idA, idB] = comparedKeys(outDir, nameA, nameB);
   const A = readSite(outDir, idA);
   const B = readSite(outDir, idB);
   const dir = (id: string) => join(outDir, 'releases', id);
@@ -86,7 +114,8 @@ export function compareFiles(fileA: string, fileB: string): CompareReport {
  * B's responses and fitted with both (the build's impact, for any pair). The sources and spectral
  * settings come from the content tree the releases were built from.
  */
-export function compareImpact(outDir: string, instrument: Instrument, idA: string, idB: string, log: (line: string) => void = () => {}): ReleaseSpectral {
+export function compareImpact(outDir: string, instrument: Instrument, nameA: string, nameB: string, log: (line: string) => void = () => {}): ReleaseSpectral {
+  const [idA, idB] = comparedKeys(outDir, nameA, nameB);
   const A = readSite(outDir, idA);
   const B = readSite(outDir, idB);
   if (!instrument.spectral || !(instrument.sources ?? []).length)

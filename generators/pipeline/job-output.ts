@@ -4,6 +4,7 @@
  * fits). This is the unit the cache stores, a shard hands over and the build consumes, so a job
  * read back gives the same output bytes as a job just run.
  */
+import { qualifiedReleaseName } from '../content/release-key.ts';
 import { gzipSync } from 'node:zlib';
 import type { Check, DetectorSite, ParameterRow, ProductKind } from '../site-data/types.ts';
 import { canonicalJson, sha256Hex } from './hash.ts';
@@ -59,7 +60,8 @@ export interface JobOutput {
   gz: Uint8Array[];
 }
 
-export const jobIdOf = (job: DetectorJob): string => `${job.release.id}/${job.detector.id}`;
+/** `<instrument>~<release id>/<detector>`: release ids are scoped by instrument. */
+export const jobIdOf = (job: DetectorJob): string => `${qualifiedReleaseName(job.instrument.id, job.release.id)}/${job.detector.id}`;
 
 /**
  * A job's input fingerprint: everything it is made from (release fields, instrument grids and

@@ -60,8 +60,10 @@ export const planDigest = (generator: string, jobs: PlannedJob[]): string =>
 export function planOf(content: ContentTree): { plan: BuildPlan; tasks: JobTask[] } {
   const { isFrozen } = verifyFrozenReleases(content);
   const generator = generatorVersion();
-  const tasks: JobTask[] = content.releases.filter((r) => !isFrozen(r)).flatMap((r) => modelJobs(r).jobs.map((job) => ({ job, fingerprint: jobFingerprint(job, generator), generator })));
-  const jobs = tasks.map((t) => ({ id: jobIdOf(t.job), release: t.job.release.id, detector: t.job.detector.id, fingerprint: t.fingerprint }));
+  const keyed = content.releases.filter((r) => !isFrozen(r)).flatMap((r) => modelJobs(r).jobs.map((job) => ({ key: r.release.key, task: { job, fingerprint: jobFingerprint(job, generator), generator } })));
+  const tasks: JobTask[] = keyed.map((k) => k.task);
+  // `release` is the release's key (its folder name), as in the build output.
+  const jobs = keyed.map(({ key, task: t }) => ({ id: jobIdOf(t.job), release: key, detector: t.job.detector.id, fingerprint: t.fingerprint }));
   return { plan: { schema: PLAN_SCHEMA, generator, planSha256: planDigest(generator, jobs), content: content.root, jobs }, tasks };
 }
 

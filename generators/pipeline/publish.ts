@@ -15,6 +15,7 @@ import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSy
 import { join, relative, resolve } from 'node:path';
 import { tmpdir } from 'node:os';
 import { loadContent } from '../content/index.ts';
+import { findReleaseByName } from '../content/release-key.ts';
 import { withStatus } from '../content/status-line.ts';
 import type { ResolvedRelease } from '../content/types.ts';
 import { inTermsOf, KilnInputError } from '../errors.ts';
@@ -82,12 +83,12 @@ function markPublished(root: string, r: ResolvedRelease): void {
  * superseded (atomic write; its archive is never touched). Returns its id when it changed.
  */
 function markSuperseded(root: string, releases: ResolvedRelease[], r: ResolvedRelease): string | null {
-  const old = r.release.supersedes ? releases.find((x) => x.release.id === r.release.supersedes) : undefined;
+  const old = r.release.supersedesKey ? releases.find((x) => x.release.key === r.release.supersedesKey) : undefined;
   if (!old || old.release.status !== 'published') return null;
   const next = withStatus(readFileSync(old.release.file, 'utf8'), 'superseded');
   if (next === null) throw noStatusLine(old);
   writeContentFile(root, old.release.file, next, 'publish:supersede-temp');
-  return old.release.id;
+  return old.release.key;
 }
 
 function noStatusLine(r: ResolvedRelease): KilnInputError {
@@ -112,50 +113,52 @@ export async function publish(opts: PublishOptions): Promise<PublishResult> {
 
 async function publishLocked(contentDir: string, opts: PublishOptions): Promise<PublishResult> {
   // Litter of killed publishes: staging copies in the archive, temp build folders, release.yaml temps.
-  removeStale(join(contentDir, ARCHIVE_DIR), `.${opts.id}.staging-`, (p) => rmSync(p, { recursive: true, force: true }));
   removeStale(tmpdir(), TEMP_PREFIX, (p) => rmSync(p, { recursive: true, force: true }));
   const content = await loadContent(contentDir);
-  const r = content.releases.find((x) => x.release.id === opts.id);
-  if (!r) throw new KilnInputError('no such release', { file: contentDir, value: opts.id, expected: `one of ${content.releases.map((x) => x.release.id).join(', ')}` });
+  const target = findReleaseByName(content.releases.map((x) => x.release), opts.id, { file: contentDir });
+  const r = content.releases.find((x) => x.release === target)!;
+  // From here on the release is named by its key (its folder: the id, or instrument~id).
+  const key = r.release.key;
+  removeStale(join(contentDir, ARCHIVE_DIR), `.${key}.staging-`, (p) => rmSync(p, { recursive: true, force: true }));
   removeStaleTemps(r.release.file);
-  const archiveDir = archiveDirOf(contentDir, opts.id);
+  const archiveDir = archiveDirOf(contentDir, key);
   const status = r.release.status;
 
-  if (hasArchive(contentDir, opts.id)) {
+  if (hasArchive(contentDir, key)) {
     // Verifies the seal, every byte and the inputs; a status moved backwards is refused there,
     // except candidate over a published archive: the one state an interrupted publish leaves.
     if (status === 'candidate') {
       verifyFrozen(contentDir, { ...r, release: { ...r.release, status: 'published' } });
       const superseded = markSuperseded(contentDir, content.releases, r);
       markPublished(contentDir, r);
-      opts.log?.(`release ${opts.id}: archive complete and verified; finished the interrupted publish`);
-      return { release: opts.id, archiveDir, files: readdirSync(join(archiveDir, 'files')).length, statusChanged: true, resumed: true, superseded, accepted: 0 };
+      opts.log?.(`release ${key}: archive complete and verified; finished the interrupted publish`);
+      return { release: key, archiveDir, files: readdirSync(join(archiveDir, 'files')).length, statusChanged: true, resumed: true, superseded, accepted: 0 };
     }
     verifyFrozen(contentDir, r);
-    throw new KilnInputError(`release ${opts.id} is already published; a published release is never rewritten`, {
+    throw new KilnInputError(`release ${key} is already published; a published release is never rewritten`, {
       file: archiveDir,
       expected: 'a new release (new id) for any change',
     });
   }
   if (status !== 'candidate' && status !== 'published')
-    throw new KilnInputError(`release ${opts.id} is a ${status}; only a candidate is published`, { file: r.release.file, field: 'status', value: status, expected: 'candidate' });
+    throw new KilnInputError(`release ${key} is a ${status}; only a candidate is published`, { file: r.release.file, field: 'status', value: status, expected: 'candidate' });
   if (status === 'candidate' && withStatus(readFileSync(r.release.file, 'utf8'), 'published') === null) throw noStatusLine(r);
 
   const tmp = mkdtempSync(join(tmpdir(), `${TEMP_PREFIX}${process.pid}-`));
-  const staged = join(contentDir, ARCHIVE_DIR, `.${opts.id}.staging-${process.pid}`);
+  const staged = join(contentDir, ARCHIVE_DIR, `.${key}.staging-${process.pid}`);
   try {
     const out = join(tmp, 'out');
     // Refuses (BuildRefused) when the release fails a check.
-    const summary = await build({ contentDir, outDir: out, publishing: opts.id, log: opts.log, acceptAll: opts.acceptAll });
-    const outcome = summary.releases.find((x) => x.id === opts.id)!;
+    const summary = await build({ contentDir, outDir: out, publishing: key, log: opts.log, acceptAll: opts.acceptAll });
+    const outcome = summary.releases.find((x) => x.id === key)!;
     if (outcome.reviews.length)
       throw new ReviewOpen(
-        `${formatReleaseReport(`release ${opts.id} has ${plural(outcome.reviews.length, 'review item')} nobody accepted:`, outcome.all, { only: ['review'] })}\n` +
+        `${formatReleaseReport(`release ${key} has ${plural(outcome.reviews.length, 'review item')} nobody accepted:`, outcome.all, { only: ['review'] })}\n` +
           'accept each in release.yaml (accepted: - { check, product, reason, role }) or publish with --accept-all --reason TEXT',
         summary.releases,
       );
     reached('publish:built');
-    const built = join(out, 'releases', opts.id);
+    const built = join(out, 'releases', key);
     rmSync(staged, { recursive: true, force: true });
     mkdirSync(join(staged, 'files'), { recursive: true });
     for (const name of readdirSync(join(built, 'files')).sort()) writeFileSynced(join(staged, 'files', name), readFileSync(join(built, 'files', name)));
@@ -176,7 +179,7 @@ async function publishLocked(contentDir: string, opts: PublishOptions): Promise<
     });
     const unsigned: Omit<SealV2, 'sealSha256'> = {
       schema: SEAL_V2,
-      release: opts.id,
+      release: r.release.id,
       date: r.release.date,
       status: 'published',
       inputsSha256: inputsSha256(r),
@@ -194,7 +197,7 @@ async function publishLocked(contentDir: string, opts: PublishOptions): Promise<
     // The old release first: a publish cut off in between resumes (candidate over its archive).
     const superseded = markSuperseded(contentDir, content.releases, r);
     if (status === 'candidate') markPublished(contentDir, r);
-    return { release: opts.id, archiveDir, files: files.length, statusChanged: status === 'candidate', resumed: false, superseded, accepted: unsigned.signOff?.length ?? 0 };
+    return { release: key, archiveDir, files: files.length, statusChanged: status === 'candidate', resumed: false, superseded, accepted: unsigned.signOff?.length ?? 0 };
   } finally {
     rmSync(staged, { recursive: true, force: true });
     rmSync(tmp, { recursive: true, force: true });

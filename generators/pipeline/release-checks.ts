@@ -21,7 +21,8 @@ export async function releaseChecks(opts: { contentDir: string; id: string; log?
       if (!(e instanceof BuildRefused)) throw e;
       outcomes = e.outcomes;
     }
-    return outcomes.find((o) => o.id === opts.id)!;
+    // The build stops after the named release (resolved there: key, instrument~id or bare id), so it is the last.
+    return outcomes[outcomes.length - 1];
   } finally {
     rmSync(tmp, { recursive: true, force: true });
   }

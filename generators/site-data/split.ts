@@ -267,13 +267,16 @@ export function detectorForCompare(model: DetectorModelDoc, area: DetectorAreaDo
 export function finderDocuments(index: ReleaseIndex): SiteDocument[] {
   const out: SiteDocument[] = [];
   for (const inst of index.instruments)
-    for (const det of inst.detectors) {
-      const releases = index.releases
-        .filter((r) => r.instrument === inst.id)
-        .map((r) => ({ ...r, products: r.products.filter((p) => p.detector === det.id) }))
-        .filter((r) => r.products.length > 0);
-      const doc: FinderDetectorDoc = { schema: 'kiln/finder-detector/1', instrument: inst.id, detector: det.id, releases };
-      out.push({ path: finderPath(inst.id, det.id), doc });
-    }
+    for (const det of inst.detectors)
+      // One document per detector and configuration: a file of another filter is never in it.
+      for (const conf of inst.configurations ?? [null]) {
+        const entry = conf ? `${det.id}.${conf.id}` : det.id;
+        const releases = index.releases
+          .filter((r) => r.instrument === inst.id)
+          .map((r) => ({ ...r, products: r.products.filter((p) => p.detector === entry) }))
+          .filter((r) => r.products.length > 0);
+        const doc: FinderDetectorDoc = { schema: 'kiln/finder-detector/1', instrument: inst.id, detector: entry, ...(conf ? { filter: conf.id } : {}), releases };
+        out.push({ path: finderPath(inst.id, entry), doc });
+      }
   return out;
 }

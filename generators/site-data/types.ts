@@ -3,7 +3,8 @@
  * shows comes from these JSON documents, which the build writes and the pages only read.
  * Each array of values is aligned with the energy grid named beside it. Units are in the names.
  *
- * Layout written by `kiln build --out DIR` (default `.kiln/out`):
+ * Layout written by `kiln build --out DIR` (default `.kiln/out`); `<id>` in a path is the release's
+ * key, its folder name (the id, or `<instrument>~<id>`: content/release-key.ts):
  *   DIR/index.json                         ReleaseIndex
  *   DIR/finder/<instrument>/<det>.json     FinderDetectorDoc (one detector's files across releases, for the finder)
  *   DIR/releases/<id>/manifest.json        ReleaseManifest
@@ -16,6 +17,7 @@
  *   DIR/releases/<id>/detectors/<det>/checks.json        DetectorChecksDoc (checks of the detector's products)
  *   DIR/releases/<id>/detectors/<det>/epochs/<ep>.json   EpochDataDoc      (ARF side: one epoch's area and efficiency)
  *   DIR/releases/<id>/detectors/<det>/area.json          DetectorAreaDoc   (every epoch's effective area alone, for comparisons)
+ *   DIR/releases/<id>/detectors/<det>/supplement.json    DetectorSupplementDoc (archived releases: curves their site data predate)
  *   DIR/releases/<id>/spectral.json                      ReleaseSpectral (reference sources: predicted rates, impact)
  *   DIR/releases/<id>/files/<file>         the products (FITS, gzip-compressed: *.rmf.gz, *.arf.gz)
  */
@@ -50,6 +52,11 @@ export interface InstrumentSummary {
   description: string;
   detectors: DetectorSummary[];
   channels: number;
+  /**
+   * Named configurations (filter positions), when the instrument declares them: products of
+   * detector D in configuration C have detector `D.C` and `filter: C`.
+   */
+  configurations?: { id: string; title: string; filter: string }[];
 }
 
 export interface ProductSummary {
@@ -57,6 +64,8 @@ export interface ProductSummary {
   id: string;
   kind: ProductKind;
   detector: string;
+  /** Configuration (filter position) id of an instrument with configurations; absent otherwise. */
+  filter?: string;
   /** Readout node and row band of a per-region product; absent for a whole-detector product. */
   node?: string;
   rowBand?: string;
@@ -76,6 +85,13 @@ export interface ProductSummary {
 export interface ReleaseSummary {
   id: string;
   instrument: string;
+  /**
+   * Where the release lives: its folder name under releases/ (build output, archive, site URLs
+   * /releases/<key>/ and /data/releases/<key>/), the id or `<instrument>~<id>`.
+   */
+  key: string;
+  /** Key of the release it supersedes (same instrument), or null. */
+  supersedesKey: string | null;
   title: string;
   date: string;
   status: ReleaseStatus;
@@ -417,7 +433,7 @@ export interface OverlayDetector {
   regions?: OverlayRegion[];
 }
 
-/** releases/<id>/overlay.json: what the release page's overlay plots fetch (one small document for all detectors). */
+/** releases/<id>/overlay.json: what the release page's overlay plots fetch (one small document for all detectors); `release` is the id, as in the other documents. */
 export interface ReleaseOverlayDoc {
   schema: 'kiln/release-overlay/1';
   release: string;
@@ -506,7 +522,10 @@ export interface DetectorAreaDoc {
 export interface FinderDetectorDoc {
   schema: 'kiln/finder-detector/1';
   instrument: string;
+  /** The detector's entry id: `D.C` for detector D in configuration C of an instrument with configurations. */
   detector: string;
+  /** Configuration id, for an instrument with configurations. */
+  filter?: string;
   /** Newest first, as in the index; products filtered to this detector. */
   releases: ReleaseSummary[];
 }

@@ -279,8 +279,11 @@ export const overlayRegionLabel = (d: OverlayDet, g: OverlayReg): string => `${d
  */
 export const OVERLAY_MAX_REGION_CURVES = 16;
 
-/** One overlay plot: a curve per detector in its own colour, each region's curve in its detector's colour, dashed. Null when no detector has the curve. */
-export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec | null {
+/**
+ * One overlay plot: a curve per detector in its own colour, each region's curve in its detector's colour, dashed. Null when no detector has the curve.
+ * `release` names the release in the title as the page addresses it (its key, `<instrument>~<id>` where two instruments share the id); default the document's id.
+ */
+export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind, release: string = doc.release): PlotSpec | null {
   const a = OVERLAY_AXES[kind];
   const series: SeriesSpec[] = [];
   const regionCurves = doc.detectors.reduce((n, d) => n + (d.regions ?? []).filter((g) => overlayRegionCurveOf(g, kind)).length, 0);
@@ -302,7 +305,7 @@ export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec
   if (!series.length) return null;
   return {
     id: `ov-${kind}`,
-    title: `All detectors: ${a.title} (release ${doc.release})`,
+    title: `All detectors: ${a.title} (release ${release})`,
     widthPx: W,
     heightPx: H,
     x: { label: 'Energy', unit: 'keV', scale: 'log', toggle: true },
@@ -314,10 +317,10 @@ export function overlayPlot(doc: ReleaseOverlayDoc, kind: OverlayKind): PlotSpec
 }
 
 /** Every overlay plot the document has data for, by figure id. */
-export function overlayPlots(doc: ReleaseOverlayDoc): Map<string, PlotSpec> {
+export function overlayPlots(doc: ReleaseOverlayDoc, release: string = doc.release): Map<string, PlotSpec> {
   const out = new Map<string, PlotSpec>();
   for (const k of OVERLAY_KINDS) {
-    const p = overlayPlot(doc, k);
+    const p = overlayPlot(doc, k, release);
     if (p) out.set(p.id, p);
   }
   return out;

@@ -21,7 +21,8 @@ export function fetchJson<T>(url: string): Promise<T> {
   return p as Promise<T>;
 }
 
-export const fetchSummary = (releaseId: string): Promise<ReleaseSummaryDoc> => fetchJson(siteDataBase(releaseId) + SUMMARY_FILE);
+/** A release's summary by its key; `id` becomes the key, so labels and data paths name the release unambiguously (instrument~id where ids are shared). */
+export const fetchSummary = (releaseKey: string): Promise<ReleaseSummaryDoc> => fetchJson<ReleaseSummaryDoc>(siteDataBase(releaseKey) + SUMMARY_FILE).then((s) => ({ ...s, id: releaseKey }));
 
 export interface DetectorParts {
   profiles?: boolean;
@@ -45,6 +46,12 @@ export async function fetchDetector(releaseId: string, detector: string, parts: 
   const joined = joinModel(model, <T,>(p: string) => got.get(p) as T, { matrix: false, profiles: parts.profiles, checks: parts.checks, epochs: parts.epochs });
   // An archive's curves computed at this build beside its published ones.
   return model.supplement ? { ...joined, site: withSupplement(joined.site, got.get(supplementPath(detector)) as DetectorSupplementDoc) } : joined;
+}
+
+/** Release key of a data address (".../data/releases/<key>/..."), as siteDataBase builds it. */
+export function parseReleaseSrc(src: string): string | null {
+  const m = /\/data\/releases\/([^/]+)\//.exec(src);
+  return m ? decodeURIComponent(m[1]) : null;
 }
 
 /** Release id and detector id of a figure's data-spec-src (".../data/releases/<id>/detectors/<det>/"). */

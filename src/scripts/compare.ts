@@ -7,6 +7,7 @@ import { areaPath, checksPath, modelPath, siteDataBase } from '../../generators/
 import { compareHtml, compareSide, shownDetectors, type CompareDetectorDocs } from '../lib/compare/index.ts';
 import { fetchJson, fetchSummary } from '../lib/site-fetch.ts';
 import { esc } from '../lib/escape.ts';
+import { crossInstrumentNote } from '../lib/compare/render.ts';
 import type { ReleaseSummaryDoc } from '../../generators/site-data/types.ts';
 import { initPlots } from './plots.ts';
 import { impactTablesHtml, prebuiltImpactHtml } from '../lib/compare/impact.ts';
@@ -121,7 +122,7 @@ export function initCompare(): void {
       const [da, db] = await Promise.all([sideDocs(sa, dets), sideDocs(sb, dets)]);
       const A = compareSide(sa, da);
       const B = compareSide(sb, db);
-      body!.innerHTML = compareHtml(A.site, B.site, A.report, B.report);
+      body!.innerHTML = crossInstrumentNote(sa, sb) + compareHtml(A.site, B.site, A.report, B.report);
       initPlots(body!);
       impactFor(sa, sb, dets, da, db);
       shown = key;

@@ -8,7 +8,7 @@ import type { JoinedDetector } from '../../generators/site-data/split.ts';
 import type { ReleaseOverlayDoc } from '../../generators/site-data/types.ts';
 import { OVERLAY_FILE } from '../../generators/site-data/paths.ts';
 import { componentsPlot, detectorPlots, overlayPlots, PICKED_PROFILE_DASH, profileColour } from '../lib/release-plots.ts';
-import { fetchDetector, fetchJson, parseDetectorSrc } from '../lib/site-fetch.ts';
+import { fetchDetector, fetchJson, parseDetectorSrc, parseReleaseSrc } from '../lib/site-fetch.ts';
 import { esc, fmt4, type PlotSpec, type SeriesSpec } from '../lib/plot/index.ts';
 import { formatBytes } from '../lib/downloads.ts';
 import { initPlots, loadNow, replacePlot, updatePlot } from './plots.ts';
@@ -40,7 +40,8 @@ const overlays = new Map<string, Promise<Map<string, PlotSpec>>>();
 function overlaySpecs(src: string): Promise<Map<string, PlotSpec>> {
   let p = overlays.get(src);
   if (!p) {
-    p = fetchJson<ReleaseOverlayDoc>(src).then(overlayPlots);
+    // Titles name the release by the key in its address, as the page rendered them.
+    p = fetchJson<ReleaseOverlayDoc>(src).then((doc) => overlayPlots(doc, parseReleaseSrc(src) ?? doc.release));
     overlays.set(src, p);
     p.catch(() => overlays.delete(src));
   }

@@ -16,9 +16,10 @@ import { contentPages } from './support/release-pages.ts';
 
 requireDist();
 const index = JSON.parse(readFileSync(join(DIST, 'data', 'index.json'), 'utf8')) as ReleaseIndex;
-const overlayOf = (id: string) => JSON.parse(readFileSync(join(DIST, 'data', 'releases', id, 'overlay.json'), 'utf8')) as ReleaseOverlayDoc;
+// Releases by key: where the site and the build keep them (the demo's keys are its ids).
+const overlayOf = (key: string) => JSON.parse(readFileSync(join(DIST, 'data', 'releases', key, 'overlay.json'), 'utf8')) as ReleaseOverlayDoc;
 // The newest release with per-node curves: every overlay plot, node curves included.
-const id = index.releases.map((r) => r.id).find((r) => overlayOf(r).detectors.some((d) => (d.regions ?? []).length > 0))!;
+const id = index.releases.map((r) => r.key).find((r) => overlayOf(r).detectors.some((d) => (d.regions ?? []).length > 0))!;
 const doc = overlayOf(id);
 const curves = (withRegions: boolean) => doc.detectors.length + (withRegions ? doc.detectors.reduce((n, d) => n + (d.regions?.length ?? 0), 0) : 0);
 /** Plot id → curves expected and axis titles (what src/lib/release-plots.ts states for each). */
@@ -32,7 +33,7 @@ const EXPECTED: Record<string, { n: number; x: string; y: string }> = {
   'ov-ea': { n: curves(false), x: 'Energy (keV)', y: 'Effective area (cm²)' },
 };
 // A detector page of a release publishing whole-detector matrices (refit markers) with line fits.
-const detRelease = index.releases.map((r) => r.id).find((r) => r !== id && overlayOf(r).detectors.some((d) => d.efficiency))!;
+const detRelease = index.releases.map((r) => r.key).find((r) => r !== id && overlayOf(r).detectors.some((d) => d.efficiency))!;
 const detPage = contentPages(detRelease)[0];
 const detId = overlayOf(detRelease).detectors[0].id;
 const detModel = JSON.parse(readFileSync(join(DIST, 'data', 'releases', detRelease, 'detectors', detId, 'model.json'), 'utf8')) as DetectorModelDoc;

@@ -190,11 +190,11 @@ describe('finder page', () => {
     const { page } = await open(`/finder/?detector=${det}&date=${date}`);
     const rows = page.locator('#finder-hits tbody tr');
     expect(await rows.count()).toBeGreaterThan(0);
-    const statuses = await page.$$eval('#finder-hits tbody tr td:nth-child(2)', (t) => t.map((x) => x.textContent?.trim()));
+    const statuses = await page.$$eval('#finder-hits tbody tr td[data-label="Status"]', (t) => t.map((x) => x.textContent?.trim()));
     const rank = ['published', 'candidate', 'superseded', 'withdrawn'];
     const ranks = statuses.map((s) => rank.indexOf(s!));
     expect([...ranks].sort((a, b) => a - b)).toEqual(ranks);
-    const warned = await page.$$eval('#finder-hits tbody tr', (trs) => trs.map((t) => [t.children[1].textContent?.trim(), /warning/.test(t.querySelector('td.note')?.textContent ?? '')]));
+    const warned = await page.$$eval('#finder-hits tbody tr', (trs) => trs.map((t) => [t.querySelector('td[data-label="Status"]')?.textContent?.trim(), /warning/.test(t.querySelector('td.note')?.textContent ?? '')]));
     for (const [s, w] of warned) expect(w).toBe(s === 'superseded' || s === 'withdrawn');
     await page.screenshot({ path: `${SHOTS}/finder-result.png`, fullPage: true });
     await page.close();
@@ -301,7 +301,7 @@ describe('archived releases re-examined with current checks', () => {
       expect(rows).toEqual(doc.findings.map((f) => [f.status, f.id]));
       await page.close();
       const home = await open('/');
-      const link = await home.page.$eval(`#releases a[href="/releases/${r.id}/#reexamined"]`, (a) => a.textContent ?? '');
+      const link = await home.page.$eval(`.releases a[href="/releases/${r.id}/#reexamined"]`, (a) => a.textContent ?? '');
       expect(link).toContain(`${r.reexamined!.warn} warn since publication`);
       await home.page.close();
       expect([...problems, ...home.problems]).toEqual([]);

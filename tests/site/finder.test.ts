@@ -12,7 +12,7 @@ const prod = (det: string, from: string, to: string | null, kind: 'rmf' | 'arf' 
   id: `${det}-${from}-${kind}`, kind, detector: det, epoch: 'e', path: `files/${det}.${kind}.gz`, bytes: 1, sha256: '0'.repeat(64), validFrom: from, validTo: to,
 });
 const rel = (id: string, status: ReleaseStatus, date: string, products: ProductSummary[], supersedes: string | null = null): ReleaseSummary => ({
-  id, instrument: 'x', title: id, date, status, validFrom: '2020-01-01', validTo: null, supersedes, checks: { pass: 0, fail: 0, warn: 0, review: 0 }, products,
+  id, instrument: 'x', key: id, supersedesKey: supersedes, title: id, date, status, validFrom: '2020-01-01', validTo: null, supersedes, checks: { pass: 0, fail: 0, warn: 0, review: 0 }, products,
 });
 const index: ReleaseIndex = {
   schema: 'kiln/release-index/1',

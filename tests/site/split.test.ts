@@ -66,7 +66,7 @@ describe('split and join', () => {
 
 describe('finder documents', () => {
   it('one per detector, with only its files, releases without any left out', () => {
-    const summary = (id: string, ps: ProductSummary[]) => ({ id, instrument: 'inst', title: '', date: '2026-01-01', status: 'published' as const, validFrom: '2026-01-01', validTo: null, supersedes: null, checks: { pass: 0, fail: 0, warn: 0, review: 0 }, products: ps });
+    const summary = (id: string, ps: ProductSummary[]) => ({ id, instrument: 'inst', key: id, supersedesKey: null, title: '', date: '2026-01-01', status: 'published' as const, validFrom: '2026-01-01', validTo: null, supersedes: null, checks: { pass: 0, fail: 0, warn: 0, review: 0 }, products: ps });
     const index: ReleaseIndex = {
       schema: 'kiln/release-index/1',
       instruments: [{ id: 'inst', telescope: '', instrument: '', title: '', description: '', channels: 1, detectors: ['a', 'b'].map((id) => ({ id, name: id, kind: '', description: '' })) }],

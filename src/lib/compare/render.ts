@@ -158,6 +158,12 @@ function validationHtml(a: ReleaseSite, b: ReleaseSite, va: ValidationReport, vb
   return out.join('');
 }
 
+/** A pair of two instruments is shown, but said to be one before any number: their products describe different hardware. */
+export function crossInstrumentNote(a: { id: string; instrument: string }, b: { id: string; instrument: string }): string {
+  if (a.instrument === b.instrument) return '';
+  return `<p class="callout" id="cmp-cross-instrument"><strong>Different instruments:</strong> A = ${esc(a.id)} is a release of ${esc(a.instrument)}, B = ${esc(b.id)} of ${esc(b.instrument)}. Their differences are not a change of calibration; the build never reviews such a pair.</p>`;
+}
+
 /** Default pair: the newest release against the one it supersedes (else the next older). */
 export function defaultPair(ids: { id: string; supersedes: string | null }[]): [string, string] | null {
   if (ids.length < 2) return null;

@@ -5,7 +5,7 @@ import { matrixPixels } from '../../../lib/matrix.ts';
 import { encodePng } from '../../../lib/png/index.ts';
 
 export const getStaticPaths: GetStaticPaths = () =>
-  loadIndex().releases.flatMap((r) => loadSummary(r.id).detectors.map((d) => ({ params: { id: r.id, det: d.id } })));
+  loadIndex().releases.flatMap((r) => loadSummary(r.key).detectors.map((d) => ({ params: { id: r.key, det: d.id } })));
 
 export const GET: APIRoute = ({ params }) => {
   const { matrix } = loadDetector(params.id as string, params.det as string).site;
