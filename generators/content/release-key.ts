@@ -36,7 +36,8 @@ export function findReleaseByName<T extends NamedRelease>(releases: readonly T[]
     throw new KilnInputError(`release id ${name} is used by ${byId.length} instruments`, {
       ...where,
       value: name,
-      expected: `an instrument-qualified name: ${byId.map((r) => qualifiedReleaseName(r.instrument, r.id)).join(', ')}`,
+      // Sorted, so the message is the same whether the list came from the content tree (oldest first) or the index (newest first).
+      expected: `an instrument-qualified name: ${byId.map((r) => qualifiedReleaseName(r.instrument, r.id)).sort().join(', ')}`,
     });
   const exact = releases.find((r) => r.key === name || qualifiedReleaseName(r.instrument, r.id) === name);
   if (exact) return exact;
