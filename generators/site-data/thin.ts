@@ -4,6 +4,7 @@
  * coordinates normalised to the curve's own span (x on a log axis; y linear or log), so steps at
  * absorption edges survive while smooth stretches shrink to a few points. Pure, browser-safe.
  */
+import { log } from '../numeric/index.ts';
 
 export interface ThinOptions {
   /** Largest deviation of a dropped point from the drawn line, as a fraction of the plot's span. */
@@ -18,11 +19,11 @@ export function thinIndices(x: readonly number[], ys: readonly (readonly number[
   if (n <= 2) return [...Array(n).keys()];
   const keep = new Uint8Array(n);
   keep[0] = keep[n - 1] = 1;
-  const lx = x.map((v) => Math.log(v));
+  const lx = x.map((v) => log(v));
   const xSpan = lx[n - 1] - lx[0] || 1;
   const px = lx.map((v) => (v - lx[0]) / xSpan);
   for (const y of ys) {
-    const ty = y.map((v) => (opts.yLog ? (v > 0 ? Math.log(v) : NaN) : v));
+    const ty = y.map((v) => (opts.yLog ? (v > 0 ? log(v) : NaN) : v));
     // Non-finite values break the line: keep them and their neighbours, thin each finite run alone.
     const finite = ty.filter(Number.isFinite);
     const span = finite.length ? Math.max(...finite) - Math.min(...finite) || 1 : 1;
@@ -55,7 +56,8 @@ function rdp(px: readonly number[], py: readonly number[], a0: number, b0: numbe
     let worstD = tol2;
     for (let i = a + 1; i < b; i++) {
       // Vertical distance: what a reader of a value off the drawn line would be wrong by.
-      const d = (py[i] - py[a] - slope * (px[i] - px[a])) ** 2;
+      const r = py[i] - py[a] - slope * (px[i] - px[a]);
+      const d = r * r;
       if (d > worstD) ((worstD = d), (worst = i));
     }
     if (worst > 0) {
