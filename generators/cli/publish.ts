@@ -12,10 +12,11 @@ import { DEFAULT_CONTENT_DIR } from './build.ts';
 export const command: CommandSpec = {
   name: 'publish',
   summary: 'Freeze a release: build and check it, then archive its products with their SHA-256 in the content tree (never rewritten).',
-  usage: 'kiln publish ID [--content DIR] [--accept-all --reason TEXT [--role TEXT]] [--quiet]',
+  usage: 'kiln publish ID [--content DIR] [--cache DIR] [--accept-all --reason TEXT [--role TEXT]] [--quiet]',
   positionals: { min: 1, max: 1, names: 'ID (the release id, or INSTRUMENT~ID when two instruments use it)' },
   options: [
     { name: 'content', arg: 'DIR', help: `content tree (default ${DEFAULT_CONTENT_DIR})` },
+    { name: 'cache', arg: 'DIR', help: 'job cache of an earlier build (e.g. .kiln/cache): unchanged jobs reuse its verified outputs (default: every job is built)' },
     { name: 'accept-all', help: 'accept every review item release.yaml does not accept (needs --reason); recorded in the seal' },
     { name: 'reason', arg: 'TEXT', help: 'why the review items are accepted (with --accept-all)' },
     { name: 'role', arg: 'TEXT', help: `who accepts them, by role (with --accept-all; default "${DEFAULT_ROLE}")` },
@@ -31,7 +32,8 @@ export const command: CommandSpec = {
     if (!all && (reason !== undefined || role !== undefined)) throw new UsageError('--reason and --role go with --accept-all (or list accepted items in release.yaml)');
     if (role === '') throw new UsageError('--role needs a non-empty TEXT');
     try {
-      const r = await publish({ contentDir, id: args.positionals[0], log, acceptAll: all ? { reason: reason!, role: role ?? DEFAULT_ROLE } : undefined });
+      const cache = optString(args, 'cache');
+      const r = await publish({ contentDir, id: args.positionals[0], log, cacheDir: cache === undefined ? undefined : resolve(cache), acceptAll: all ? { reason: reason!, role: role ?? DEFAULT_ROLE } : undefined });
       process.stdout.write(
         (r.resumed
           ? `kiln publish: release ${r.release}: finished an interrupted publish (archive in ${r.archiveDir} verified)`

@@ -196,6 +196,8 @@ export interface VerifiedArchive {
   manifest: ReleaseManifest | null;
   /** The status the release had when it was sealed. */
   sealedStatus: string;
+  /** Every sealed file's path and SHA-256 (verified): what a cache key of derived documents covers. */
+  sealed: { path: string; sha256: string }[];
 }
 
 /**
@@ -242,5 +244,5 @@ export function verifyArchive(contentRoot: string, seal: Seal, release: { date: 
       if (!entries.some((p) => p?.path === s.path)) throw tampered(id, 'does not list a sealed product', file, s.path);
   }
   const sealedStatus = seal.schema === SEAL_V2 ? seal.status : String(site.status);
-  return { bytes, site, report, manifest, sealedStatus };
+  return { bytes, site, report, manifest, sealedStatus, sealed: seal.files.map((f) => ({ path: f.path, sha256: f.sha256 })) };
 }

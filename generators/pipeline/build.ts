@@ -51,7 +51,8 @@ import { pruneJobEntries, readJobEntry, writeJobEntry } from './job-store.ts';
 import { checksByDetector, countChecks, splitDetector, summaryDoc } from '../site-data/split.ts';
 import { checksPath, OVERLAY_FILE, REEXAMINED_FILE, supplementPath } from '../site-data/paths.ts';
 import { overlayDetector, overlayDocument } from '../site-data/overlay.ts';
-import { reexamineArchive } from './reexamine.ts';
+import { cachedReexamination, REEXAMINED_DIR } from './reexamine-cache.ts';
+import { pruneDocEntries } from './doc-cache.ts';
 export { gzipProduct } from './job-output.ts';
 import { modelJobs } from './model-jobs.ts';
 export { modelJobs } from './model-jobs.ts';
@@ -417,6 +418,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   };
   const spectralRoot = cacheDir === null ? null : join(cacheDir, SPECTRAL_DIR);
   const spectralUsed = new Set<string>();
+  const reexamine = { root: cacheDir === null ? null : join(cacheDir, REEXAMINED_DIR), noCache: ctx.noCache, generator: ctx.generator, used: new Set<string>(), warn: ctx.warn };
   try {
     for (const r of content.releases) {
       const rel = r.release;
@@ -443,8 +445,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
       };
       if (frozen) {
         // Today's checks on the archived bytes, read-only: shown beside the published report.
-        const supplements = new Map<string, DetectorSupplementDoc>();
-        const re = reexamineArchive(r, archives.get(rel.key)!, ctx.generator, supplements);
+        const { doc: re, supplements, fromCache } = cachedReexamination(reexamine, r, archives.get(rel.key)!);
         const served = serveArchive(r, archives.get(rel.key)!, dir, supplements);
         ({ products, checks } = served);
         parameters = served.parameters;
@@ -452,7 +453,7 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
         log(`release ${rel.key} (${rel.status}): ${products.length} archived products verified`);
         writeJson(join(dir, REEXAMINED_FILE), re);
         reexamined = re.counts;
-        log(`release ${rel.key} (${rel.status}): re-examined with current checks: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
+        log(`release ${rel.key} (${rel.status}): re-examined with current checks${fromCache ? ' (from cache)' : ''}: ${re.counts.fail} failed, ${re.counts.warn} warnings not in the published report (${re.counts.checks} checks)`);
         // A frozen release's validation report stays as archived; its impact is in spectral.json only.
         spectralOf(products);
       } else {
@@ -533,9 +534,13 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   writeSiteDocuments(staging, finderDocuments(index));
   reached('build:staged');
   swapInto(staging, opts.outDir, 'build:swap');
-  // The cache keeps the jobs of the last successful build: bounded, and safe to delete.
-  if (ctx.cacheRoot) pruneJobEntries(ctx.cacheRoot, ctx.used);
-  if (spectralRoot) pruneSpectralEntries(spectralRoot, spectralUsed);
+  // The cache keeps the entries of the last successful whole build: bounded, and safe to delete.
+  // A build up to one release (publish) leaves the later releases' entries where they are.
+  if (last === undefined) {
+    if (ctx.cacheRoot) pruneJobEntries(ctx.cacheRoot, ctx.used);
+    if (spectralRoot) pruneSpectralEntries(spectralRoot, spectralUsed);
+    if (reexamine.root) pruneDocEntries(reexamine.root, reexamine.used);
+  }
   return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
 }
 

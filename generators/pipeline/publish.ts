@@ -52,6 +52,8 @@ export interface PublishOptions {
   log?: BuildOptions['log'];
   /** Accept every review item release.yaml does not accept, with this reason and role. */
   acceptAll?: AcceptAll;
+  /** Job cache to build from (entries verified as in any build); none: every job is built. */
+  cacheDir?: string;
 }
 
 /** Publishing refused because review items are open (nothing archived). */
@@ -149,7 +151,7 @@ async function publishLocked(contentDir: string, opts: PublishOptions): Promise<
   try {
     const out = join(tmp, 'out');
     // Refuses (BuildRefused) when the release fails a check.
-    const summary = await build({ contentDir, outDir: out, publishing: key, log: opts.log, acceptAll: opts.acceptAll });
+    const summary = await build({ contentDir, outDir: out, publishing: key, log: opts.log, acceptAll: opts.acceptAll, cacheDir: opts.cacheDir ?? null });
     const outcome = summary.releases.find((x) => x.id === key)!;
     if (outcome.reviews.length)
       throw new ReviewOpen(

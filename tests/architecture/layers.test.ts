@@ -59,12 +59,12 @@ describe('layering', () => {
       const r = await bundleForBrowser(entry);
       expect(r.errors, r.errors.join('\n')).toEqual([]);
       expect(r.inputs.filter((i) => i.startsWith('node:'))).toEqual([]);
-    }, 60_000);
+    });
 
   it('the checker itself works: a module importing node:fs does not bundle for the browser', async () => {
     const r = await bundleForBrowser('generators/node/fits-file.ts');
     expect(r.errors.length).toBeGreaterThan(0);
-  }, 60_000);
+  });
 
   it('nothing in generators/ imports Astro', () => {
     // Static (`from 'astro'`, `import 'astro:content'`) and dynamic (`import('astro')`) forms.

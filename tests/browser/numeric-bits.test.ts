@@ -67,5 +67,5 @@ describe('deterministic elementary functions in chromium', () => {
     } finally {
       await close();
     }
-  }, 120_000);
+  });
 });

@@ -82,7 +82,7 @@ describe('release page: profile at any energy, from the published RMF', () => {
     await page.keyboard.type(String(PICK_KEV));
     await page.keyboard.press('Enter');
     await expect.poll(() => status.textContent()).toMatch(/Reading the published RMF, [\d.]+ KiB…/);
-    await expect.poll(() => status.textContent(), { timeout: 20_000 }).toMatch(/^Drawn: row/);
+    await expect.poll(() => status.textContent(), { timeout: 90_000 }).toMatch(/^Drawn: row/);
     expect(await curves()).toBe(n0 + 1);
     expect(rmfRequests() - before).toBe(1);
 
@@ -137,7 +137,7 @@ describe('release page: profile at any energy, from the published RMF', () => {
     const n0 = await box.locator('path.series').count();
     await box.getByRole('spinbutton', { name: /any energy/ }).fill(String(OUTSIDE_KEV));
     await box.getByRole('button', { name: 'add' }).click();
-    await expect.poll(() => status.textContent(), { timeout: 20_000 }).toMatch(/outside the matrix energy grid/);
+    await expect.poll(() => status.textContent(), { timeout: 90_000 }).toMatch(/outside the matrix energy grid/);
     const m = (await status.textContent())!.match(/choose ([\d.]+)–([\d.]+) keV/)!;
     const lo = rmf.energLoKeV[0];
     const hi = rmf.energHiKeV[rmf.energHiKeV.length - 1];
@@ -158,7 +158,7 @@ describe('release page: profile at any energy, from the published RMF', () => {
     const status = box.locator('output.profile-status');
     await box.getByRole('spinbutton', { name: /any energy/ }).fill(String(PICK_KEV));
     await box.getByRole('button', { name: 'add' }).click();
-    await expect.poll(() => status.textContent(), { timeout: 20_000 }).toMatch(/Could not read the published RMF: could not fetch .*HTTP 503/);
+    await expect.poll(() => status.textContent(), { timeout: 90_000 }).toMatch(/Could not read the published RMF: could not fetch .*HTTP 503/);
     expect(await status.getAttribute('class')).toContain('error');
     await page.close();
   });

@@ -58,7 +58,7 @@ async function buildInPage(page: Page, c: Choice): Promise<Map<string, Buffer>> 
   await fill(page, c);
   const before = (await page.locator('#rsp-result').getAttribute('data-done')) ?? '';
   await page.click('#rsp-build');
-  await expect.poll(async () => (await page.locator('#rsp-result').getAttribute('data-done')) ?? '', { timeout: 60_000 }).not.toBe(before);
+  await expect.poll(async () => (await page.locator('#rsp-result').getAttribute('data-done')) ?? '', { timeout: 180_000 }).not.toBe(before);
   const links = await page.locator('#rsp-files a[download]').evaluateAll((as) => as.map((a) => [a.getAttribute('download')!, (a as HTMLAnchorElement).href]));
   const out = new Map<string, Buffer>();
   for (const [name, href] of links) {
@@ -181,7 +181,7 @@ print(json.dumps(res))
     const { page, problems } = await session.open('/response/');
     await fill(page, { release: '2.1.0', detector: 'fi0', node: 'a', row: '', date: '2027-01-15', energies: 'model', group: '1', ...change });
     await page.click('#rsp-build');
-    await expect.poll(() => page.locator(`#err-${field}`).textContent(), { timeout: 60_000 }).toMatch(pattern);
+    await expect.poll(() => page.locator(`#err-${field}`).textContent(), { timeout: 180_000 }).toMatch(pattern);
     expect(((await page.locator(`#err-${field}`).textContent()) ?? '').split('\n').length).toBe(1);
     expect(await page.locator('#rsp-files').count()).toBe(0);
     expect(await page.locator('#err-general').textContent()).toBe('');

@@ -235,7 +235,7 @@ describe('inspect page', () => {
       const { page, problems } = await open('/inspect/');
       await page.selectOption('#inspect-against', { index: 1 });
       await page.setInputFiles('#inspect-file', firstFile(suffix));
-      await page.waitForSelector('#inspect-fitsjs', { timeout: 20_000 });
+      await page.waitForSelector('#inspect-fitsjs', { timeout: 90_000 });
       expect(await page.locator('#inspect-error').count()).toBe(0);
       expect(await page.locator('#inspect-checks tbody tr, #inspect-passed tbody tr').count()).toBeGreaterThan(3);
       const paths = await page.$$eval('#inspect-result path.series', (ps) => ps.map((p) => p.getAttribute('d') ?? ''));

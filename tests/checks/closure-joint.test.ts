@@ -69,14 +69,14 @@ describe('false-alarm rate of the joint closure (seeded, 32 regions × 6 lines �
     // Poisson 3σ is ±19, so [0.4α, 1.4α] fails a rule that is off by 2× either way.
     expect(rate).toBeGreaterThan(0.4e-3);
     expect(rate).toBeLessThan(1.4e-3);
-  }, 120_000);
+  });
 
   it('and at a stated 0.05 (tighter relative check, 4,000 releases)', () => {
     const rate = releaseFailRate(0.05, 4_000, 0x12a6);
     // expected 0.045–0.05; 200 failures: Poisson 3σ ±0.011
     expect(rate).toBeGreaterThan(0.034);
     expect(rate).toBeLessThan(0.061);
-  }, 120_000);
+  });
 
   it('the old rule (any line beyond 3σ) fails most such releases: the fault this fixes', () => {
     const g = gaussian(mulberry32(7));
@@ -87,7 +87,7 @@ describe('false-alarm rate of the joint closure (seeded, 32 regions × 6 lines �
 
   it('one line off by 6σ in one region is caught in most releases', () => {
     expect(releaseFailRate(1e-3, 300, 0x12a7, { line: 2, pull: 6 })).toBeGreaterThan(0.7);
-  }, 60_000);
+  });
 
   it('interpolated quantities are shown but not counted', () => {
     const pulls: ClosurePull[] = [{ line: 'A', quantity: 'tail-fraction', residual: 50, sigma: 1, unit: 'fraction', independent: false }];

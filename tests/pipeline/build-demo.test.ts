@@ -26,7 +26,7 @@ let run: CliResult;
 const manifests = new Map<string, { release: string; files: ManifestFile[] }>();
 
 beforeAll(() => {
-  ws = workspace();
+  ws = workspace({ cache: 'cold' });
   run = kiln('build', '--content', ws.content, '--out', ws.out);
   if (run.status === 0)
     for (const id of DEMO_RELEASES) manifests.set(id, JSON.parse(readFileSync(join(ws.out, 'releases', id, 'manifest.json'), 'utf8')));

@@ -5,7 +5,7 @@
  * detector rebuilds the jobs of its release only (every product's HISTORY records the SHA-256 of
  * its release's model document, so one detector's change reaches all of that release's
  * products), other releases' jobs come from the cache; a corrupted entry is found by its hash, named in one line and
- * rebuilt; a deleted cache is rebuilt. The demo's candidate is made a draft so that an edited
+ * rebuilt (jobs, spectral sections and re-examinations alike); a deleted cache is rebuilt. The demo's candidate is made a draft so that an edited
  * model may fail closure checks without refusing the build.
  */
 import { readdirSync, readFileSync, rmSync, writeFileSync, existsSync } from 'node:fs';
@@ -16,7 +16,7 @@ import { kiln, treeDigest, workspace } from './helpers.ts';
 const RELEASE = 'releases/2.0.0/release.yaml';
 
 describe('job cache', () => {
-  const ws = workspace();
+  const ws = workspace({ cache: 'cold' });
   afterAll(() => ws.dispose());
   ws.replace(RELEASE, /^status: candidate$/m, 'status: draft');
   const cache = join(ws.dir, 'cache');
@@ -33,6 +33,8 @@ describe('job cache', () => {
     expect(again.stdout).toMatch(/\(0 jobs built, 4 from cache\)/);
     // The spectral sections (predictions and impact fits) of all four releases are reused too.
     expect(again.stderr.match(/spectral predictions and impact from cache/g)).toHaveLength(4);
+    // So are the re-examinations of the two archived releases (today's checks on archived bytes).
+    expect(again.stderr.match(/re-examined with current checks \(from cache\)/g)).toHaveLength(2);
     expect(digest('again')).toEqual(digest('clean'));
   });
 
@@ -91,6 +93,14 @@ describe('job cache', () => {
     expect(rs.status, rs.stderr).toBe(0);
     expect(rs.stderr).toMatch(/cache entry of the spectral section of release [\d.]+ \([0-9a-f]{12}\) rejected: document does not match its SHA-256; recomputing it/);
     expect(digest('spectral')).toEqual(digest('clean2'));
+    // So is an edited re-examination entry.
+    const reDir = join(cache, 'reexamined');
+    const re = join(reDir, readdirSync(reDir)[0]);
+    writeFileSync(re, readFileSync(re, 'utf8').replace('"findings', '"Findings'));
+    const rr = build('reexamined', '--quiet');
+    expect(rr.status, rr.stderr).toBe(0);
+    expect(rr.stderr).toMatch(/cache entry of the re-examination of release [\d.]+ \([0-9a-f]{12}\) rejected: document does not match its SHA-256; recomputing it/);
+    expect(digest('reexamined')).toEqual(digest('clean2'));
     rmSync(cache, { recursive: true, force: true });
     const fresh = build('fresh', '--quiet');
     expect(fresh.status, fresh.stderr).toBe(0);

@@ -47,7 +47,7 @@ describe('correcting a published release', () => {
     spaces.push(ws);
     // The demo's own 2.1.0 (per-node products) also supersedes 2.0.0; the correction takes its id here.
     rmSync(ws.path('releases/2.1.0'), { recursive: true });
-    const pub = kiln('publish', '2.0.0', '--content', ws.content, ...SIGN_OFF, '--quiet');
+    const pub = kiln('publish', '2.0.0', '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet');
     expect(pub.status, pub.stderr).toBe(0);
     expect(pub.stdout).toMatch(/release 1\.1\.0 marked superseded/);
 
@@ -93,7 +93,7 @@ describe('correcting a published release', () => {
 
     // 4. Publishing waits for the sign-off.
     const before = treeDigest(ws.content);
-    const waiting = kiln('publish', '2.1.0', '--content', ws.content, '--quiet');
+    const waiting = kiln('publish', '2.1.0', '--content', ws.content, ...ws.cacheArgs, '--quiet');
     expect(waiting.status).toBe(1);
     // The area items and what a 10 % lower area does to the reference sources' fitted fluxes and band rates.
     expect(open.some((c) => c.id.startsWith('review.impact.'))).toBe(true);
@@ -106,7 +106,7 @@ describe('correcting a published release', () => {
     ws.write('releases/2.1.0/release.yaml', `${ws.read('releases/2.1.0/release.yaml')}accepted:\n${accepted.join('\n')}\n`);
     const yaml200 = ws.read('releases/2.0.0/release.yaml');
     const archive200 = treeDigest(ws.path('archive/2.0.0'));
-    const done = kiln('publish', '2.1.0', '--content', ws.content, '--quiet');
+    const done = kiln('publish', '2.1.0', '--content', ws.content, ...ws.cacheArgs, '--quiet');
     expect(done.status, done.stderr).toBe(0);
     expect(done.stdout).toContain(`with ${open.length} accepted review items recorded`);
     expect(done.stdout).toMatch(/release 2\.0\.0 marked superseded in its release\.yaml \(its archive is unchanged\)/);
@@ -155,7 +155,7 @@ print(json.dumps({'min': float(r.min()), 'max': float(r.max())}))`,
     spaces.push(ws);
     const before = treeDigest(ws.content);
     for (const args of [['--accept-all'], ['--reason', 'x'], ['--role', 'lead']]) {
-      const r = kiln('publish', '2.0.0', '--content', ws.content, ...args);
+      const r = kiln('publish', '2.0.0', '--content', ws.content, ...ws.cacheArgs, ...args);
       expect(r.status, args.join(' ')).toBe(2);
       expect(expectOneLine(r.stderr)).toMatch(/--accept-all/);
     }

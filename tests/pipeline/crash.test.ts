@@ -15,7 +15,7 @@ const WAIT_LIMIT_MS = 30_000;
 let base: Workspace;
 const spaces: Workspace[] = [];
 beforeAll(() => {
-  base = workspace();
+  base = workspace({ cache: 'cold' });
   const r = kiln('build', '--content', base.content, '--out', base.out, '--quiet');
   if (r.status !== 0) throw new Error(`baseline build failed:\n${r.stderr}`);
 });
@@ -28,7 +28,7 @@ const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
  * child with SIGKILL and returns once it has exited.
  */
 async function killBuildWhen(ready: (ws: Workspace, stderr: string) => boolean): Promise<{ ws: Workspace; before: Record<string, string>; stale: string[] }> {
-  const ws = workspace();
+  const ws = workspace({ cache: 'cold' });
   spaces.push(ws);
   cpSync(base.out, ws.out, { recursive: true });
   const before = treeDigest(ws.out);
@@ -65,13 +65,13 @@ async function expectRecovery(ws: Workspace, before: Record<string, string>, sta
 
 describe('a build killed with SIGKILL', () => {
   // Several builds of the four-release demo on a shared machine: more than the default minute.
-  it('as soon as its staging directory appears: previous out intact, next build recovers', { timeout: 240_000 }, async () => {
+  it('as soon as its staging directory appears: previous out intact, next build recovers', { timeout: 480_000 }, async () => {
     const { ws, before, stale } = await killBuildWhen((w) => readdirSync(w.dir).some((n) => n.startsWith('.out.staging-')));
     await expectRecovery(ws, before, stale);
   });
 
   // Several builds of the four-release demo on a shared machine: more than the default minute.
-  it('after its first detector job finished (products being written): previous out intact, next build recovers', { timeout: 240_000 }, async () => {
+  it('after its first detector job finished (products being written): previous out intact, next build recovers', { timeout: 480_000 }, async () => {
     const { ws, before, stale } = await killBuildWhen((_w, err) => /release 2\.0\.0 \(candidate\): detector \w+ built/.test(err));
     await expectRecovery(ws, before, stale);
   });
@@ -82,7 +82,7 @@ describe('a build killed with SIGKILL', () => {
    * first rename by hand.
    */
   it('interrupted between the two renames of the swap: the next build puts the previous tree back or replaces it', () => {
-    const ws = workspace();
+    const ws = workspace({ cache: 'cold' });
     spaces.push(ws);
     cpSync(base.out, ws.out, { recursive: true });
     const before = treeDigest(ws.out);
@@ -94,7 +94,7 @@ describe('a build killed with SIGKILL', () => {
   });
 
   it('interrupted between the two renames, then a build with bad input: the previous tree is back at the target', () => {
-    const ws = workspace();
+    const ws = workspace({ cache: 'cold' });
     spaces.push(ws);
     cpSync(base.out, ws.out, { recursive: true });
     const before = treeDigest(ws.out);

@@ -47,7 +47,7 @@ afterAll(() => {
 /** Runs kiln, expects one line naming `names` and the exit code. */
 function fails(args: string[], code: number, names: RegExp, opts: { env?: NodeJS.ProcessEnv } = {}): string {
   const r = opts.env
-    ? spawnSync(process.execPath, [KILN, ...args], { cwd: REPO, encoding: 'utf8', env: { ...process.env, ...opts.env }, timeout: 60_000 })
+    ? spawnSync(process.execPath, [KILN, ...args], { cwd: REPO, encoding: 'utf8', env: { ...process.env, ...opts.env }, timeout: 240_000 })
     : kiln(...args);
   const line = expectOneLine(r.stderr);
   expect(r.status, r.stderr).toBe(code);
@@ -107,7 +107,7 @@ describe('bad input: one line, exit 2, for every verb', () => {
     const ro = join(scratch, 'ro');
     mountTmpfs(ro, '1m', true);
     const built = join(ws.dir, 'resp-build');
-    expect(kiln('build', '--content', ws.content, '--out', built, '--quiet').status).toBe(0);
+    expect(kiln('build', '--content', ws.content, '--out', built, ...ws.cacheArgs, '--quiet').status).toBe(0);
     try {
       fails(['response', '--release', '2.0.0', '--detector', 'fi0', '--date', '2027-01-01', '--from', built, '--out', join(ro, 'r')], ENVIRONMENT, /read-only file system/);
     } finally {
@@ -167,7 +167,7 @@ describe('the environment: one line, a documented code, no partial output', () =
     const secret = join(scratch, 'secret.rmf.gz');
     writeFileSync(secret, 'x', { mode: 0o600 });
     const asNobody = (args: string[]) =>
-      spawnSync('setpriv', ['--reuid=65534', '--regid=65534', '--clear-groups', process.execPath, KILN, ...args], { cwd: REPO, encoding: 'utf8', env: { ...process.env, HOME: scratch }, timeout: 60_000 });
+      spawnSync('setpriv', ['--reuid=65534', '--regid=65534', '--clear-groups', process.execPath, KILN, ...args], { cwd: REPO, encoding: 'utf8', env: { ...process.env, HOME: scratch }, timeout: 240_000 });
     const r1 = asNobody(['build', '--content', join(REPO, 'content'), '--out', join(locked, 'out'), '--quiet']);
     expect(expectOneLine(r1.stderr)).toMatch(/locked.*permission denied/);
     expect(r1.status).toBe(ENVIRONMENT);
@@ -184,7 +184,7 @@ describe('the environment: one line, a documented code, no partial output', () =
       writeFileSync(join(ws.dir, '.locked-out.lock'), JSON.stringify({ pid: holder.pid, host: (await import('node:os')).hostname(), what: 'kiln build' }));
       fails(['build', '--content', ws.content, '--out', out, '--quiet'], BUSY, /\.locked-out\.lock: kiln build \(pid \d+\) is writing here/);
       writeFileSync(join(ws.content, '.archive.lock'), JSON.stringify({ pid: holder.pid, host: (await import('node:os')).hostname(), what: 'kiln publish' }));
-      fails(['publish', '2.0.0', '--content', ws.content, ...SIGN_OFF, '--quiet'], BUSY, /\.archive\.lock: kiln publish \(pid \d+\) is writing here/);
+      fails(['publish', '2.0.0', '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet'], BUSY, /\.archive\.lock: kiln publish \(pid \d+\) is writing here/);
       rmSync(join(ws.content, '.archive.lock'));
     } finally {
       holder.kill('SIGKILL');
@@ -194,7 +194,7 @@ describe('the environment: one line, a documented code, no partial output', () =
   it('two builds into one --out, two publishes of one tree at once: the second refuses with exit 4 while the first runs, the first completes', async () => {
     for (const [args, lock] of [
       [['build', '--content', ws.content, '--out', join(ws.dir, 'both'), '--quiet'], join(ws.dir, '.both.lock')],
-      [['publish', '2.0.0', '--content', ws.content, ...SIGN_OFF, '--quiet'], join(ws.content, '.archive.lock')],
+      [['publish', '2.0.0', '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet'], join(ws.content, '.archive.lock')],
     ] as const) {
       const first = spawn(process.execPath, [KILN, ...args], { cwd: REPO, stdio: ['ignore', 'pipe', 'pipe'] });
       const done = new Promise<number | null>((ok) => first.on('exit', (c) => ok(c)));
@@ -210,7 +210,7 @@ describe('the environment: one line, a documented code, no partial output', () =
       expect(existsSync(lock)).toBe(false);
     }
     // Two full builds and two publishes (each with its spectral impact fits), one after the other.
-  }, 240_000);
+  }, 480_000);
 
   it('a bug is one line too, with the trace only behind --debug (exit 70)', () => {
     // No user action reaches a bug, so the CLI's failure report is called with an unexpected error.

@@ -47,13 +47,34 @@ export interface Workspace {
   write(rel: string, text: string): void;
   /** Replaces the first occurrence of `from`, which must exist (a missed edit would test nothing). */
   replace(rel: string, from: string | RegExp, to: string): void;
+  /** `--cache <dir>/out.cache` for builds and publishes outside `out` (empty when cold). */
+  cacheArgs: string[];
   dispose(): void;
 }
 
-export function workspace(): Workspace {
+/**
+ * The job cache `npm run build` leaves beside its output (.kiln/cache for .kiln/out). Seeding a
+ * workspace's cache with it makes a build of unchanged demo content take seconds instead of a
+ * clean build's half minute: entries are keyed by each job's fingerprint (resolved model, grids,
+ * generator version including every source file of generators/) and verified by their SHA-256
+ * before use, so a stale or foreign entry is simply not used, and a build from the cache writes
+ * the same bytes as a clean one (tests/pipeline/cache.test.ts). Tests of clean builds themselves
+ * (determinism, the cache, shards, crash timing) ask for a cold workspace.
+ */
+export const SEED_CACHE = process.env.KILN_TEST_SEED_CACHE ?? join(REPO, '.kiln', 'cache');
+
+export interface WorkspaceOptions {
+  /** 'warm' (default): `<out>.cache` starts as a copy of SEED_CACHE when it exists; 'cold': no cache. */
+  cache?: 'warm' | 'cold';
+}
+
+export function workspace(opts: WorkspaceOptions = {}): Workspace {
   const dir = mkdtempSync(join(tmpdir(), 'kiln-pipeline-'));
   const content = join(dir, 'content');
   cpSync(DEMO_CONTENT, content, { recursive: true });
+  // The whole cache (jobs, spectral sections, re-examinations): each kind verifies its own entries.
+  const warm = (opts.cache ?? 'warm') === 'warm';
+  if (warm && existsSync(SEED_CACHE)) cpSync(SEED_CACHE, join(dir, 'out.cache'), { recursive: true });
   const ws: Workspace = {
     dir,
     content,
@@ -67,6 +88,7 @@ export function workspace(): Workspace {
       if (!found) throw new Error(`test setup: ${String(from)} not found in ${rel}`);
       ws.write(rel, t.replace(from, to));
     },
+    cacheArgs: warm ? ['--cache', join(dir, 'out.cache')] : [],
     dispose: () => rmSync(dir, { recursive: true, force: true }),
   };
   return ws;

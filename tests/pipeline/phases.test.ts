@@ -45,7 +45,7 @@ describe('kiln publish killed at each phase, then run again', () => {
   for (const phase of ['publish:built', 'publish:staged', 'publish:archived', 'publish:status-temp'])
     it(`${phase}: release.yaml stays whole; the next \`kiln publish ${CANDIDATE}\` finishes and leaves no litter`, () => {
       const { ws, tmp } = fresh();
-      const killed = run(['publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet'], tmp, phase);
+      const killed = run(['publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet'], tmp, phase);
       expect(killed.signal, killed.stderr).toBe('SIGKILL');
       // release.yaml is a complete YAML document with the old or the new status, never partial.
       const doc = parse(ws.read(YAML)) as { status: string };
@@ -53,7 +53,7 @@ describe('kiln publish killed at each phase, then run again', () => {
       const archived = existsSync(ws.path(`archive/${CANDIDATE}`));
       expect(archived).toBe(phase === 'publish:archived' || phase === 'publish:status-temp');
 
-      const again = run(['publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet'], tmp);
+      const again = run(['publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet'], tmp);
       expect(again.status, again.stderr).toBe(0);
       expect(again.stdout).toMatch(archived ? /finished an interrupted publish/ : /frozen: \d+ files sealed/);
       expect((parse(ws.read(YAML)) as { status: string }).status).toBe('published');

@@ -36,14 +36,14 @@ function canonical(v: unknown): string {
 
 describe('kiln publish', () => {
   // Several builds of the four-release demo on a shared machine: more than the default minute.
-  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', { timeout: 240_000 }, () => {
+  it('publishes a candidate, then refuses to publish it again, and the next build serves it from the archive', { timeout: 480_000 }, () => {
     const ws = fresh();
     // The candidate as built before publishing, for comparison.
-    const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), '--quiet');
+    const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), ...ws.cacheArgs, '--quiet');
     expect(pre.status, pre.stderr).toBe(0);
     const yamlBefore = ws.read(YAML);
 
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF);
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF);
     expect(r.stderr).not.toMatch(/^\s+at /m);
     expect(r.status, r.stderr).toBe(0);
     const archive = ws.path(`archive/${CANDIDATE}`);
@@ -78,7 +78,7 @@ describe('kiln publish', () => {
 
     // A second publish of the same id: exit 2, one line, nothing changes in the content tree.
     const contentBefore = treeDigest(ws.content);
-    const again = kiln('publish', CANDIDATE, '--content', ws.content, '--quiet');
+    const again = kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, '--quiet');
     expect(again.status).toBe(2);
     expect(expectOneLine(again.stderr)).toMatch(/already published/);
     expect(treeDigest(ws.content)).toEqual(contentBefore);
@@ -107,7 +107,7 @@ describe('kiln publish', () => {
 
   it('the archived site data records the release as published (what was frozen), not as a candidate', () => {
     const ws = fresh();
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet');
     expect(r.status, r.stderr).toBe(0);
     // archive.ts: site.json is "the site data of the release as published"; the demo archives
     // of 1.0.0 and 1.1.0 carry their status, so must a freshly published one.
@@ -117,9 +117,9 @@ describe('kiln publish', () => {
 
   it('the manifest of a release is the same after publishing (only its status differs)', () => {
     const ws = fresh();
-    const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), '--quiet');
+    const pre = kiln('build', '--content', ws.content, '--out', join(ws.dir, 'pre'), ...ws.cacheArgs, '--quiet');
     expect(pre.status, pre.stderr).toBe(0);
-    expect(kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet').status).toBe(0);
+    expect(kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet').status).toBe(0);
     const post = kiln('build', '--content', ws.content, '--out', ws.out, '--quiet');
     expect(post.status, post.stderr).toBe(0);
     const a = JSON.parse(readFileSync(join(ws.dir, 'pre', 'releases', CANDIDATE, 'manifest.json'), 'utf8'));
@@ -137,7 +137,7 @@ describe('kiln publish', () => {
     const ws = fresh();
     ws.replace(YAML, /^status: candidate$/m, 'status: draft');
     const before = treeDigest(ws.content);
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet');
     expect(r.status).toBe(2);
     const line = expectOneLine(r.stderr);
     expect(line).toContain(ws.path(YAML));
@@ -150,7 +150,7 @@ describe('kiln publish', () => {
   it('refuses an unknown release id (exit 2) and writes nothing', () => {
     const ws = fresh();
     const before = treeDigest(ws.content);
-    const r = kiln('publish', '9.9.9', '--content', ws.content, '--quiet');
+    const r = kiln('publish', '9.9.9', '--content', ws.content, ...ws.cacheArgs, '--quiet');
     expect(r.status).toBe(2);
     expect(expectOneLine(r.stderr)).toMatch(/9\.9\.9/);
     expect(treeDigest(ws.content)).toEqual(before);
@@ -162,7 +162,7 @@ describe('kiln publish', () => {
     // (2.355·sqrt(F·w·E) ≈ 119 eV at 5.9 keV with F = 0.118, w = 3.68 eV; Fano, Phys. Rev. 72, 26 (1947) / common practice).
     ws.replace(`releases/${CANDIDATE}/linefits/fi0.csv`, /^Mn Ka,5\.8950,5\.90794,0\.36,140\.16,/m, 'Mn Ka,5.8950,5.90794,0.36,200.00,');
     const before = treeDigest(ws.content);
-    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...SIGN_OFF, '--quiet');
+    const r = kiln('publish', CANDIDATE, '--content', ws.content, ...ws.cacheArgs, ...SIGN_OFF, '--quiet');
     expect(r.status).toBe(1);
     expect(r.stderr).toMatch(/closure\.fwhm\.mn-ka/);
     expect(treeDigest(ws.content)).toEqual(before);

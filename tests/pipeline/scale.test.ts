@@ -21,14 +21,14 @@ const EPOCH_DAYS = 7;
 const START = Date.UTC(2026, 4, 12); // 2026-05-12, the demo instrument's first validity date
 const DETECTORS = ['fi0', 'bi1'];
 const INSTRUMENT = 'instruments/quillon-tarncam/instrument.yaml';
-const SCALE_TIME_LIMIT_MS = 120_000;
+const SCALE_TIME_LIMIT_MS = 280_000;
 
 const day = (i: number) => new Date(START + i * EPOCH_DAYS * 86_400_000).toISOString().slice(0, 10);
 const epochId = (i: number) => `w${String(i + 1).padStart(3, '0')}`;
 
 /** Demo instrument, small grid; the one release is generated (invented data, like the demo). */
 function scaleContent(): Workspace {
-  const ws = workspace();
+  const ws = workspace({ cache: 'cold' });
   // The line fits of the demo's release 2.0.0 (invented), reused as they are.
   const lineFits = ws.path('releases/2.0.0/linefits');
   const dir = ws.path('releases/1.0.0');

@@ -14,7 +14,7 @@ const RELEASE = 'releases/2.0.0/release.yaml';
 const HEX64 = /^[0-9a-f]{64}$/;
 
 describe('sharded build: plan, shards, gather', () => {
-  const ws = workspace();
+  const ws = workspace({ cache: 'cold' });
   afterAll(() => ws.dispose());
   const at = (name: string) => join(ws.dir, name);
   const planFile = at('plan.json');
@@ -122,7 +122,7 @@ describe('sharded build: plan, shards, gather', () => {
 
   it('a plan of another content tree, and an edited plan, are refused by kiln build --shard', () => {
     // Another tree: the demo without detector bi1 in release 2.0.0.
-    const other = workspace();
+    const other = workspace({ cache: 'cold' });
     try {
       const rel = other.read(RELEASE);
       const cut = rel.indexOf('\n  bi1:\n');

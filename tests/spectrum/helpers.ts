@@ -20,3 +20,52 @@ export function demoResponse(): { response: FoldingResponse; grid: FluxGrid } {
   cached = { response, grid: fluxGrid(response.energLoKeV, response.energHiKeV, DEFAULT_ABUNDANCES) };
   return cached;
 }
+
+/**
+ * The same response with every `factor` adjacent channels summed into one (the channel binning
+ * an observer applies before fitting; probability is conserved row by row). Used where a test's
+ * statement does not depend on the channel resolution and the full 1024 channels only cost time.
+ */
+export function regroupChannels(r: FoldingResponse, factor: number): FoldingResponse {
+  if (!Number.isInteger(factor) || factor < 1 || r.detchans % factor !== 0) throw new Error(`test setup: ${r.detchans} channels do not split into groups of ${factor}`);
+  const n = r.energLoKeV.length;
+  const chans = r.detchans / factor;
+  const dense = new Float64Array(chans);
+  const rowGroup = new Int32Array(n + 1);
+  const groupChannel: number[] = [];
+  const groupLength: number[] = [];
+  const groupOffset: number[] = [];
+  const value: number[] = [];
+  const rowSum = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    dense.fill(0);
+    for (let g = r.rowGroup[i]; g < r.rowGroup[i + 1]; g++)
+      for (let j = 0; j < r.groupLength[g]; j++) dense[Math.floor((r.groupChannel[g] + j) / factor)] += r.value[r.groupOffset[g] + j];
+    rowGroup[i] = groupChannel.length;
+    let first = 0;
+    while (first < chans && dense[first] === 0) first++;
+    let last = chans - 1;
+    while (last >= first && dense[last] === 0) last--;
+    if (last >= first) {
+      groupChannel.push(first);
+      groupLength.push(last - first + 1);
+      groupOffset.push(value.length);
+      for (let c = first; c <= last; c++) value.push(dense[c]);
+    }
+    rowSum[i] = r.rowSum[i];
+  }
+  rowGroup[n] = groupChannel.length;
+  const bounds = (a: Float64Array, pick: (k: number) => number) => Float64Array.from({ length: chans }, (_, k) => a[pick(k)]);
+  return {
+    ...r,
+    detchans: chans,
+    channelLoKeV: bounds(r.channelLoKeV, (k) => k * factor),
+    channelHiKeV: bounds(r.channelHiKeV, (k) => k * factor + factor - 1),
+    rowGroup,
+    groupChannel: Int32Array.from(groupChannel),
+    groupLength: Int32Array.from(groupLength),
+    groupOffset: Int32Array.from(groupOffset),
+    value: Float32Array.from(value),
+    rowSum,
+  };
+}
