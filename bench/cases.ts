@@ -54,7 +54,13 @@ export const checkCaseOf = (productCase: string): string => `${CHECK_PREFIX}${pr
 /** The finder and JSON index at 10,000 products (bench/finder.ts; synthetic index, no physics). */
 export const FINDER_CASE = 'finder-10k';
 
-export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name, RESPONSE_CASE.name, FINDER_CASE];
+/**
+ * The demo content (archived releases, impact fits, real model sizes): a clean `kiln build`, then
+ * one with nothing changed, where every job, spectral section and re-examination is cached.
+ */
+export const DEMO_REBUILD_CASE = 'demo-rebuild';
+
+export const CASE_NAMES = [...RMF_CASES.map((c) => c.name), ARF_CASE.name, SITE_CASE.name, LARGE_CASE.name, DEMO_REBUILD_CASE, RESPONSE_CASE.name, FINDER_CASE];
 
 /**
  * Profile with every component on: Gaussian core, low-energy tail, shelf, Si escape peak, Si

@@ -5,7 +5,7 @@
  * one process), and measure the finder and index the site would load at that scale.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { cpSync, existsSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { makeLargeInstrument, type LargeInstrument } from '../scripts/make-large-instrument.ts';
 import { filesUnder, totalSize } from './io.ts';
@@ -77,4 +77,26 @@ export function largeLines(root: string, tmp: string, sizes: LargeInstrument[]):
     rmSync(`${out}.cache`, { recursive: true, force: true });
     return line;
   });
+}
+
+/** The demo content copied to `tmp`: a clean build, then a rebuild with nothing changed. */
+export function demoRebuildLine(root: string, tmp: string): Record<string, unknown> {
+  const content = join(tmp, 'demo-content');
+  const out = join(tmp, 'demo-out');
+  cpSync(join(root, 'content'), content, { recursive: true });
+  const clean = timedBuild(root, tmp, content, out, ['--no-cache']);
+  const again = timedBuild(root, tmp, content, out, []);
+  rmSync(content, { recursive: true, force: true });
+  rmSync(out, { recursive: true, force: true });
+  rmSync(`${out}.cache`, { recursive: true, force: true });
+  return {
+    case: 'demo-rebuild',
+    wallS: clean.wallS,
+    cpuS: clean.cpuS,
+    peakRssMB: clean.peakRssMB,
+    noChangeRebuildS: again.wallS,
+    noChangeRebuildPeakRssMB: again.peakRssMB,
+    noChangeRatio: round(again.wallS / clean.wallS, 3),
+    note: 'demo content: clean build (--no-cache), then nothing changed (jobs, spectral sections and re-examinations from the cache); wall time of the whole process',
+  };
 }

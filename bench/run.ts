@@ -15,8 +15,8 @@ import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { ARF_CASE, CASE_NAMES, FINDER_CASE, LARGE_CASE, RESPONSE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
-import { largeLines, timedRun } from './large.ts';
+import { ARF_CASE, CASE_NAMES, DEMO_REBUILD_CASE, FINDER_CASE, LARGE_CASE, RESPONSE_CASE, RMF_CASES, SITE_CASE, checkCaseOf } from './cases.ts';
+import { demoRebuildLine, largeLines, timedRun } from './large.ts';
 import { filesUnder, totalSize } from './io.ts';
 import { round, type CaseResult } from './measure.ts';
 import { responsePageCase } from './browser.ts';
@@ -287,6 +287,12 @@ for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
       const f = finderCase();
       console.log(JSON.stringify(f));
       verdict(`finder document <= ${TARGET_FINDER_DOC_KB} KB and lookup p99 <= ${TARGET_LOOKUP_MS} ms at ${f.products} products`, (f.largestFinderDocKB as number) <= TARGET_FINDER_DOC_KB && (f.lookupP99Ms as number) <= TARGET_LOOKUP_MS, { largestFinderDocKB: f.largestFinderDocKB, lookupP99Ms: f.lookupP99Ms, indexKB: f.indexKB });
+      continue;
+    }
+    if (name === DEMO_REBUILD_CASE) {
+      const d = demoRebuildLine(ROOT, tmp);
+      console.log(JSON.stringify(d));
+      verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (demo content)`, (d.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO, { noChangeRatio: d.noChangeRatio, cleanS: d.wallS, rebuildS: d.noChangeRebuildS });
       continue;
     }
     if (name === LARGE_CASE.name) {
