@@ -341,7 +341,10 @@ function cachedSpectral(ctx: JobContext, root: string | null, used: Set<string>,
     if (!e.missing) ctx.warn(`cache entry of the spectral section of release ${newer.id} (${key.slice(0, 12)}) rejected: ${e.reason}; recomputing it`);
   }
   const doc = releaseSpectral(ins, newer, older, ctx.log);
-  if (doc && root) writeSpectralEntry(root, key, doc);
+  if (doc && root) {
+    const copy = structuredClone(doc);
+    ctx.later.push(() => writeSpectralEntry(root, key, copy));
+  }
   return doc;
 }
 
@@ -415,10 +418,11 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
     warn: opts.warn ?? log,
     used: new Set(),
     counts: { built: 0, cached: 0, gathered: 0 },
+    later: [],
   };
   const spectralRoot = cacheDir === null ? null : join(cacheDir, SPECTRAL_DIR);
   const spectralUsed = new Set<string>();
-  const reexamine = { root: cacheDir === null ? null : join(cacheDir, REEXAMINED_DIR), noCache: ctx.noCache, generator: ctx.generator, used: new Set<string>(), warn: ctx.warn };
+  const reexamine = { root: cacheDir === null ? null : join(cacheDir, REEXAMINED_DIR), noCache: ctx.noCache, generator: ctx.generator, used: new Set<string>(), warn: ctx.warn, later: ctx.later };
   try {
     for (const r of content.releases) {
       const rel = r.release;
@@ -534,6 +538,14 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   writeSiteDocuments(staging, finderDocuments(index));
   reached('build:staged');
   swapInto(staging, opts.outDir, 'build:swap');
+  // The output is in place; a cache entry that cannot be written now is only a slower next build.
+  for (const write of ctx.later) {
+    try {
+      write();
+    } catch (e) {
+      ctx.warn(`cache entry not written (${(e as Error).message}); the next build recomputes it`);
+    }
+  }
   // The cache keeps the entries of the last successful whole build: bounded, and safe to delete.
   // A build up to one release (publish) leaves the later releases' entries where they are.
   if (last === undefined) {
@@ -554,6 +566,11 @@ interface JobContext {
   /** Fingerprints of this build's jobs (what the cache keeps). */
   used: Set<string>;
   counts: BuildSummary['jobs'];
+  /**
+   * Cache writes of derived documents (spectral sections, re-examinations), run once the output
+   * is in place: a build that fails (a full disk, say) leaves no cache of its own behind.
+   */
+  later: (() => void)[];
 }
 
 /**

@@ -32,6 +32,8 @@ export interface ReexamineCacheContext {
   generator: string;
   used: Set<string>;
   warn: (line: string) => void;
+  /** Where the entry's write is queued: the build runs it once its output is in place. */
+  later: (() => void)[];
 }
 
 /** What one entry holds: the re-examination and the supplements per detector. */
@@ -52,6 +54,10 @@ export function cachedReexamination(c: ReexamineCacheContext, r: ResolvedRelease
   }
   const supplements = new Map<string, DetectorSupplementDoc>();
   const doc = reexamineArchive(r, archive, c.generator, supplements);
-  if (cache) writeDocEntry(cache, key, { reexamination: doc, supplements: [...supplements] } satisfies Entry);
+  if (cache) {
+    // A copy as computed now: the build goes on using (and may extend) the documents.
+    const entry: Entry = structuredClone({ reexamination: doc, supplements: [...supplements] });
+    c.later.push(() => writeDocEntry(cache, key, entry));
+  }
   return { doc, supplements, fromCache: false };
 }

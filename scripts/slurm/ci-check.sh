@@ -45,13 +45,13 @@ else
   record fail "${checks[1]}"; record fail "${checks[2]}"
 fi
 
-# The demo plans four jobs, 2.0.0/fi0, 2.0.0/bi1, 2.1.0/fi0, 2.1.0/bi1: shard 2 of 4 holds 2.0.0/bi1.
+# The demo plans four jobs, quillon-tarncam~2.0.0/fi0, …~2.0.0/bi1, …~2.1.0/fi0, …~2.1.0/bi1: shard 2 of 4 holds …~2.0.0/bi1.
 if "$here/submit.sh" --shards 4 --only 1,3,4 --work "$work/lost" --out "$work/lost-out" --wait "$WAIT_S"; then
   record fail "${checks[3]}"
 else
   log=$(cat "$work"/lost/logs/gather-*.out 2>/dev/null)
   echo "$log"
-  if grep -q 'planned jobs missing: 2.0.0/bi1 (shard 2/4 not given or failed)' <<<"$log" && [ ! -e "$work/lost-out" ]; then record pass "${checks[3]}"
+  if grep -q 'planned jobs missing: quillon-tarncam~2.0.0/bi1 (shard 2/4 not given or failed)' <<<"$log" && [ ! -e "$work/lost-out" ]; then record pass "${checks[3]}"
   else record fail "${checks[3]}"; fi
 fi
 

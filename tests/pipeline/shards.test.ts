@@ -28,7 +28,7 @@ describe('sharded build: plan, shards, gather', () => {
     expect(plan.schema).toBe('kiln/plan/1');
     expect(plan.planSha256).toMatch(HEX64);
     // The demo: 1.0.0 and 1.1.0 are published (served from content/archive), 2.0.0 has two detectors.
-    expect(plan.jobs.map((j) => j.id).sort()).toEqual(['2.0.0/bi1', '2.0.0/fi0', '2.1.0/bi1', '2.1.0/fi0']);
+    expect(plan.jobs.map((j) => j.id).sort()).toEqual(['quillon-tarncam~2.0.0/bi1', 'quillon-tarncam~2.0.0/fi0', 'quillon-tarncam~2.1.0/bi1', 'quillon-tarncam~2.1.0/fi0']);
     for (const j of plan.jobs) expect(j.fingerprint).toMatch(HEX64);
     // Planning twice gives the same plan (deterministic).
     const again = kiln('plan', '--content', ws.content);
@@ -63,7 +63,7 @@ describe('sharded build: plan, shards, gather', () => {
     const r = gather('no-shard-2', [shards[0], shards[2]]);
     expect(r.status).toBe(2);
     const line = expectOneLine(r.stderr);
-    expect(line).toContain('1 of 4 planned jobs missing: 2.0.0/bi1');
+    expect(line).toContain('1 of 4 planned jobs missing: quillon-tarncam~2.0.0/bi1');
     expect(line).toContain('shard 2/3 not given or failed');
     expect(existsSync(at('no-shard-2'))).toBe(false);
   });
@@ -154,10 +154,10 @@ describe('sharded build: plan, shards, gather', () => {
     ws.replace(RELEASE, 'readNoiseE: 3.9,', 'readNoiseE: 3.92,');
     const withPlan = gather('stale-plan', shards, '--plan', planFile);
     expect(withPlan.status).toBe(2);
-    expect(expectOneLine(withPlan.stderr)).toContain('plan is stale: the inputs of job 2.0.0/fi0 changed since planning');
+    expect(expectOneLine(withPlan.stderr)).toContain('plan is stale: the inputs of job quillon-tarncam~2.0.0/fi0 changed since planning');
     const noPlan = gather('stale', shards);
     expect(noPlan.status).toBe(2);
-    expect(expectOneLine(noPlan.stderr)).toContain('job 2.0.0/fi0 of shard 1/3 is stale');
+    expect(expectOneLine(noPlan.stderr)).toContain('job quillon-tarncam~2.0.0/fi0 of shard 1/3 is stale');
     const shard = kiln('build', '--content', ws.content, '--shard', '1/3', '--plan', planFile, '--out', at('stale-shard'));
     expect(shard.status).toBe(2);
     expect(expectOneLine(shard.stderr)).toContain('plan is stale');
