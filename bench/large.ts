@@ -34,6 +34,21 @@ export function timedRun(cmd: string[], cwd: string, timeFile: string): Run {
   return { wallS: round(wallS), cpuS: round(user + sys), peakRssMB: round(maxKb / KB_PER_MB, 1), stdout: r.stdout };
 }
 
+/** A clean build and a no-change rebuild, as one line's fields. */
+const rebuildFields = (clean: Run, again: Run) => ({
+  wallS: clean.wallS,
+  cpuS: clean.cpuS,
+  peakRssMB: clean.peakRssMB,
+  noChangeRebuildS: again.wallS,
+  noChangeRebuildPeakRssMB: again.peakRssMB,
+  noChangeRatio: round(again.wallS / clean.wallS, 3),
+});
+
+/** Removes a case's content tree, its output and the output's cache. */
+function removeBuild(content: string, out: string): void {
+  for (const p of [content, out, `${out}.cache`]) rmSync(p, { recursive: true, force: true });
+}
+
 const timedBuild = (root: string, tmp: string, content: string, out: string, extra: string[]): Run =>
   timedRun([process.execPath, join(root, 'bin', 'kiln.mjs'), 'build', '--content', content, '--out', out, '--quiet', ...extra], root, join(tmp, 'large.time'));
 
@@ -55,12 +70,7 @@ export function largeLines(root: string, tmp: string, sizes: LargeInstrument[]):
       products,
       jobs: size.detectors,
       grid: `${size.channels}x${size.bins}`,
-      wallS: clean.wallS,
-      cpuS: clean.cpuS,
-      peakRssMB: clean.peakRssMB,
-      noChangeRebuildS: again.wallS,
-      noChangeRebuildPeakRssMB: again.peakRssMB,
-      noChangeRatio: round(again.wallS / clean.wallS, 3),
+      ...rebuildFields(clean, again),
       indexBytes: statSync(join(out, 'index.json')).size,
       finderFiles: finder.length,
       finderBytes: totalSize(finder),
@@ -72,9 +82,7 @@ export function largeLines(root: string, tmp: string, sizes: LargeInstrument[]):
       outputBytes: totalSize(releaseFiles),
       note: 'clean build (--no-cache), then a rebuild with nothing changed (every job from the cache); peak RSS of the build process under GNU time',
     };
-    rmSync(content, { recursive: true, force: true });
-    rmSync(out, { recursive: true, force: true });
-    rmSync(`${out}.cache`, { recursive: true, force: true });
+    removeBuild(content, out);
     return line;
   });
 }
@@ -86,17 +94,10 @@ export function demoRebuildLine(root: string, tmp: string): Record<string, unkno
   cpSync(join(root, 'content'), content, { recursive: true });
   const clean = timedBuild(root, tmp, content, out, ['--no-cache']);
   const again = timedBuild(root, tmp, content, out, []);
-  rmSync(content, { recursive: true, force: true });
-  rmSync(out, { recursive: true, force: true });
-  rmSync(`${out}.cache`, { recursive: true, force: true });
+  removeBuild(content, out);
   return {
     case: 'demo-rebuild',
-    wallS: clean.wallS,
-    cpuS: clean.cpuS,
-    peakRssMB: clean.peakRssMB,
-    noChangeRebuildS: again.wallS,
-    noChangeRebuildPeakRssMB: again.peakRssMB,
-    noChangeRatio: round(again.wallS / clean.wallS, 3),
+    ...rebuildFields(clean, again),
     note: 'demo content: clean build (--no-cache), then nothing changed (jobs, spectral sections and re-examinations from the cache); wall time of the whole process',
   };
 }

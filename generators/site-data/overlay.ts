@@ -19,6 +19,18 @@ function curve(x: readonly number[], y: readonly number[] | undefined, yLog = fa
   return { energyKeV: pick(x, keep), values: pick(y, keep) };
 }
 
+/** Line-profile curves on one energy grid (a detector's or a region's): FWHM, centroid, tail and shelf when present. */
+function profileCurves(energyKeV: readonly number[], p: { fwhmEv: readonly number[]; centroidOffsetEv: readonly number[]; tailFraction?: readonly number[]; shelfFraction?: readonly number[] }) {
+  const tail = curve(energyKeV, p.tailFraction, true);
+  const shelf = curve(energyKeV, p.shelfFraction);
+  return {
+    fwhmEv: curve(energyKeV, p.fwhmEv)!,
+    centroidOffsetEv: curve(energyKeV, p.centroidOffsetEv)!,
+    ...(tail ? { tailFraction: tail } : {}),
+    ...(shelf ? { shelfFraction: shelf } : {}),
+  };
+}
+
 /** One detector's entry: its model curves, its latest epoch's effective area, its regions' curves. */
 export function overlayDetector(d: DetectorSite): OverlayDetector {
   const r = d.resolution;
@@ -27,29 +39,19 @@ export function overlayDetector(d: DetectorSite): OverlayDetector {
   const eff = d.efficiency ? curve(d.efficiency.energyKeV, d.efficiency.detected) : undefined;
   const regions: OverlayRegion[] = (d.regions ?? []).map((g) => {
     const effR = d.efficiency && g.efficiencyDetected ? curve(d.efficiency.energyKeV, g.efficiencyDetected) : undefined;
-    const tail = curve(r.energyKeV, g.tailFraction, true);
-    const shelf = curve(r.energyKeV, g.shelfFraction);
     return {
       label: g.label,
       node: g.node,
       rowBand: g.rowBand,
-      fwhmEv: curve(r.energyKeV, g.fwhmEv)!,
-      centroidOffsetEv: curve(r.energyKeV, g.centroidOffsetEv)!,
-      ...(tail ? { tailFraction: tail } : {}),
-      ...(shelf ? { shelfFraction: shelf } : {}),
+      ...profileCurves(r.energyKeV, g),
       ...(effR ? { efficiency: effR } : {}),
     };
   });
-  const tail = curve(r.energyKeV, r.tailFraction, true);
-  const shelf = curve(r.energyKeV, r.shelfFraction);
   return {
     id: d.id,
     name: d.name,
     kind: d.kind,
-    fwhmEv: curve(r.energyKeV, r.fwhmEv)!,
-    centroidOffsetEv: curve(r.energyKeV, r.centroidOffsetEv)!,
-    ...(tail ? { tailFraction: tail } : {}),
-    ...(shelf ? { shelfFraction: shelf } : {}),
+    ...profileCurves(r.energyKeV, r),
     ...(r.tailSource ? { tailSource: r.tailSource } : {}),
     ...(eff ? { efficiency: { ...eff, epoch: d.efficiency!.epoch } } : {}),
     ...(area ? { effectiveAreaCm2: { ...area, epoch: last.id } } : {}),
