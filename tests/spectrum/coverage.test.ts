@@ -5,22 +5,23 @@
  * 8, as observers bin before fitting: interval coverage is a property of the likelihood and of the
  * ΔC rule, not of the channel resolution, and 8× fewer matrix elements make each fit cheaper),
  * each fitted with the same response.
- * Each parameter's interval must hold the truth in 59–77 % of trials (68.3 % ± 2.4 binomial
- * standard deviations for 150 trials; ΔC = 2.71 would give 90 %, ΔC = 0.5 52 %) and the mean bias must stay below a fifth of the mean error.
+ * Each parameter's interval must hold the truth in 60–76 % of trials (68.3 % ± 2.3 binomial
+ * standard deviations for 200 trials; ΔC = 2.71 would give 90 %, ΔC = 0.5 52 %) and the mean bias
+ * must stay below a fifth of the mean error.
  */
 import { describe, expect, it } from 'vitest';
 import { loadSourceFile } from '../../generators/content/index.ts';
 import { binnedPhotonFlux, fitSpectrum, foldCounts, modelParameters, poissonDraws } from '../../generators/spectrum/index.ts';
 import { demoResponse, regroupChannels, SOURCES } from './helpers.ts';
 
-const TRIALS = 150;
+const TRIALS = 200;
 /** A tenth of the source's reference exposure: about 10⁴ counts, where the C-statistic matters. */
 const EXPOSURE_S = 2000;
 /** Channels summed per group (1024 → 128). */
 const CHANNEL_GROUP = 8;
 
 describe('coverage of the fitted 1σ intervals', () => {
-  it(`${TRIALS} seeded spectra: coverage 59–77 % and |mean bias| < σ/5 for every parameter`, { timeout: 1_800_000 }, async () => {
+  it(`${TRIALS} seeded spectra: coverage 60–76 % and |mean bias| < σ/5 for every parameter`, { timeout: 1_800_000 }, async () => {
     const source = await loadSourceFile(`${SOURCES}/absorbed-power-law.yaml`);
     const demo = demoResponse();
     const grid = demo.grid;
@@ -47,8 +48,8 @@ describe('coverage of the fitted 1σ intervals', () => {
       const coverage = s.inside / converged;
       const biasOverError = s.bias / s.error;
       console.info(`coverage ${name}: ${(100 * coverage).toFixed(1)} %, mean bias ${biasOverError.toFixed(3)} σ`);
-      expect(coverage, name).toBeGreaterThanOrEqual(0.59);
-      expect(coverage, name).toBeLessThanOrEqual(0.77);
+      expect(coverage, name).toBeGreaterThanOrEqual(0.6);
+      expect(coverage, name).toBeLessThanOrEqual(0.76);
       expect(Math.abs(biasOverError), name).toBeLessThan(0.2);
     }
   });
