@@ -20,7 +20,8 @@ export default defineConfig({
       'tests/spectrum/**/*.test.ts',
       'tests/atomic/**/*.test.ts',
     ],
-    testTimeout: 60_000,
+    // Hang guard only (as in vitest.config.ts): CLI tests run a demo build and take minutes on loaded cores.
+    testTimeout: 300_000,
     hookTimeout: 300_000,
     pool: 'forks',
   },
