@@ -10,7 +10,7 @@ const CORE = [
   'generators/fit/**/*.ts',
   'generators/checks/**/*.ts',
   'generators/compare/**/*.ts',
-  'generators/engine/**/*.ts',
+  'generators/spectrum/**/*.ts',
   'generators/numeric/**/*.ts',
   'generators/pipeline/atomic.ts',
   'generators/pipeline/archive.ts',
