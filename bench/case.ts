@@ -1,16 +1,18 @@
 /**
  * One benchmark case in its own process, so that its peak RSS is its own:
- *   node --import tsx bench/case.ts <case> <tmpDir>
+ *   node --import tsx bench/case.ts <case> <tmpDir> [<threads>]
  *   node --import tsx bench/case.ts check-<case> <tmpDir>
  * Prints one JSON line (a CaseResult). A product case is timed from after its inputs are loaded
  * over the model, the FITS bytes and the durable write; the check case reads the written file
- * and runs every per-product check on it (what `kiln check` does).
+ * and runs every per-product check on it (what `kiln check` does). An RMF is built on every core
+ * (pipeline/matrix-threads.ts; worker start-up is timed) unless <threads> says otherwise.
  */
 import { join, resolve } from 'node:path';
-import { buildRedistribution, energyGrid, type RedistributionResult } from '../generators/response/index.ts';
+import { energyGrid, type RedistributionResult } from '../generators/response/index.ts';
+import { buildRedistributionThreaded, matrixThreads } from '../generators/pipeline/matrix-threads.ts';
 import { writeArf, writeRmf } from '../generators/ogip/index.ts';
 import { checkFile } from '../generators/checks/index.ts';
-import { binCentresKeV, efficiencyBreakdown, escapeInputsFor, mirrorAreaAtBinCentres } from '../generators/physics/index.ts';
+import { binCentresKeV, efficiencyBreakdown, mirrorAreaAtBinCentres } from '../generators/physics/index.ts';
 import { loadContent } from '../generators/content/index.ts';
 import { readFileSync } from 'node:fs';
 import { ARF_CASE, BENCH_META, BENCH_SPEC, CHECK_PREFIX, RMF_CASES, channelGridOf, checkCaseOf, energyGridOf } from './cases.ts';
@@ -26,12 +28,12 @@ function checkCounts(checks: { status: string }[]): Record<string, number> {
   return out;
 }
 
-async function runRmf(name: string, tmpDir: string): Promise<CaseResult> {
+async function runRmf(name: string, tmpDir: string, threads: number | undefined): Promise<CaseResult> {
   const c = RMF_CASES.find((x) => x.name === name)!;
-  const silicon = escapeInputsFor('Si');
   const path = join(tmpDir, `${name}.fits`);
   const clock = new Clock();
-  let r: RedistributionResult | null = buildRedistribution({ spec: BENCH_SPEC, lineFits: [], energy: energyGridOf(c.energies), channels: channelGridOf(c.channels), meta: BENCH_META, silicon });
+  const input = { spec: BENCH_SPEC, lineFits: [], energy: energyGridOf(c.energies), channels: channelGridOf(c.channels), meta: BENCH_META, siliconElement: 'Si' };
+  let r: RedistributionResult | null = await buildRedistributionThreaded(input, { threads });
   clock.lap('modelS');
   const bytes = writeRmf(r.rmf);
   const nnz = r.nnz;
@@ -41,7 +43,7 @@ async function runRmf(name: string, tmpDir: string): Promise<CaseResult> {
   clock.lap('fitsBytesS');
   writeFileSynced(path, bytes);
   clock.lap('writeS');
-  return clock.result(name, { bytesWritten: bytes.length, nnz, files: [path] });
+  return clock.result(name, { bytesWritten: bytes.length, nnz, files: [path], threads: matrixThreads(threads) });
 }
 
 /** Reads a product written by its case and validates it. */
@@ -80,9 +82,10 @@ async function runArf(tmpDir: string): Promise<CaseResult> {
   return clock.result(ARF_CASE.name, { bytesWritten: bytes.length, nnz: bins.loKeV.length, files: [path] });
 }
 
-const [name, tmpDir] = process.argv.slice(2);
-if (!name || !tmpDir) {
-  console.error('usage: node --import tsx bench/case.ts <case> <tmpDir>');
+const [name, tmpDir, threadsText] = process.argv.slice(2);
+const threads = threadsText === undefined ? undefined : Number(threadsText);
+if (!name || !tmpDir || (threads !== undefined && !(Number.isInteger(threads) && threads >= 1))) {
+  console.error('usage: node --import tsx bench/case.ts <case> <tmpDir> [<threads>]');
   process.exit(2);
 }
 const product = name.startsWith(CHECK_PREFIX) ? name.slice(CHECK_PREFIX.length) : null;
@@ -92,7 +95,7 @@ const result =
     : name === ARF_CASE.name
       ? await runArf(tmpDir)
       : RMF_CASES.some((c) => c.name === name)
-        ? await runRmf(name, tmpDir)
+        ? await runRmf(name, tmpDir, threads)
         : null;
 if (!result) {
   console.error(`bench/case.ts: unknown case "${name}"`);

@@ -5,8 +5,7 @@
  * product gives the published bytes. Pure.
  */
 import { binCentresKeV, effectiveArea, efficiencyBreakdown, mirrorAreaAtBinCentres, type EfficiencyBreakdown } from '../physics/index.ts';
-import { escapeInputsFor } from '../physics/escape-inputs.ts';
-import { buildRedistribution, countsStackFluorescence, efficiencyOptionsFor, fluorescencePerIncident, type EnergyBins, type RedistributionResult } from '../response/index.ts';
+import { buildRedistribution, countsStackFluorescence, efficiencyOptionsFor, fluorescencePerIncident, localInput, type EnergyBins, type PortableRedistributionInput, type RedistributionResult } from '../response/index.ts';
 import { validRange, type ValidRange } from '../response/valid-range.ts';
 import type { ArfData, ResponseMeta, RmfData } from '../response/types.ts';
 import type { ChannelGrid } from '../response/model-types.ts';
@@ -118,24 +117,27 @@ export function rmfHistory(job: DetectorJob, choice: CaseChoice): string[] {
   return lines;
 }
 
-/** The region's matrix on the case's grid. */
-export function regionRedistribution(job: DetectorJob, choice: CaseChoice, validFrom: string, onProgress?: (done: number, total: number) => void): RedistributionResult {
+/** The input of the region's matrix on the case's grid, in a form another thread can take (response/portable-input.ts). */
+export function regionRedistributionInput(job: DetectorJob, choice: CaseChoice, validFrom: string): PortableRedistributionInput {
   const spec = choice.region.spec;
   const sensorFormula = job.detector.stack.sensor.material.formula;
-  const silicon = spec.escape || spec.siFluorescenceFraction > 0 || countsStackFluorescence(spec) ? escapeInputsFor(sensorFormula) : undefined;
-  return buildRedistribution({
+  return {
     spec,
     lineFits: job.detector.lineFits,
     energy: choice.grid.bins,
     channels: groupedChannels(job.instrument.channels, choice.group),
     meta: metaFor(job, { validFrom, validTo: validToOf(job), range: caseValidRange(job, choice), channels: true }, rmfHistory(job, choice)),
-    silicon,
+    siliconElement: spec.escape || spec.siFluorescenceFraction > 0 || countsStackFluorescence(spec) ? sensorFormula : undefined,
     // the stack: a collection-model tail needs the sensor's partial layer, stack fluorescence its layers
     stack: job.detector.stack,
     file: job.detector.lineFitsFile,
     transferLoss: transferLossOf(choice.region),
-    onProgress,
-  });
+  };
+}
+
+/** The region's matrix on the case's grid. */
+export function regionRedistribution(job: DetectorJob, choice: CaseChoice, validFrom: string, onProgress?: (done: number, total: number) => void): RedistributionResult {
+  return buildRedistribution({ ...localInput(regionRedistributionInput(job, choice, validFrom)), onProgress });
 }
 
 export interface AreaOnDate {

@@ -6,3 +6,5 @@ export * from './redistribution.ts';
 export * from './fluorescence-share.ts';
 export * from './collection-options.ts';
 export * from './valid-range.ts';
+export * from './row-block.ts';
+export * from './portable-input.ts';

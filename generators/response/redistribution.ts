@@ -73,7 +73,7 @@ export interface RedistributionResult {
   nnz: number;
 }
 
-interface RowContext {
+export interface RowContext {
   bounds: Float64Array;
   widthKeV: number;
   thresholdKeV: number;
@@ -169,8 +169,28 @@ export function withTransferLoss(paramsAt: ParamsAt, t: { law: TransferLossLaw; 
   return wrapped;
 }
 
-/** Builds the matrix and its loss report. Throws KilnInputError on bad grids or parameters. */
-export function buildRedistribution(input: RedistributionInput): RedistributionResult {
+/**
+ * Everything the rows of one matrix need, resolved once from the input: checked grids, the
+ * profile laws, the cut. Holds functions (the laws), so each thread prepares its own.
+ */
+export interface PreparedRedistribution {
+  bins: EnergyBins;
+  channels: ChannelGrid;
+  cut: number;
+  meta: ResponseMeta;
+  paramsAt: ParamsAt;
+  rc: RowContext;
+  fluoCtx: ProfileContext['fluorescence'];
+}
+
+/** Rows [i0, i1) of a matrix: their grouped form and their losses (index 0 = row i0). */
+export interface RowBlock {
+  rows: RmfRow[];
+  losses: RowLosses;
+}
+
+/** Checks the input and resolves what every row needs. Throws KilnInputError on bad grids or parameters. */
+export function prepareRedistribution(input: Omit<RedistributionInput, 'onProgress'>): PreparedRedistribution {
   const { spec, channels, silicon, file } = input;
   const bins = 'loKeV' in input.energy ? checkEnergyBins(input.energy, 'energyBins', file) : energyGrid(input.energy, 'energyGrid', file);
   const bounds = channelBoundsKeV(channels, 'channels', file);
@@ -185,9 +205,8 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
     input.transferLoss ?? null,
     spec.pairEnergyEv,
   );
-  const n = channels.count;
   const budget = input.dropBudget ?? DEFAULT_DROP_BUDGET;
-  const cut = input.cut ?? cutForBudget(n, budget);
+  const cut = input.cut ?? cutForBudget(channels.count, budget);
   if (!(cut >= 0 && cut < 1)) throw new KilnInputError('matrix element cut out of range', { file, field: 'cut', value: cut, expected: 'in [0, 1)' });
   const rc: RowContext = { bounds, widthKeV: channels.widthEv / 1000, thresholdKeV: spec.thresholdKeV };
 
@@ -196,42 +215,82 @@ export function buildRedistribution(input: RedistributionInput): RedistributionR
     const pf = paramsAt(silicon.kAlphaKeV);
     fluoCtx = { centroidKeV: pf.centroidKeV, sigmaKeV: pf.sigmaKeV };
   }
+  return { bins, channels, cut, meta: input.meta, paramsAt, rc, fluoCtx };
+}
 
+/**
+ * Rows [i0, i1) of the matrix. A row depends on its own energy bin only (nothing carries from one
+ * row to the next), so rows computed in any split, in any thread, are the rows of the whole.
+ * onProgress gets (rows done in this block, rows in this block) every PROGRESS_ROWS rows and at the end.
+ */
+export function redistributionRows(p: PreparedRedistribution, i0: number, i1: number, onProgress?: (done: number, total: number) => void): RowBlock {
+  const { bins, channels, cut, paramsAt, rc, fluoCtx } = p;
   const nE = bins.loKeV.length;
-  const rows: RmfRow[] = new Array(nE);
-  const losses: RowLosses = { thresholdLoss: new Float64Array(nE), outsideLoss: new Float64Array(nE), droppedByCut: new Float64Array(nE) };
-  const prob = new Float64Array(n);
+  if (!(Number.isInteger(i0) && Number.isInteger(i1) && 0 <= i0 && i0 <= i1 && i1 <= nE)) throw new RangeError(`rows [${i0}, ${i1}) outside the matrix's ${nE} rows`);
+  const count = i1 - i0;
+  const bounds = rc.bounds;
+  const rows: RmfRow[] = new Array(count);
+  const losses: RowLosses = { thresholdLoss: new Float64Array(count), outsideLoss: new Float64Array(count), droppedByCut: new Float64Array(count) };
+  const prob = new Float64Array(channels.count);
   const acc = new Float64Array(2);
-  let nnz = 0;
-  for (let i = 0; i < nE; i++) {
+  for (let r = 0; r < count; r++) {
+    const i = i0 + r;
     prob.fill(0);
     acc.fill(0);
     const { e, w } = nodesFor(bins.loKeV[i], bins.hiKeV[i], paramsAt);
     for (let k = 0; k < e.length; k++) {
-      const p = paramsAt(e[k]);
+      const q = paramsAt(e[k]);
       const ctx: ProfileContext = { shelfLowKeV: bounds[0], fluorescence: fluoCtx };
-      if (p.escapeFraction > 0 && paramsAt.escapeAt) ctx.escape = paramsAt.escapeAt(e[k]);
-      for (const c of mergeCoreAndTail(profileComponents(p, ctx, e[k]))) addComponent(prob, rc, c, w[k] * c.fraction, acc);
+      if (q.escapeFraction > 0 && paramsAt.escapeAt) ctx.escape = paramsAt.escapeAt(e[k]);
+      for (const c of mergeCoreAndTail(profileComponents(q, ctx, e[k]))) addComponent(prob, rc, c, w[k] * c.fraction, acc);
     }
     const { row, dropped } = compressRow(prob, cut, channels.firstChannel);
-    rows[i] = row;
-    nnz += row.matrix.length;
-    losses.thresholdLoss[i] = acc[0];
-    losses.outsideLoss[i] = acc[1];
-    losses.droppedByCut[i] = dropped;
-    if (input.onProgress && ((i + 1) % PROGRESS_ROWS === 0 || i + 1 === nE)) input.onProgress(i + 1, nE);
+    rows[r] = row;
+    losses.thresholdLoss[r] = acc[0];
+    losses.outsideLoss[r] = acc[1];
+    losses.droppedByCut[r] = dropped;
+    if (onProgress && ((r + 1) % PROGRESS_ROWS === 0 || r + 1 === count)) onProgress(r + 1, count);
   }
+  return { rows, losses };
+}
 
+/** The matrix from its row blocks, given in row order and covering every row once. */
+export function assembleRedistribution(p: PreparedRedistribution, blocks: readonly RowBlock[]): RedistributionResult {
+  const nE = p.bins.loKeV.length;
+  const total = blocks.reduce((s, b) => s + b.rows.length, 0);
+  if (total !== nE) throw new RangeError(`row blocks hold ${total} rows; the matrix has ${nE}`);
+  const single = blocks.length === 1;
+  const rows: RmfRow[] = single ? blocks[0].rows : new Array(nE);
+  const losses: RowLosses = single ? blocks[0].losses : { thresholdLoss: new Float64Array(nE), outsideLoss: new Float64Array(nE), droppedByCut: new Float64Array(nE) };
+  let at = 0;
+  let nnz = 0;
+  for (const b of blocks) {
+    if (!single) {
+      for (let r = 0; r < b.rows.length; r++) rows[at + r] = b.rows[r];
+      losses.thresholdLoss.set(b.losses.thresholdLoss, at);
+      losses.outsideLoss.set(b.losses.outsideLoss, at);
+      losses.droppedByCut.set(b.losses.droppedByCut, at);
+    }
+    for (const row of b.rows) nnz += row.matrix.length;
+    at += b.rows.length;
+  }
+  const { channels } = p;
   const rmf: RmfData = {
-    meta: input.meta,
+    meta: p.meta,
     hduclas3: 'REDIST',
-    detchans: n,
+    detchans: channels.count,
     firstChannel: channels.firstChannel,
-    loThres: cut,
-    energLoKeV: bins.loKeV,
-    energHiKeV: bins.hiKeV,
+    loThres: p.cut,
+    energLoKeV: p.bins.loKeV,
+    energHiKeV: p.bins.hiKeV,
     rows,
     ebounds: eboundsFromChannels(channels),
   };
   return { rmf, losses, nnz };
+}
+
+/** Builds the matrix and its loss report in this thread. Throws KilnInputError on bad grids or parameters. */
+export function buildRedistribution(input: RedistributionInput): RedistributionResult {
+  const p = prepareRedistribution(input);
+  return assembleRedistribution(p, [redistributionRows(p, 0, p.bins.loKeV.length, input.onProgress)]);
 }

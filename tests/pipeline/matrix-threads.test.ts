@@ -1,0 +1,174 @@
+/**
+ * One matrix on several threads (generators/pipeline/matrix-threads.ts): the FITS bytes equal the
+ * single-thread build's for the demo's detectors (tails, shelf, escape peak, transfer loss), also
+ * for an uneven split; a worker that fails makes the build fail with a clear error and no matrix.
+ * The reference is the single-thread product path itself (model/parts.ts regionRedistribution).
+ */
+import { beforeAll, describe, expect, it } from 'vitest';
+import { Worker } from 'node:worker_threads';
+import { buildRedistributionThreaded, MIN_THREADED_CELLS, rowChunks, type MatrixThreadOptions } from '../../generators/pipeline/matrix-threads.ts';
+import { regionRedistribution, regionRedistributionInput, type CaseChoice } from '../../generators/model/parts.ts';
+import { regionsOf } from '../../generators/model/regions.ts';
+import { detectorValidity, modelGrid } from '../../generators/pipeline/product.ts';
+import type { DetectorJob } from '../../generators/pipeline/job.ts';
+import { buildRedistribution, localInput, type PortableRedistributionInput, type RedistributionResult } from '../../generators/response/index.ts';
+import { writeRmf } from '../../generators/ogip/index.ts';
+import { KilnInputError } from '../../generators/errors.ts';
+import { demoJobs } from '../support/demo-jobs.ts';
+import { CHANNELS, META, fullSpec } from '../response/spec-fixtures.ts';
+
+const FIXTURES = new URL('../fixtures/matrix-workers/', import.meta.url);
+const sameBytes = (a: RedistributionResult, b: RedistributionResult) => Buffer.from(writeRmf(a.rmf)).equals(Buffer.from(writeRmf(b.rmf)));
+
+/** Every component on, the table's silicon (for the failure cases). */
+const UNEVEN: PortableRedistributionInput = {
+  spec: fullSpec(),
+  lineFits: [],
+  energy: { minKeV: 0.15, maxKeV: 11, bins: 1001, spacing: 'log' },
+  channels: CHANNELS,
+  meta: META,
+  siliconElement: 'Si',
+};
+
+/** Threaded with every row on worker threads (this thread would otherwise finish a small matrix before they start). */
+async function onWorkers(input: PortableRedistributionInput, threads: number, extra: MatrixThreadOptions = {}) {
+  const chunks: { i0: number; i1: number; thread: number }[] = [];
+  const r = await buildRedistributionThreaded(input, { threads, minCells: 0, shareThisThread: false, onChunk: (c) => chunks.push(c), ...extra });
+  return { r, chunks };
+}
+
+describe('one matrix on several threads: same bytes', () => {
+  let cases: { name: string; job: DetectorJob; choice: CaseChoice; validFrom: string }[] = [];
+  beforeAll(async () => {
+    const jobs = await demoJobs();
+    const job = (release: string, det: string) => jobs.get(release)!.find((j) => j.detector.id === det)!;
+    const a = job('1.0.0', 'bi1');
+    const b = job('2.1.0', 'bi1');
+    cases = [
+      { name: '1.0.0 bi1 (tail from line fits)', job: a, choice: { region: regionsOf(a.detector, 'detector')[0], grid: modelGrid(a), group: 1 }, validFrom: detectorValidity(a).validFrom },
+      { name: '2.1.0 bi1 node (collection tail, transfer loss)', job: b, choice: { region: regionsOf(b.detector, 'node')[0], grid: modelGrid(b), group: 1 }, validFrom: detectorValidity(b).validFrom },
+    ];
+  });
+
+  it('the demo cases have the line shape under test: tail, shelf, escape peak (and transfer loss in one)', () => {
+    for (const c of cases) {
+      const s = c.choice.region.spec;
+      expect(s.tail.source === 'line-fits' || s.tail.source === 'collection' || s.tail.fractionAtZero > 0).toBe(true);
+      expect(s.shelf.source === 'line-fits' || s.shelf.fraction > 0).toBe(true);
+      expect(s.escape).toBe(true);
+    }
+    expect(regionRedistributionInput(cases[1].job, cases[1].choice, cases[1].validFrom).transferLoss).not.toBeNull();
+  });
+
+  it('demo detectors, rows on 2 and on 3 workers (800 rows: 3 does not divide them, chunks of unequal size): the RMF bytes, losses and element count of the single-thread product', async () => {
+    for (const [c, workers] of [[cases[0], 2], [cases[1], 3]] as const) {
+      const single = regionRedistribution(c.job, c.choice, c.validFrom);
+      const progress: number[] = [];
+      const { r, chunks } = await onWorkers(regionRedistributionInput(c.job, c.choice, c.validFrom), workers, { onProgress: (done) => progress.push(done) });
+      expect(chunks.every((k) => k.thread >= 1), c.name).toBe(true);
+      if (workers === 3) {
+        expect(single.rmf.rows.length % workers).not.toBe(0);
+        expect(new Set(chunks.map((k) => k.i1 - k.i0)).size).toBeGreaterThan(1);
+      }
+      expect(sameBytes(r, single), c.name).toBe(true);
+      expect(r.losses, c.name).toEqual(single.losses);
+      expect(r.nnz, c.name).toBe(single.nnz);
+      expect(progress[progress.length - 1]).toBe(single.rmf.rows.length);
+    }
+  });
+
+  it('this thread and a worker sharing the rows (the default; this thread surely computes some): the same bytes', async () => {
+    const c = cases[1];
+    const threads: number[] = [];
+    const r = await buildRedistributionThreaded(regionRedistributionInput(c.job, c.choice, c.validFrom), { threads: 2, minCells: 0, onChunk: (k) => threads.push(k.thread) });
+    expect(threads).toContain(0);
+    expect(sameBytes(r, regionRedistribution(c.job, c.choice, c.validFrom))).toBe(true);
+  });
+
+  it('a small matrix stays in this thread (no worker start-up): under the threshold no worker is asked', async () => {
+    const small = { ...UNEVEN, energy: { ...UNEVEN.energy, bins: 50 } };
+    expect(50 * CHANNELS.count).toBeLessThan(MIN_THREADED_CELLS);
+    // A worker script that does not exist: starting one would fail the build.
+    const r = await buildRedistributionThreaded(small, { threads: 2, workerUrl: new URL('no-such-worker.mjs', FIXTURES) });
+    expect(sameBytes(r, buildRedistribution(localInput(small)))).toBe(true);
+  });
+});
+
+describe('rowChunks', () => {
+  it('contiguous, in order, covering every row once, sizes differing by at most one', () => {
+    for (const [nE, n] of [[1001, 48], [8192, 32], [5, 32], [1, 4]]) {
+      const c = rowChunks(nE, n);
+      expect(c[0][0]).toBe(0);
+      expect(c[c.length - 1][1]).toBe(nE);
+      c.slice(1).forEach((k, i) => expect(k[0]).toBe(c[i][1]));
+      const sizes = c.map(([a, b]) => b - a);
+      expect(Math.min(...sizes)).toBeGreaterThanOrEqual(1);
+      expect(Math.max(...sizes) - Math.min(...sizes)).toBeLessThanOrEqual(1);
+    }
+  });
+});
+
+describe('one matrix on several threads: failures', () => {
+  const failing = (script: string, extra: MatrixThreadOptions = {}) =>
+    buildRedistributionThreaded(UNEVEN, { threads: 2, minCells: 0, shareThisThread: false, workerUrl: new URL(script, FIXTURES), ...extra });
+
+  for (const [script, message] of [
+    ['replies-error.mjs', /matrix worker failed: planted failure in a row/],
+    ['throws.mjs', /matrix worker failed: planted crash in a worker/],
+    ['exits.mjs', /matrix worker stopped \(exit code 3\) before returning rows \d+–\d+/],
+    ['bad-rows.mjs', /packed rows do not add up/],
+  ] as const)
+    it(`a worker that fails (${script}) rejects the build with a clear error, and no matrix`, async () => {
+      let chunksPlaced = 0;
+      try {
+        await failing(script, { onChunk: () => chunksPlaced++ });
+        expect.unreachable();
+      } catch (e) {
+        expect((e as Error).message).toMatch(message);
+      }
+      expect(chunksPlaced).toBe(0);
+    });
+
+  it('a worker that fails while this thread shares the rows still fails the build', async () => {
+    // This thread's rows take far longer than the stand-in's start-up, so the stand-in is sent rows.
+    const big = { ...UNEVEN, energy: { ...UNEVEN.energy, bins: 8000 } };
+    await expect(buildRedistributionThreaded(big, { threads: 2, minCells: 0, workerUrl: new URL('replies-error.mjs', FIXTURES) })).rejects.toThrow(/planted failure in a row/);
+  });
+
+  it('an input error reported by a worker stays an input error (file, field, value, expected)', async () => {
+    try {
+      await failing('replies-input-error.mjs');
+      expect.unreachable();
+    } catch (e) {
+      expect(e).toBeInstanceOf(KilnInputError);
+      expect((e as KilnInputError).oneLine()).toBe('fwhm.fano: bad redistribution parameter fwhm.fano (got -1; expected > 0)');
+    }
+  });
+
+  it('a bad input fails in this thread before any worker starts', async () => {
+    // The worker script does not exist: had a worker started first, the error would name it.
+    const bad = { ...UNEVEN, cut: 2 };
+    await expect(buildRedistributionThreaded(bad, { threads: 2, minCells: 0, workerUrl: new URL('no-such-worker.mjs', FIXTURES) })).rejects.toMatchObject({ name: 'KilnInputError', where: { field: 'cut', value: 2 } });
+  });
+
+  it('an input that cannot be sent to a thread is refused with a clear error', async () => {
+    const withFunction = { ...UNEVEN, meta: { ...META, extraKeywords: [{ keyword: 'X', value: (() => 1) as unknown as number }] } };
+    await expect(buildRedistributionThreaded(withFunction, { threads: 2, minCells: 0 })).rejects.toThrow(/matrix input cannot be sent to a worker thread/);
+  });
+
+  it('a bad thread count is refused', async () => {
+    for (const threads of [0, 1.5, -1, 1e6]) await expect(buildRedistributionThreaded(UNEVEN, { threads })).rejects.toMatchObject({ name: 'KilnInputError', where: { field: 'threads' } });
+  });
+});
+
+describe('no nested parallelism', () => {
+  it('inside a worker thread (a job of the build pool) a matrix uses that thread alone', async () => {
+    const w = new Worker(new URL('nested.mjs', FIXTURES));
+    const got = await new Promise((resolve, reject) => {
+      w.once('message', resolve);
+      w.once('error', reject);
+    });
+    await w.terminate();
+    expect(got).toEqual([1, 1]);
+  });
+});
