@@ -23,10 +23,12 @@
  * moves ln T by δ·τ): thin layers are held tightly, opaque ones proportionally. Measured: the
  * worst bin uses 0.47 of this allowance.
  */
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { buildDetectorProducts } from '../../generators/pipeline/product.ts';
 import type { DetectorJob } from '../../generators/pipeline/job.ts';
-import { demoJobs } from '../support/demo-jobs.ts';
+import { DEMO_CONTENT_DIR, demoJobs } from '../support/demo-jobs.ts';
 import { runXraylibChecks, runPythonJson } from '../support/python.ts';
 
 const REL_PER_DEPTH = 2e-4;
@@ -148,6 +150,9 @@ describe.runIf(runXraylibChecks)('ARF per epoch against an xraylib recomputation
 
   it('covers every release, detector and epoch of the demo, some epochs starting before their reference date', () => {
     expect(jobs.length).toBeGreaterThanOrEqual(6);
+    // Every release folder of the content, not only those jobsOf happened to return.
+    expect([...new Set(jobs.map((j) => j.release))].sort()).toEqual(readdirSync(join(DEMO_CONTENT_DIR, 'releases')).sort());
+    expect(jobs.every(({ job }) => job.detector.epochs.length > 0)).toBe(true);
     expect(jobs.some(({ job }) => job.detector.epochs.some((e) => e.validFrom !== e.date))).toBe(true);
     expect(ref.flat().some((e) => e.contaminationUm > 0)).toBe(true);
   });
