@@ -16,11 +16,28 @@ const TRUE = [0.002, 3, 30, 0.6];
 const ENERGIES = [0.183, 0.277, 0.392, 0.525, 0.705, 0.93, 1.254, 1.487, 2.3, 4.5, 5.899, 8.048];
 const ERR_EV = 0.8;
 
+/**
+ * The energy-scale law written out, not taken from the code under test (Kiln's model statement in
+ * response/model-types.ts; a charge loss at the entrance surface that fades with photon energy:
+ * common practice, no source): centroid(E) − E = g·E + offset − loss·exp(−E/scale), in eV.
+ */
+function lawShiftEv([gainError, offsetEv, chargeLossEv, chargeLossScaleKeV]: readonly number[], eKeV: number): number {
+  return gainError * eKeV * 1000 + offsetEv - chargeLossEv * Math.exp(-eKeV / chargeLossScaleKeV);
+}
+
+/** Lines drawn from the written-out law, so a wrong model cannot fit its own data back. */
 function synthetic(noise: () => number): LineFit[] {
   return ENERGIES.map((e, i) =>
-    lineFit(`L${i}`, e, { centroidKeV: e + (centroidShiftEv(TRUE, e) + ERR_EV * noise()) / 1000, centroidErrEv: ERR_EV }),
+    lineFit(`L${i}`, e, { centroidKeV: e + (lawShiftEv(TRUE, e) + ERR_EV * noise()) / 1000, centroidErrEv: ERR_EV }),
   );
 }
+
+describe('energy-scale law against the formula', () => {
+  it('centroidShiftEv equals the law written out, gain, offset and charge loss all non-zero', () => {
+    for (const theta of [TRUE, [-0.004, -2, 55, 0.35], [0.01, 8, 5, 2]])
+      for (const e of ENERGIES) expect(Math.abs(centroidShiftEv(theta, e) - lawShiftEv(theta, e)), `${theta} at ${e} keV`).toBeLessThan(1e-12 * (1 + Math.abs(lawShiftEv(theta, e))));
+  });
+});
 
 describe('energy-scale law fit', () => {
   it('recovers noiseless parameters and returns the law in content form', () => {

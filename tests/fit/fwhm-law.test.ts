@@ -20,8 +20,10 @@ const ERR_EV = 1.5;
 
 /**
  * The resolution law written out, not taken from the code under test: σ² = (w·N_r)²·n_pix(E) +
- * F·w·E + σ₀², n_pix = a + b·E (Fano, Phys. Rev. 72, 26 (1947) for F·w·E; read noise per pixel in
- * quadrature: common practice, no source), FWHM = 2√(2 ln 2)·σ (definition of the FWHM of a Gaussian).
+ * F·w·E + σ₀², n_pix = a + b·E (Fano, Phys. Rev. 72, 26 (1947) for F·w·E; read noise and Fano noise
+ * added in quadrature as in Janesick, Scientific Charge-Coupled Devices, SPIE Press 2001, from
+ * memory; read noise summed over the pixels of an event: common practice, no source),
+ * FWHM = 2√(2 ln 2)·σ (definition of the FWHM of a Gaussian: exact mathematics).
  */
 function lawFwhmEv([readNoiseE, fano, sigma0Ev]: readonly number[], eKeV: number): number {
   const npix = PPE.a + PPE.bPerKeV * eKeV;

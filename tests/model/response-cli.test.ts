@@ -23,6 +23,8 @@ let ws: Workspace;
 let build: CliResult;
 const rel = () => join(ws.out, 'releases', '2.1.0');
 const sha = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
+/** Allowed relative error of the deposit's μ/ρ in the dated-ARF check: 2.6× the largest measured (3.9e-3). */
+const CONTAMINATION_DELTA = 1e-2;
 
 beforeAll(() => {
   ws = workspace();
@@ -161,9 +163,13 @@ print(json.dumps(res))
     const mu = runPythonJson<number[]>('xraylib', 'import json,sys,xraylib; print(json.dumps([xraylib.CS_Total_CP("C8H8", e) for e in json.load(sys.stdin)]))', energies);
     const [aDate, aRef] = [view.area[join(out, files[0])], view.area[join(ref, 'quillon-tarncam_fi0_2027-01-15_2.1.0.arf')]];
     bins.forEach((i, k) => {
-      const expected = Math.exp(-mu[k] * 1.05 * (onDate - onRef) * 1e-4);
-      // 0.2 %: the interaction table interpolates xraylib to 0.1 % (its provenance)
-      expect(Math.abs(aDate[i] / aRef[i] / expected - 1)).toBeLessThan(0.002);
+      const depth = mu[k] * 1.05 * (onDate - onRef) * 1e-4;
+      // An error δ in μ/ρ moves ln(ratio) by δ·Δτ, Δτ the added deposit's optical depth (0.11 at
+      // 0.3 keV, 0.0064 at 1 keV): the allowance scales with Δτ, as a flat 0.2 % let μ be 31 % off
+      // at 1 keV. Measured δ: 3.9e-3 at 0.31 keV (26 eV above the C K edge, where μ changes most
+      // across the bin the ARF averages over; the reference is the bin-centre value), 1.1e-3 at
+      // 0.5 keV, 4.1e-4 at 1 keV; allowed δ = 1e-2.
+      expect(Math.abs(Math.log(aDate[i] / aRef[i]) + depth), `${energies[k]} keV, Δτ ${depth}`).toBeLessThanOrEqual(CONTAMINATION_DELTA * depth);
     });
   });
 

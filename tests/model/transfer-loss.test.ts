@@ -2,7 +2,7 @@
  * Charge lost in transfer (generators/physics/transfer-loss.ts), its effect on the matrix and the
  * fit of the law to lines measured in row bands.
  * Source of the law: charge after N transfers Q₀(1 − f)^N (Janesick, "Scientific Charge-Coupled
- * Devices", SPIE Press 2001, from memory; the primer §3 states the same), checked here against a
+ * Devices", SPIE Press 2001, from memory), checked here against a
  * hand computation: N multiplications by (1 − f), no library function.
  */
 import { describe, expect, it } from 'vitest';
@@ -33,7 +33,7 @@ describe('transfer loss: centroid shift E·(1 − (1 − f)^N)', () => {
     expect(lostFraction(f, n)).toBeCloseTo(1 - keptByHand(f, n), 12);
   });
 
-  it('is ≈ E·N·f when N·f ≪ 1 (first order, primer §3)', () => {
+  it('is ≈ E·N·f when N·f ≪ 1 (first order of the binomial expansion (1 − f)^N ≈ 1 − N·f: mathematics)', () => {
     const e = 5.895;
     const shift = transferShiftKeV(law(2e-6), e, e, 300);
     // second-order term E·(N f)²/2 ≈ 1e-6 keV: relative 3e-4
