@@ -7,7 +7,7 @@ import { OGIP_HDUCLASS, findExtension, instrumentCards, primaryCards, readMeta, 
 /** HDUVERS of the SPECRESP extension (OGIP CAL/GEN/92-002). */
 export const ARF_HDUVERS = '1.1.0';
 
-// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3); no reader interprets them and OGIP CAL/GEN/92-002 does not fix their wording, so a changed comment changes no meaning of the file.
+// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3, from memory); no reader interprets them and OGIP CAL/GEN/92-002 does not fix their wording, so a changed comment changes no meaning of the file.
 const COMMENT = {
   HDUCLASS: 'format conforms to OGIP standard',
   HDUCLAS1: 'dataset relates to spectral response',

@@ -9,7 +9,7 @@ export const PHA_HDUVERS = '1.2.1';
 const INT32_MIN = -2147483648;
 const INT32_MAX = 2147483647;
 
-// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3); no reader interprets them and OGIP/92-007 does not fix their wording, so a changed comment changes no meaning of the file.
+// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3, from memory); no reader interprets them and OGIP/92-007 does not fix their wording, so a changed comment changes no meaning of the file.
 const COMMENT = {
   EXPOSURE: 'exposure time (s)',
   AREASCAL: 'area scaling factor',

@@ -23,7 +23,7 @@ describe('identifyProduct', () => {
     expect(identifyProduct(fileOf([table('SPEC1', cols, classCards('SPECTRUM', 'TOTAL'))]))).toBe('pha');
   });
 
-  it('class keywords in the primary header alone make no product: the primary HDU holds no table (FITS 4.0 §7.3)', () => {
+  it('class keywords in the primary header alone make no product: the primary HDU holds no table (FITS 4.0 §7: tables are extensions)', () => {
     for (const cards of [classCards('RESPONSE', 'RSP_MATRIX'), classCards('RESPONSE', 'SPECRESP'), classCards('SPECTRUM')]) {
       expect(identifyProduct(fileOf([], { primaryCards: cards }))).toBeNull();
     }

@@ -121,7 +121,7 @@ describe('readPha: files Kiln did not write', () => {
   beforeAll(() => {
     if (!runAstropyChecks) return;
     // OGIP/92-007 type I spectrum as astropy writes it: RATE with STAT_ERR, QUALITY and GROUPING
-    // columns, channels 0..3 of a 1024-channel detector, undefined ANCRFILE (no value, FITS 4.0 §4.1.2.3).
+    // columns, channels 0..3 of a 1024-channel detector, undefined ANCRFILE (no value: an undefined value, FITS 4.0 §4.1.2.3, from memory).
     const code = String.raw`
 import sys
 import numpy as np
@@ -179,7 +179,7 @@ fits.HDUList([fits.PrimaryHDU(), s]).writeto(sys.argv[1], checksum=True)
   });
 
   it('refuses a file without a spectrum table, naming the file and what was expected', () => {
-    // HDUCLAS1 = SPECTRUM in the primary header: the primary HDU holds no table (FITS 4.0 §7.3: BINTABLE is an extension).
+    // HDUCLAS1 = SPECTRUM in the primary header: the primary HDU holds no table (FITS 4.0 §7: a BINTABLE is always an extension, never the primary HDU).
     const file = fileOf([table('OTHER', [{ name: 'X', tform: '1J', data: [1] }])], { primaryCards: classCards('SPECTRUM'), fileName: 'x.pha' });
     const e = inputError(() => readPha(file));
     expect(e).toBeInstanceOf(FitsFormatError);

@@ -128,25 +128,34 @@ describe('readRmf: files Kiln did not write', () => {
     expect(Array.from(byClass.eMinKeV)).toEqual([0, 1, 2, 3]);
   });
 
-  it('an EBOUNDS table without rows takes its first channel from TLMIN of CHANNEL (FITS 4.0 §7.3.2, the legal minimum)', () => {
+  it('an EBOUNDS table without rows takes its first channel from TLMIN of CHANNEL (TLMINn, the legal minimum: FITS 4.0 §7.3.2 from memory, and CAL/GEN/92-002a)', () => {
     const empty = [{ name: 'CHANNEL', tform: '1J', tlmin: 0, tlmax: 3, data: [] }, { name: 'E_MIN', tform: '1E', data: [] }, { name: 'E_MAX', tform: '1E', data: [] }];
     expect(readRmf(fileOf([table('MATRIX', matrixColumns()), table('EBOUNDS', empty)])).data.ebounds.firstChannel).toBe(0);
   });
 
   it('DETCHANS as written; without it, the channel range TLMIN..TLMAX of F_CHAN (CAL/GEN/92-002a)', () => {
     expect(readRmf(fileOf([table('MATRIX', matrixColumns(), [{ keyword: 'DETCHANS', value: 1024 }])])).data.detchans).toBe(1024);
-    const range = readRmf(fileOf([table('MATRIX', matrixColumns({}, { tlmin: 0, tlmax: 15 }))])).data;
-    expect([range.firstChannel, range.detchans]).toEqual([0, 16]);
+    for (const [tlmin, tlmax] of [[0, 15], [1, 16]]) {
+      const range = readRmf(fileOf([table('MATRIX', matrixColumns({}, { tlmin, tlmax }))])).data;
+      expect([range.firstChannel, range.detchans]).toEqual([tlmin, 16]);
+    }
   });
 
   it('HDUCLAS3 absent is read as an empty class, not invented', () => {
     expect(readRmf(fileOf([table('MATRIX', matrixColumns())])).data.hduclas3).toBe('');
   });
 
-  it('F_CHAN and N_CHAN as 64-bit integers (1PK, FITS 4.0 §7.3.5 allows any numeric type) read as the same groups', () => {
+  it('F_CHAN and N_CHAN as 64-bit integers (1PK or 1K; FITS 4.0 §7.3.5 allows any numeric type in a descriptor) read as the same groups', () => {
     const k = (name: string, cells: bigint[][]): ColumnInput => ({ name, tform: '1PK', data: cells.map((c) => BigInt64Array.from(c)) });
     const file = fileOf([table('MATRIX', matrixColumns({ F_CHAN: k('F_CHAN', [[1n], [2n, 4n]]), N_CHAN: k('N_CHAN', [[2n], [1n, 1n]]) }))]);
     expect(rowsOf(readRmf(file).data)).toEqual([[[1], [2], [0.5, 0.5]], [[2, 4], [1, 1], [0.25, 0.75]]]);
+    // Scalar 64-bit F_CHAN/N_CHAN: one group per row.
+    const scalar = fileOf([table('MATRIX', matrixColumns({
+      N_GRP: { name: 'N_GRP', tform: '1I', data: [1, 1] },
+      F_CHAN: { name: 'F_CHAN', tform: '1K', data: BigInt64Array.of(1n, 2n) },
+      N_CHAN: { name: 'N_CHAN', tform: '1K', data: BigInt64Array.of(2n, 2n) },
+    }))]);
+    expect(rowsOf(readRmf(scalar).data)).toEqual([[[1], [2], [0.5, 0.5]], [[2], [2], [0.25, 0.75]]]);
   });
 
   it('rows are views of the decoded MATRIX cells, not copies (the documented memory saving of readRmf)', () => {
