@@ -27,6 +27,7 @@ const ALL = [
  */
 const OWN: Record<string, string[]> = {
   'generators/fits': ['tests/fits/**/*.test.ts', 'tests/ogip/**/*.test.ts'],
+  'generators/fit': ['tests/fit/**/*.test.ts', 'tests/model/transfer-loss.test.ts'],
   'generators/pipeline/atomic.ts': ['tests/atomic/**/*.test.ts'],
   'generators/pipeline/archive.ts': ['tests/pipeline/seal.test.ts'],
 };
