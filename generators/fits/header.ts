@@ -135,7 +135,13 @@ export class FitsHeader {
   }
 
   add(input: CardInput): this {
-    if (COMMENTARY_KEYWORDS.has(input.keyword)) return this.addCommentary(input.keyword as 'COMMENT', input.comment ?? String(input.value ?? ''));
+    if (COMMENTARY_KEYWORDS.has(input.keyword)) {
+      // COMMENT, HISTORY and blank-keyword cards hold text in columns 9–80 and no value (FITS 4.0
+      // §4.4.2.4): a value given here would be written as text or dropped, so it is refused.
+      if (input.value !== undefined && input.value !== null)
+        fitsFail(this.ctx, 'commentary card given a value', { keyword: input.keyword, value: input.value as string | number | boolean, expected: 'text in comment, no value (FITS 4.0 §4.4.2.4)' });
+      return this.addCommentary(input.keyword as 'COMMENT', input.comment ?? '');
+    }
     return this.set(input.keyword, input.value ?? null, input.comment);
   }
 

@@ -12,6 +12,7 @@ import { KilnInputError } from '../../generators/errors.ts';
 import {
   FitsFormatError,
   encodeChecksum,
+  FitsHeader,
   formatCard,
   onesComplementSum,
   parseCard,
@@ -52,6 +53,23 @@ describe('cards (FITS Standard 4.0 §4.1-4.2)', () => {
     expect(formatCard('OBSERVER', "O'Hara").slice(10, 20)).toBe("'O''Hara '");
     // A real always has a decimal point (§4.2.4).
     expect(formatCard('EXPOSURE', real(1000)).slice(10, 30).trim()).toBe('1000.0');
+  });
+
+  it('refuses a value on a commentary card (COMMENT, HISTORY, blank keyword: text only, §4.4.2.4), which would be written as text or dropped', () => {
+    for (const keyword of ['COMMENT', 'HISTORY', '']) {
+      const h = new FitsHeader({ fileName: 'x.fits' });
+      let err: unknown;
+      try {
+        h.add({ keyword, value: 3, comment: 'text' });
+      } catch (e) {
+        err = e;
+      }
+      expect(err, keyword).toBeInstanceOf(FitsFormatError);
+      expect((err as FitsFormatError).message).toBe('commentary card given a value');
+      expect((err as FitsFormatError).where).toMatchObject({ file: 'x.fits', keyword, value: 3 });
+      h.add({ keyword, comment: 'text' });
+      expect(formatCard(keyword, null, 'text')).toBe(`${keyword.padEnd(8)}text`.padEnd(80));
+    }
   });
 
   it('parses what it formats, and rejects bad syntax', () => {
