@@ -66,7 +66,7 @@ describe('cards (FITS Standard 4.0 §4.1-4.2)', () => {
       }
       expect(err, keyword).toBeInstanceOf(FitsFormatError);
       expect((err as FitsFormatError).message).toBe('commentary card given a value');
-      expect((err as FitsFormatError).where).toMatchObject({ file: 'x.fits', keyword, value: 3 });
+      expect((err as FitsFormatError).fits).toMatchObject({ fileName: 'x.fits', keyword, value: 3 });
       h.add({ keyword, comment: 'text' });
       expect(formatCard(keyword, null, 'text')).toBe(`${keyword.padEnd(8)}text`.padEnd(80));
     }
