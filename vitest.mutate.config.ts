@@ -36,23 +36,7 @@ const parts = (process.env.KILN_MUTATE ?? '').split(',').filter(Boolean);
 
 export default defineConfig({
   test: {
-<<<<<<< Updated upstream
     include: parts.length ? [...new Set(parts.flatMap(ownTests))] : ALL,
-=======
-    include: [
-      'tests/fits/**/*.test.ts',
-      'tests/ogip/**/*.test.ts',
-      'tests/physics/**/*.test.ts',
-      'tests/response/**/*.test.ts',
-      'tests/fit/**/*.test.ts',
-      'tests/checks/**/*.test.ts',
-      'tests/compare/**/*.test.ts',
-      'tests/engine/**/*.test.ts',
-      'tests/numeric/**/*.test.ts',
-      'tests/spectrum/**/*.test.ts',
-      'tests/atomic/**/*.test.ts',
-    ],
->>>>>>> Stashed changes
     // Hang guard only (as in vitest.config.ts): CLI tests run a demo build and take minutes on loaded cores.
     testTimeout: 300_000,
     hookTimeout: 300_000,
