@@ -31,6 +31,13 @@ describe('probe energies', () => {
 const arf = (areas: number[]): ArfData => ({ meta: META, energLoKeV: Float64Array.of(1, 2, 3, 4), energHiKeV: Float64Array.of(2, 3, 4, 5), specrespCm2: Float64Array.from(areas) });
 
 describe('area table', () => {
+  it('default probes lie on the common range of the two grids (1–3 keV of 1–5 and 1–3)', () => {
+    const short: ArfData = { meta: META, energLoKeV: Float64Array.of(1, 2), energHiKeV: Float64Array.of(2, 3), specrespCm2: Float64Array.of(1, 1) };
+    const rows = arfDiffTable(arf([1, 1, 1, 1]), short);
+    expect(rows).toHaveLength(16);
+    expect(Math.min(...rows.map((r) => r.energyKeV))).toBeGreaterThan(1);
+    expect(Math.max(...rows.map((r) => r.energyKeV))).toBeLessThan(3);
+  });
   it('ratio B / A per probe, none where A has no area (B may have some)', () => {
     const rows = arfDiffTable(arf([0, 10, 10, 10]), arf([5, 20, 5, 10]), [1.5, 2.5, 3.5, 4.5]);
     expect(rows.map((r) => r.ratio)).toEqual([null, 2, 0.5, 1]);
@@ -80,6 +87,10 @@ describe('review verdict and text report', () => {
     expect(needsReview(report([check('pass'), check('warn')]))).toBe(false);
     expect(needsReview(report([check('pass'), check('review')]))).toBe(true);
     expect(needsReview(report([check('fail')]))).toBe(true);
+    // Any pair, not every pair.
+    const two = report([check('pass')]);
+    two.pairs.push({ ...two.pairs[0], label: 'bi1 ARF e1', checks: [check('review')] });
+    expect(needsReview(two)).toBe(true);
   });
   it('names both sides, shows a missing ratio as —, counts what is beyond the tolerances', () => {
     const t = formatCompareText(report([check('review'), check('pass', 'review.arf.ratio'), check('fail', 'review.x')]));
@@ -105,6 +116,32 @@ describe('review verdict and text report', () => {
   });
 });
 
+describe('text report layout', () => {
+  it('one blank line before each pair, the parameter list and the unmatched list, and before the verdict (the layout the README shows)', () => {
+    const t = formatCompareText(
+      report([check('review')], {
+        pairs: [
+          { label: 'fi0 RMF', detector: 'fi0', a: 'a.rmf', b: 'b.rmf', kind: 'rmf', rmf: [{ energyKeV: 1, centroidAKeV: 0.999, centroidDiffEv: null, fwhmAEv: 80, fwhmDiffEv: 1.5, rowSumA: 0.98, rowSumDiff: -0.01 }], checks: [] },
+          { label: 'fi0 ARF e1', detector: 'fi0', a: 'a.arf', b: 'b.arf', kind: 'arf', arf: [], checks: [check('review')] },
+        ],
+        parameters: [{ detector: 'fi0', group: 'resolution', name: 'Fano factor', unit: '', a: 0.118, b: 0.12, diff: 0.002, sigmas: null }],
+        unmatched: ['bi1 RMF'],
+      }),
+    );
+    const lines = t.split('\n');
+    const blanks = lines.flatMap((l, i) => (l === '' ? [i] : []));
+    // After the title; before each of the two pairs, the parameters, the unmatched list and the verdict.
+    expect(blanks.map((i) => lines[i + 1].split(':')[0])).toEqual(['fi0 RMF', 'fi0 ARF e1', 'parameter changes (A → B)', 'only on one side', '1 difference beyond the review tolerances']);
+    // Matrix rows: each value right-aligned under its column's label, a missing value as —.
+    const head = lines.find((l) => l.includes('energy keV'))!;
+    const row = lines[lines.indexOf(head) + 1];
+    expect(row.trim().split(/\s+/)).toEqual(['1.0000', '0.99900', '—', '80.00', '1.50', '0.98000', '-0.01000']);
+    const ends = (l: string) => [...l.matchAll(/\S+(?: \S+)*/g)].map((m) => m.index! + m[0].length);
+    expect(ends(row)).toEqual(ends(head));
+    expect(lines).toContain('  fi0  resolution: Fano factor: 0.118 → 0.12 (Δ 0.002)');
+  });
+});
+
 describe('impact text', () => {
   const spectral = (impact: unknown[]) =>
     ({ release: '2.1.0', comparedWith: '2.0.0', tolerance: { shiftSigma: 1, rateRatio: 0.01, reason: 'r' }, impact }) as unknown as ReleaseSpectral;
@@ -125,6 +162,14 @@ describe('impact text', () => {
     expect(lines[3]).toBe('    REVIEW  nH: 3.0000e+21 ± 4.2000e+19 with 2.1.0, 2.9000e+21 with 2.0.0: shift 1.0000e+20 cm-2 (2.38 σ)');
     expect(lines[4]).toBe('    REVIEW  soft band 0.3–2 keV: 3.287 counts/s with 2.1.0, 3.2 with 2.0.0 (ratio 1.0272)');
     expect(lines[5]).toBe('    within  hard band 5–10 keV: 0.0000e+0 counts/s with 2.1.0, 0.0000e+0 with 2.0.0 (ratio —)');
+  });
+  it('plain numbers from 1e-3 up to (not including) 1e6, exponent form outside', () => {
+    const one = (newer: number) =>
+      formatImpactText(spectral([{ detector: 'd', source: 's', exposureS: 1, simulatedCounts: 1, seed: 1, parameters: [{ name: 'p', unit: '', newer, newerError: 1, older: 1, shift: 1, shiftSigma: 1, review: false }], bands: [] }])).split('\n')[2];
+    expect(one(1e-3)).toContain('p: 0.001 ±');
+    expect(one(123456)).toContain('p: 123460 ±'); // 5 significant digits
+    expect(one(1e6)).toContain('p: 1.0000e+6 ±');
+    expect(one(9.9e-4)).toContain('p: 9.9000e-4 ±');
   });
   it('says when no detector can be compared', () => {
     expect(formatImpactText(spectral([])).split('\n')[1]).toBe('  no detector has a matrix and an effective area in both releases');
