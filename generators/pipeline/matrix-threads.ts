@@ -26,6 +26,7 @@ import {
   type RedistributionResult,
   type RowBlock,
 } from '../response/index.ts';
+import { workerBundle } from './worker-bundle.ts';
 
 export interface MatrixThreadOptions {
   /** Threads in all, this one included (default: the cores available); 1 = this thread only. */
@@ -38,7 +39,7 @@ export interface MatrixThreadOptions {
   onProgress?: (done: number, total: number) => void;
   /** Each chunk as it is put in place, with the thread that computed it (0 = this one, 1… the workers). */
   onChunk?: (chunk: { i0: number; i1: number; thread: number }) => void;
-  /** The worker script (tests give one that fails). */
+  /** The worker script, started as it is (tests give one that fails); default: the matrix worker, prebuilt into one script (pipeline/worker-bundle.ts). */
   workerUrl?: URL;
 }
 
@@ -53,6 +54,9 @@ export interface MatrixThreadOptions {
 export const MIN_THREADED_CELLS = 4 * 1024 * 1024;
 /** Most threads one matrix asks for (a guard against a typo spawning thousands). */
 const MAX_THREADS = 256;
+/** The worker's module, and its entry through the TypeScript loader (used when it cannot be prebuilt). */
+const WORKER_MODULE = new URL('./matrix-worker.ts', import.meta.url);
+const WORKER_LOADER_ENTRY = new URL('./matrix-worker-entry.mjs', import.meta.url);
 /** Chunks per thread: small enough that the last chunk ends close to the others, large enough that handing out costs nothing. */
 const CHUNKS_PER_THREAD = 16;
 
@@ -123,10 +127,11 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
     busy.set(w, seq);
     w.postMessage({ seq, i0: chunks[seq][0], i1: chunks[seq][1] });
   };
-  const start = (thread: number, url: URL) => {
+  let closed = false;
+  const start = (thread: number, source: URL | string) => {
     let w: Worker;
     try {
-      w = new Worker(url, { workerData: { input } });
+      w = typeof source === 'string' ? new Worker(source, { eval: true, workerData: { input } }) : new Worker(source, { workerData: { input } });
     } catch (e) {
       // A value that cannot be cloned to another thread (a function, say) fails here.
       throw Object.assign(new Error(`matrix input cannot be sent to a worker thread: ${(e as Error).message}`), { cause: e });
@@ -158,8 +163,18 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
   };
 
   try {
-    const url = options.workerUrl ?? new URL('./matrix-worker-entry.mjs', import.meta.url);
-    for (let t = 1; t < (shareThisThread ? threads : threads + 1); t++) start(t, url);
+    const startAll = (source: URL | string) => {
+      // Too late (done or failed) or nothing left for a worker: start none.
+      if (closed || failure || next >= chunks.length) return;
+      try {
+        for (let t = 1; t < (shareThisThread ? threads : threads + 1); t++) start(t, source);
+      } catch (e) {
+        fail(e as Error);
+      }
+    };
+    if (options.workerUrl) startAll(options.workerUrl);
+    // The bundle is made in esbuild's process while this thread computes its first chunks.
+    else void workerBundle(WORKER_MODULE).then((code) => startAll(code ?? WORKER_LOADER_ENTRY));
     // This thread takes the next chunk whenever it is free, and lets the workers' messages in between.
     while (shareThisThread && !failure && next < chunks.length) {
       const seq = next++;
@@ -168,6 +183,7 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
     }
     while (!failure && rowsDone < nE) await new Promise<void>((resolve) => (wake = resolve));
   } finally {
+    closed = true;
     // Not awaited: a worker still starting can take a few hundred ms to stop, and nothing it does
     // now reaches the result (its 'error' listener stays, so a late error is not uncaught).
     for (const w of workers) {

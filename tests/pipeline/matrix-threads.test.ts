@@ -14,6 +14,7 @@ import type { DetectorJob } from '../../generators/pipeline/job.ts';
 import { buildRedistribution, localInput, type PortableRedistributionInput, type RedistributionResult } from '../../generators/response/index.ts';
 import { writeRmf } from '../../generators/ogip/index.ts';
 import { KilnInputError } from '../../generators/errors.ts';
+import { workerBundle } from '../../generators/pipeline/worker-bundle.ts';
 import { demoJobs } from '../support/demo-jobs.ts';
 import { CHANNELS, META, fullSpec } from '../response/spec-fixtures.ts';
 
@@ -83,6 +84,24 @@ describe('one matrix on several threads: same bytes', () => {
     const r = await buildRedistributionThreaded(regionRedistributionInput(c.job, c.choice, c.validFrom), { threads: 2, minCells: 0, onChunk: (k) => threads.push(k.thread) });
     expect(threads).toContain(0);
     expect(sameBytes(r, regionRedistribution(c.job, c.choice, c.validFrom))).toBe(true);
+  });
+
+  it('the worker as one prebuilt script (the default start) and through the TypeScript loader (the fallback): the same bytes', async () => {
+    const code = await workerBundle(new URL('../../generators/pipeline/matrix-worker.ts', import.meta.url));
+    expect(code).not.toBeNull();
+    // Self-contained: at run time it loads Node's own modules only, none of the sources it was made from.
+    const required = [...code!.matchAll(/require\("([^"]+)"\)/g)].map((m) => m[1]);
+    expect(required.length).toBeGreaterThan(0);
+    expect(required.every((r) => r.startsWith('node:'))).toBe(true);
+    const c = cases[0];
+    const input = regionRedistributionInput(c.job, c.choice, c.validFrom);
+    const single = regionRedistribution(c.job, c.choice, c.validFrom);
+    const loader = await onWorkers(input, 2, { workerUrl: new URL('../../generators/pipeline/matrix-worker-entry.mjs', import.meta.url) });
+    expect(sameBytes(loader.r, single)).toBe(true);
+  });
+
+  it('a module that cannot be bundled gives no bundle (the caller falls back to the loader entry)', async () => {
+    expect(await workerBundle(new URL('no-such-module.ts', FIXTURES))).toBeNull();
   });
 
   it('a small matrix stays in this thread (no worker start-up): under the threshold no worker is asked', async () => {
