@@ -64,7 +64,9 @@ export const command: CommandSpec = {
       const s = await build({ contentDir, outDir, workers, log, warn, cacheDir: cache === undefined ? undefined : resolve(cache), noCache: optFlag(args, 'no-cache') });
       const fails = s.releases.reduce((n, r) => n + r.checks.fail, 0);
       process.stdout.write(
-        `kiln build: ${s.releases.length} releases, ${s.products} products (${s.jobs.built} jobs built, ${s.jobs.cached} from cache), written to ${outDir} in ${((performance.now() - t0) / 1000).toFixed(1)} s` +
+        `kiln build: ${s.releases.length} releases, ${s.products} products (${s.jobs.built} jobs built, ${s.jobs.cached} from cache), ` +
+          (s.unchanged ? `nothing changed: the ${s.unchanged.files} files in ${outDir} verified and left in place` : `written to ${outDir}`) +
+          ` in ${((performance.now() - t0) / 1000).toFixed(1)} s` +
           (fails ? `; ${fails} failed checks in draft releases (see validation.json)` : '') +
           '\n',
       );

@@ -53,6 +53,7 @@ import { checksPath, OVERLAY_FILE, REEXAMINED_FILE, supplementPath } from '../si
 import { overlayDetector, overlayDocument } from '../site-data/overlay.ts';
 import { cachedReexamination, REEXAMINED_DIR } from './reexamine-cache.ts';
 import { pruneDocEntries } from './doc-cache.ts';
+import { buildKey, outputIsCurrent, readBuildStamp, writeBuildStamp, type TreeDigest, treeDigest } from './build-stamp.ts';
 export { gzipProduct } from './job-output.ts';
 import { modelJobs } from './model-jobs.ts';
 export { modelJobs } from './model-jobs.ts';
@@ -121,6 +122,8 @@ export interface BuildSummary {
   nnz: number;
   /** Jobs run, reused from the cache, taken from shards. */
   jobs: { built: number; cached: number; gathered: number };
+  /** Set when nothing changed since the last whole build into outDir: its files were verified and left in place (pipeline/build-stamp.ts). */
+  unchanged?: TreeDigest;
 }
 
 /** A candidate (or published) release failed checks: the build is refused, nothing is written. */
@@ -390,8 +393,21 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const log = opts.log ?? (() => {});
   // First of all: an earlier swap cut off between its two renames is repaired, whatever follows.
   recoverInterruptedSwap(opts.outDir);
-  const content = await loadContent(opts.contentDir);
   const last = opts.publishing ?? opts.upTo;
+  const cacheDir = opts.prebuilt ? null : opts.cacheDir === undefined ? defaultCacheDir(opts.outDir) : opts.cacheDir;
+  // A whole build from the cache: when nothing changed since the last one into this output, its
+  // verified files are what this build would write, so they stay (publishing always builds).
+  const recorded = cacheDir !== null && last === undefined;
+  const key = recorded ? buildKey(opts.contentDir, generatorVersion()) : null;
+  if (recorded && !opts.noCache) {
+    const stamp = readBuildStamp<BuildSummary>(cacheDir, opts.outDir);
+    if (outputIsCurrent(stamp, key, opts.outDir)) {
+      const s = stamp.summary;
+      log(`nothing changed since the last build into ${opts.outDir}: its ${plural(stamp.output.files, 'file')} (${(stamp.output.bytes / 1e6).toFixed(1)} MB) verified and left in place`);
+      return { ...s, outDir: opts.outDir, jobs: { built: 0, cached: s.jobs.built + s.jobs.cached, gathered: 0 }, unchanged: stamp.output };
+    }
+  }
+  const content = await loadContent(opts.contentDir);
   if (last !== undefined) {
     // `publishing` is a key (publish resolved the name); `upTo` is the name the user gave.
     const target =
@@ -408,7 +424,6 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
   const pool = new JobPool(opts.workers ?? defaultWorkerCount());
   const works: ReleaseWork[] = [];
   let nnz = 0;
-  const cacheDir = opts.prebuilt ? null : opts.cacheDir === undefined ? defaultCacheDir(opts.outDir) : opts.cacheDir;
   const ctx: JobContext = {
     generator: generatorVersion(),
     cacheRoot: cacheDir === null ? null : join(cacheDir, JOBS_DIR),
@@ -553,7 +568,24 @@ async function buildLocked(opts: BuildOptions): Promise<BuildSummary> {
     if (spectralRoot) pruneSpectralEntries(spectralRoot, spectralUsed);
     if (reexamine.root) pruneDocEntries(reexamine.root, reexamine.used);
   }
-  return { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
+  const summary: BuildSummary = { outDir: opts.outDir, releases: works.map((w) => w.outcome), products: works.reduce((s, w) => s + w.products.length, 0), nnz, jobs: ctx.counts };
+  if (recorded && key !== null) recordBuild(cacheDir, key, opts, summary, ctx.warn);
+  return summary;
+}
+
+/**
+ * Records a whole build for the next one (pipeline/build-stamp.ts), if the content tree is the
+ * one it started from (keyed again now: an edit during the build must not be recorded as built).
+ */
+function recordBuild(cacheDir: string, keyAtStart: string, opts: BuildOptions, summary: BuildSummary, warn: (line: string) => void): void {
+  try {
+    const output = treeDigest(opts.outDir);
+    // Edited meanwhile: the record says "nothing known" (an empty key matches no build).
+    const key = buildKey(opts.contentDir, generatorVersion()) === keyAtStart ? keyAtStart : '';
+    if (output !== null) writeBuildStamp(cacheDir, { outDir: opts.outDir, key, output, summary });
+  } catch (e) {
+    warn(`record of this build not written (${(e as Error).message}); the next build rebuilds from the job cache`);
+  }
 }
 
 interface JobContext {
