@@ -267,6 +267,8 @@ function largeTargets(large: Record<string, unknown>[]): void {
   const [small, big] = large as { case: string; peakRssMB: number | null; noChangeRatio: number; wallS: number; products: number }[];
   verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (large instrument)`, large.every((l) => (l.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO), {
     ratios: Object.fromEntries(large.map((l) => [l.case, l.noChangeRatio])),
+    // Not a target: the same content into a new output, every job from the cache and every file written.
+    jobCacheRatios: Object.fromEntries(large.map((l) => [l.case, (l as unknown as { jobCacheRatio: number }).jobCacheRatio])),
   });
   if (small.peakRssMB !== null && big.peakRssMB !== null)
     verdict(`build peak RSS <= ${TARGET_RSS_GROWTH}x over ${round(big.products / small.products, 0)}x the products, and <= ${TARGET_RSS_MAX_MB} MB`, big.peakRssMB <= TARGET_RSS_GROWTH * small.peakRssMB && big.peakRssMB <= TARGET_RSS_MAX_MB, {
@@ -304,7 +306,7 @@ for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
     if (name === DEMO_REBUILD_CASE) {
       const d = demoRebuildLine(ROOT, tmp);
       console.log(JSON.stringify(d));
-      verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (demo content)`, (d.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO, { noChangeRatio: d.noChangeRatio, cleanS: d.wallS, rebuildS: d.noChangeRebuildS });
+      verdict(`no-change rebuild <= ${TARGET_NO_CHANGE_RATIO * 100} % of a clean build (demo content)`, (d.noChangeRatio as number) <= TARGET_NO_CHANGE_RATIO, { noChangeRatio: d.noChangeRatio, cleanS: d.wallS, rebuildS: d.noChangeRebuildS, jobCacheBuildS: d.jobCacheBuildS, jobCacheRatio: d.jobCacheRatio });
       continue;
     }
     if (name === LARGE_CASE.name) {
