@@ -10,6 +10,7 @@ import type { Check, DetectorSite, ParameterRow, ProductKind } from '../site-dat
 import { canonicalJson, sha256Hex } from './hash.ts';
 import type { DetectorJob } from './job.ts';
 import { runDetectorJob, type DetectorJobResult } from './run-job.ts';
+import type { RedistributionResult } from '../response/index.ts';
 
 /** gzip level of product files: the smallest files; speed matters little next to the model (zlib's 9). */
 const GZIP_LEVEL = 9;
@@ -76,8 +77,8 @@ export function jobFingerprint(job: DetectorJob, generator: string): string {
   return sha256Hex(canonicalJson({ schema: JOB_SCHEMA, generator, job: rest }));
 }
 
-export function produceJobOutput(job: DetectorJob, fingerprint: string, generator: string): JobOutput {
-  const r = runDetectorJob(job);
+export function produceJobOutput(job: DetectorJob, fingerprint: string, generator: string, prebuilt?: ReadonlyMap<string, RedistributionResult>): JobOutput {
+  const r = runDetectorJob(job, prebuilt);
   const gz = r.files.map((f) => gzipProduct(f.fits));
   const files: JobFile[] = r.files.map((f, i) => ({
     id: f.id,

@@ -10,6 +10,9 @@ import { KilnInputError } from '../errors.ts';
 import type { DetectorJob } from './job.ts';
 import { produceJobOutput, type JobOutput } from './job-output.ts';
 import { workerBundle } from './worker-bundle.ts';
+import { buildRedistributionThreaded } from './matrix-threads.ts';
+import { jobMatrixInputs } from './product.ts';
+import type { RedistributionResult } from '../response/index.ts';
 
 /** The worker's module, and its entry through the TypeScript loader (used when it cannot be prebuilt). */
 const WORKER_MODULE = new URL('./worker.ts', import.meta.url);
@@ -34,8 +37,12 @@ export class JobPool {
   private readonly size: number;
   private workers: Worker[] = [];
 
-  constructor(size = defaultWorkerCount()) {
+  /** Matrices of fewer cells stay in one thread when a batch has a single job (default: matrix-threads.ts MIN_THREADED_CELLS). */
+  private readonly matrixMinCells?: number;
+
+  constructor(size = defaultWorkerCount(), options: { matrixMinCells?: number } = {}) {
     this.size = Math.max(1, Math.floor(size));
+    this.matrixMinCells = options.matrixMinCells;
   }
 
   /**
@@ -44,8 +51,17 @@ export class JobPool {
    * memory does not grow with the number of jobs.
    */
   async run(jobs: JobTask[], onDone: (r: JobOutput, index: number) => void): Promise<void> {
-    if (this.size === 1 || jobs.length <= 1) {
+    if (this.size === 1) {
       for (let i = 0; i < jobs.length; i++) onDone(produceJobOutput(jobs[i].job, jobs[i].fingerprint, jobs[i].generator), i);
+      return;
+    }
+    if (jobs.length === 1) {
+      // One job and several cores: its large matrices are spread over the cores instead
+      // (pipeline/matrix-threads.ts; the same bytes), the rest of the job runs here.
+      const { job, fingerprint, generator } = jobs[0];
+      const matrices = new Map<string, RedistributionResult>();
+      for (const { label, input } of jobMatrixInputs(job)) matrices.set(label, await buildRedistributionThreaded(input, { threads: this.size, minCells: this.matrixMinCells }));
+      onDone(produceJobOutput(job, fingerprint, generator, matrices), 0);
       return;
     }
     const want = Math.min(this.size, jobs.length);

@@ -9,7 +9,8 @@ import { energyGrid, type RedistributionResult } from '../response/index.ts';
 import type { ArfData } from '../response/types.ts';
 import { writeArf, writeRmf } from '../ogip/index.ts';
 import type { EpochSite } from '../site-data/types.ts';
-import { areaOnDate, fullResponse, regionRedistribution, rspMetaFor, type CaseChoice, type CaseGrid } from '../model/parts.ts';
+import { areaOnDate, fullResponse, regionRedistribution, regionRedistributionInput, rspMetaFor, type CaseChoice, type CaseGrid } from '../model/parts.ts';
+import type { PortableRedistributionInput } from '../response/portable-input.ts';
 import { detectorRegion, regionsOf, type Region } from '../model/regions.ts';
 import type { BuiltFile, DetectorJob } from './job.ts';
 import { ALL_EPOCHS, productFileName, productId } from './names.ts';
@@ -48,18 +49,32 @@ export function modelGrid(job: DetectorJob): CaseGrid {
 
 const regionFields = (r: Region) => ({ ...(r.node !== null ? { node: r.node } : {}), ...(r.rowBand !== null ? { rowBand: r.rowBand } : {}) });
 
-export function buildDetectorProducts(job: DetectorJob): DetectorProducts {
+/** The matrices a job makes (the whole detector's, then each region's, by label), as inputs another thread can take. */
+export function jobMatrixInputs(job: DetectorJob): { label: string; input: PortableRedistributionInput }[] {
+  const grid = modelGrid(job);
+  const whole = detectorValidity(job);
+  const wholeRegion = detectorRegion(job.detector);
+  const regions = [wholeRegion, ...regionsOf(job.detector, job.release.productsPer ?? 'detector').filter((r) => r.label !== wholeRegion.label)];
+  return regions.map((region) => ({ label: region.label, input: regionRedistributionInput(job, { region, grid, group: 1 }, whole.validFrom) }));
+}
+
+/**
+ * The products of a job. `prebuilt`: matrices already made from jobMatrixInputs (by label; e.g.
+ * on several threads, pipeline/matrix-threads.ts), used instead of making them here.
+ */
+export function buildDetectorProducts(job: DetectorJob, prebuilt?: ReadonlyMap<string, RedistributionResult>): DetectorProducts {
   const { detector, instrument, release } = job;
   const grid = modelGrid(job);
   const whole = detectorValidity(job);
   const files: BuiltFile[] = [];
   const choiceFor = (region: Region): CaseChoice => ({ region, grid, group: 1 });
   const range = validRangeOf(job, grid.bins, 1, detector.redistribution.thresholdKeV);
+  const matrixOf = (region: Region) => prebuilt?.get(region.label) ?? regionRedistribution(job, choiceFor(region), whole.validFrom);
 
   const wholeRegion = detectorRegion(detector);
-  const redistribution = regionRedistribution(job, choiceFor(wholeRegion), whole.validFrom);
+  const redistribution = matrixOf(wholeRegion);
   const regions = regionsOf(detector, release.productsPer ?? 'detector');
-  const matrices = regions.map((r) => (r.label === wholeRegion.label ? redistribution : regionRedistribution(job, choiceFor(r), whole.validFrom)));
+  const matrices = regions.map((r) => (r.label === wholeRegion.label ? redistribution : matrixOf(r)));
   if (release.products.includes('rmf'))
     regions.forEach((r, k) =>
       files.push({

@@ -6,6 +6,7 @@ import { buildDetectorProducts } from './product.ts';
 import { detectorSite } from './site-detector.ts';
 import { validateDetector, type LineRefits } from './validate.ts';
 import { rebuildChecks } from '../model/rebuild.ts';
+import type { RedistributionResult } from '../response/index.ts';
 
 export interface DetectorJobResult {
   releaseId: string;
@@ -18,8 +19,9 @@ export interface DetectorJobResult {
   nnz: number;
 }
 
-export function runDetectorJob(job: DetectorJob): DetectorJobResult {
-  const built = buildDetectorProducts(job);
+/** `prebuilt`: the job's matrices already made (pipeline/product.ts jobMatrixInputs), by region label. */
+export function runDetectorJob(job: DetectorJob, prebuilt?: ReadonlyMap<string, RedistributionResult>): DetectorJobResult {
+  const built = buildDetectorProducts(job, prebuilt);
   const refits: LineRefits = new Map();
   const checks = validateDetector(job, built, refits);
   if (job.rebuildFrom && job.modelSha256) checks.push(...rebuildChecks(job.rebuildFrom, job.modelSha256, job.detector.id, built.files));

@@ -15,6 +15,9 @@ import { buildRedistribution, localInput, type PortableRedistributionInput, type
 import { writeRmf } from '../../generators/ogip/index.ts';
 import { KilnInputError } from '../../generators/errors.ts';
 import { workerBundle } from '../../generators/pipeline/worker-bundle.ts';
+import { JobPool } from '../../generators/pipeline/pool.ts';
+import { produceJobOutput, type JobOutput } from '../../generators/pipeline/job-output.ts';
+import { jobMatrixInputs } from '../../generators/pipeline/product.ts';
 import { demoJobs } from '../support/demo-jobs.ts';
 import { CHANNELS, META, fullSpec } from '../response/spec-fixtures.ts';
 
@@ -110,6 +113,24 @@ describe('one matrix on several threads: same bytes', () => {
     // A worker script that does not exist: starting one would fail the build.
     const r = await buildRedistributionThreaded(small, { threads: 2, workerUrl: new URL('no-such-worker.mjs', FIXTURES) });
     expect(sameBytes(r, buildRedistribution(localInput(small)))).toBe(true);
+  });
+});
+
+describe('a build of a single job', () => {
+  it('spreads its matrices over the pool\'s threads (every region of a per-node release): the job output of one thread, byte for byte', async () => {
+    const job = (await demoJobs()).get('2.1.0')!.find((j) => j.detector.id === 'bi1')!;
+    // The whole detector and each node (the demo's 2.1.0 ships per-node products).
+    expect(jobMatrixInputs(job).length).toBeGreaterThan(1);
+    const pool = new JobPool(2, { matrixMinCells: 0 });
+    let got: JobOutput | null = null;
+    try {
+      await pool.run([{ job, fingerprint: 'f', generator: 'g' }], (r) => (got = r));
+    } finally {
+      await pool.close();
+    }
+    const single = produceJobOutput(job, 'f', 'g');
+    expect(got!.meta).toEqual(single.meta);
+    expect(got!.gz.map((b) => Buffer.from(b).toString('hex'))).toEqual(single.gz.map((b) => Buffer.from(b).toString('hex')));
   });
 });
 
