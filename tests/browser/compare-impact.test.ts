@@ -11,12 +11,12 @@ import { join, resolve } from 'node:path';
 import { DIST, requireDist } from './support/server.ts';
 import { siteSession } from './support/browser.ts';
 import { kiln } from '../pipeline/helpers.ts';
-import { OUT_MARKER, requireFreshBuild } from '../support/fresh-build.ts';
+import { requireFreshOutput } from '../support/fresh-build.ts';
 
 requireDist();
 const OUT = resolve(process.env.KILN_OUT ?? '.kiln/out');
 // Read directly (kiln compare / kiln response --out): as fresh as its inputs, like dist/.
-requireFreshBuild(OUT_MARKER, `the build output ${OUT}`);
+requireFreshOutput(`the build output ${OUT}`);
 const session = siteSession();
 
 describe('compare page: impact on the reference sources', () => {

@@ -16,13 +16,13 @@ import type { Page } from 'playwright-core';
 import { DIST, requireDist } from './support/server.ts';
 import { siteSession } from './support/browser.ts';
 import { kiln } from '../pipeline/helpers.ts';
-import { OUT_MARKER, requireFreshBuild } from '../support/fresh-build.ts';
+import { requireFreshOutput } from '../support/fresh-build.ts';
 import { runAstropyChecks, runPythonJson } from '../support/python.ts';
 
 requireDist();
 const OUT = resolve(process.env.KILN_OUT ?? '.kiln/out');
 // Read directly (kiln compare / kiln response --out): as fresh as its inputs, like dist/.
-requireFreshBuild(OUT_MARKER, `the build output ${OUT}`);
+requireFreshOutput(`the build output ${OUT}`);
 const SHOTS = '/tmp/shots';
 /** The generator chunk's size limit before compression (issue budget). */
 const GENERATOR_CHUNK_MAX_BYTES = 150 * 1024;

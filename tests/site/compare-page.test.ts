@@ -4,7 +4,7 @@
  * subtracted (nothing recomputed). Needs `kiln build` (npm run build) first.
  */
 import { describe, expect, it } from 'vitest';
-import { OUT_MARKER, requireFreshBuild } from '../support/fresh-build.ts';
+import { requireFreshOutput } from '../support/fresh-build.ts';
 import { loadIndex, loadSite, loadValidation } from '../../src/lib/data.ts';
 import { compareHtml, defaultPair } from '../../src/lib/compare/index.ts';
 import { unpackSpec, type PlotSpec } from '../../src/lib/plot/index.ts';
@@ -12,7 +12,7 @@ import { unpackSpec, type PlotSpec } from '../../src/lib/plot/index.ts';
 const specs = (html: string): PlotSpec[] => [...html.matchAll(/<script type="application\/json" class="kplot-spec">(.*?)<\/script>/g)].map((m) => unpackSpec(JSON.parse(m[1])));
 
 describe('compare page from the build output', () => {
-  requireFreshBuild(OUT_MARKER, 'the build output (.kiln/out or KILN_OUT)');
+  requireFreshOutput('the build output (.kiln/out or KILN_OUT)');
   const index = loadIndex();
   const [a, b] = defaultPair(index.releases)!;
   const sa = loadSite(a);

@@ -3,7 +3,9 @@ import { mkdirSync, mkdtempSync, rmSync, utimesSync, writeFileSync } from 'node:
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { newestInput, requireFreshBuild } from '../support/fresh-build.ts';
+import { newestInput, requireFreshBuild, requireFreshOutput } from '../support/fresh-build.ts';
+import { buildKey, treeDigest, writeBuildStamp } from '../../generators/pipeline/build-stamp.ts';
+import { generatorVersion } from '../../generators/pipeline/generator-version.ts';
 
 const root = mkdtempSync(join(tmpdir(), 'kiln-fresh-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
@@ -35,6 +37,27 @@ describe('requireFreshBuild', () => {
       expect.unreachable('a missing build must be refused');
     } catch (e) {
       expect(String((e as Error).message)).toMatch(/missing/);
+    }
+  });
+});
+
+describe('requireFreshOutput', () => {
+  it('an output older than an input is still fresh when its build record matches the content and today\'s generator; not once an output file changed', () => {
+    const tree = mkdtempSync(join(tmpdir(), 'kiln-fresh-out-'));
+    try {
+      const out = join(tree, '.kiln', 'out');
+      const marker = join(out, 'index.json');
+      touch(marker, 300);
+      touch(join(tree, 'content', 'releases', 'r', 'release.yaml'), 10);
+      expect(() => requireFreshOutput('the output', marker, tree)).toThrow(/the output is stale: content\/releases\/r\/release\.yaml changed/);
+      writeBuildStamp(join(tree, '.kiln', 'cache'), { outDir: out, key: buildKey(join(tree, 'content'), generatorVersion())!, output: treeDigest(out)!, summary: {} });
+      expect(() => requireFreshOutput('the output', marker, tree)).not.toThrow();
+      writeFileSync(marker, 'y');
+      const old = Date.now() / 1000 - 300;
+      utimesSync(marker, old, old);
+      expect(() => requireFreshOutput('the output', marker, tree)).toThrow(/stale/);
+    } finally {
+      rmSync(tree, { recursive: true, force: true });
     }
   });
 });

@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
-import { OUT_MARKER, requireFreshBuild } from '../support/fresh-build.ts';
+import { requireFreshOutput } from '../support/fresh-build.ts';
 import { join, resolve } from 'node:path';
 import type { RmfData } from '../../generators/response/types.ts';
 import { binContaining, binRangeText, readPublishedRmf, rmfProductOf, rowAtEnergy, rowCsv } from '../../src/lib/published-row/index.ts';
@@ -90,7 +90,7 @@ describe.runIf(runAstropyChecks)('published-row against astropy on a published R
   it('the row of the bin containing the energy matches astropy', async () => {
     const file = publishedRmf();
     if (!file) throw new Error(`no *.rmf.gz under ${OUT}/releases: run npm run build first`);
-    requireFreshBuild(OUT_MARKER, `the build output ${OUT}`);
+    requireFreshOutput(`the build output ${OUT}`);
     const d = await readPublishedRmf(new Uint8Array(readFileSync(file)), file);
     const r = rowAtEnergy(d, PICK_KEV);
     // astropy.io.fits reads the variable-length MATRIX row and EBOUNDS; the row is expanded here

@@ -5,7 +5,10 @@
  * content/, generators/, src/, the site step and the Astro config.
  */
 import { existsSync, readdirSync, statSync } from 'node:fs';
-import { join, relative, resolve } from 'node:path';
+import { dirname, join, relative, resolve } from 'node:path';
+import { buildKey, outputIsCurrent, readBuildStamp } from '../../generators/pipeline/build-stamp.ts';
+import { defaultCacheDir } from '../../generators/pipeline/build.ts';
+import { generatorVersion } from '../../generators/pipeline/generator-version.ts';
 
 const REPO = resolve(import.meta.dirname, '..', '..');
 const INPUTS = ['content', 'generators', 'src', 'scripts/build-site.mjs', 'astro.config.mjs', 'bin/kiln.mjs'];
@@ -39,3 +42,19 @@ export function requireFreshBuild(marker: string, what: string, root = REPO): vo
 
 export const DIST_MARKER = join(REPO, 'dist', 'index.html');
 export const OUT_MARKER = join(resolve(process.env.KILN_OUT ?? join(REPO, '.kiln', 'out')), 'index.json');
+
+/**
+ * The build output (.kiln/out) is fresh when newer than every input, or when the record of the
+ * build that wrote it says it is what a build of content/ with today's generator would write: a
+ * build with nothing changed leaves the output in place (generators/pipeline/build-stamp.ts), so
+ * an input touched without a change (a checkout, an undone edit) must not make it look stale.
+ */
+export function requireFreshOutput(what: string, marker = OUT_MARKER, root = REPO): void {
+  try {
+    requireFreshBuild(marker, what, root);
+  } catch (e) {
+    const out = dirname(marker);
+    if (existsSync(marker) && outputIsCurrent(readBuildStamp(defaultCacheDir(out), out), buildKey(join(root, 'content'), generatorVersion()), out)) return;
+    throw e;
+  }
+}
