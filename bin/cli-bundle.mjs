@@ -26,6 +26,8 @@ const CACHE_DIR = join(ROOT, 'node_modules', '.cache', 'kiln-cli');
 const HEADER = '// kiln cli bundle sha256:';
 /** Hex digits of the source digest in the file name (64 bits). */
 const NAME_HEX = 16;
+/** Bundles of other sources kept beside the current one. */
+const KEEP_OTHERS = 7;
 
 function sources(dir) {
   const out = [];
@@ -90,8 +92,13 @@ async function make(file) {
   const tmp = `${file}.${process.pid}.tmp`;
   writeFileSync(tmp, `${HEADER}${sha256(body)}\n${body}`);
   renameSync(tmp, file);
-  // Bundles of earlier sources are never used again.
-  for (const name of readdirSync(CACHE_DIR)) if (name !== file.slice(CACHE_DIR.length + 1) && /^cli-[0-9a-f]+\.mjs$/.test(name)) rmSync(join(CACHE_DIR, name), { force: true });
+  // Bundles of other sources: the newest few are kept (other checkouts sharing node_modules, a
+  // mutation-testing sandbox), older ones removed.
+  const others = readdirSync(CACHE_DIR)
+    .filter((n) => /^cli-[0-9a-f]+\.mjs$/.test(n) && join(CACHE_DIR, n) !== file)
+    .map((n) => ({ p: join(CACHE_DIR, n), t: statSync(join(CACHE_DIR, n)).mtimeMs }))
+    .sort((a, b) => b.t - a.t);
+  for (const o of others.slice(KEEP_OTHERS)) rmSync(o.p, { force: true });
 }
 
 /** URL of the bundled CLI for the sources on disk (made now if needed), or null to run the sources through the loader. */

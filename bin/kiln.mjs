@@ -5,9 +5,16 @@
 import { bundledCli } from './cli-bundle.mjs';
 
 const bundle = process.env.KILN_FROM_SOURCES === '1' ? null : await bundledCli();
-let cli;
-if (bundle) cli = await import(bundle.href);
-else {
+let cli = null;
+if (bundle) {
+  try {
+    cli = await import(bundle.href);
+  } catch {
+    // Removed meanwhile by another checkout's launcher, say: the sources run the same code.
+    cli = null;
+  }
+}
+if (!cli) {
   const { register } = await import('tsx/esm/api');
   register();
   cli = await import('../generators/cli/main.ts');
