@@ -46,7 +46,7 @@ const TARGET_SITE_S = 60;
 /** The custom-response budgets (issue: `kiln response` ≤ 1 s, the page's generator chunk ≤ 150 KB before compression). */
 const TARGET_RESPONSE_S = 1;
 const TARGET_CHUNK_KB = 150;
-/** "Usable at 10,000 products" (our reading): a finder document ≤ 300 KB (the page budget) and a lookup ≤ 50 ms at the 99th percentile. */
+/** "Usable at 10,000 products" (our reading): every finder document and all one lookup fetches ≤ 300 KB (the page budget), a lookup ≤ 50 ms at the 99th percentile. */
 const TARGET_FINDER_DOC_KB = 300;
 const TARGET_LOOKUP_MS = 50;
 /** The page's budgets (issue): the 1024 × 800 case built in ≤ 2 s in chromium, no main-thread task over 100 ms. */
@@ -298,9 +298,13 @@ for (const name of CASE_NAMES.filter((n) => o.only.has(n))) {
       continue;
     }
     if (name === FINDER_CASE) {
-      const f = finderCase();
+      const f = await finderCase();
       console.log(JSON.stringify(f));
-      verdict(`finder document <= ${TARGET_FINDER_DOC_KB} KB and lookup p99 <= ${TARGET_LOOKUP_MS} ms at ${f.products} products`, (f.largestFinderDocKB as number) <= TARGET_FINDER_DOC_KB && (f.lookupP99Ms as number) <= TARGET_LOOKUP_MS, { largestFinderDocKB: f.largestFinderDocKB, lookupP99Ms: f.lookupP99Ms, indexKB: f.indexKB });
+      verdict(
+        `finder documents and one lookup's fetch <= ${TARGET_FINDER_DOC_KB} KB, lookup p99 <= ${TARGET_LOOKUP_MS} ms, answers as on the whole index, at ${f.products} products and at 2x the releases`,
+        (f.largestFinderDocKB as number) <= TARGET_FINDER_DOC_KB && (f.worstLookupFetchKB as number) <= TARGET_FINDER_DOC_KB && (f.worstLookupP99Ms as number) <= TARGET_LOOKUP_MS && f.mismatches === 0,
+        { largestFinderDocKB: f.largestFinderDocKB, worstLookupFetchKB: f.worstLookupFetchKB, worstLookupP99Ms: f.worstLookupP99Ms, mismatches: f.mismatches, indexKB: f.indexKB },
+      );
       continue;
     }
     if (name === DEMO_REBUILD_CASE) {

@@ -42,7 +42,8 @@ import { impactChecks, releaseSpectral, spectralElements, type ReleaseProducts }
 import { pruneSpectralEntries, readSpectralEntry, spectralKey, writeSpectralEntry, SPECTRAL_DIR } from './spectral-cache.ts';
 import { sha256Hex } from './hash.ts';
 import { writeJson, writeSiteDocuments } from './site-files.ts';
-import { finderDocuments, splitRelease, withSupplement } from '../site-data/split.ts';
+import { finderDocuments } from '../site-data/finder.ts';
+import { splitRelease, withSupplement } from '../site-data/split.ts';
 import { changedInputFiles, inputsSha256, jobsOf } from './inputs.ts';
 import { JobPool, defaultWorkerCount } from './pool.ts';
 import { generatorVersion } from './generator-version.ts';

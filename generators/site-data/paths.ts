@@ -21,5 +21,7 @@ export const epochPath = (detector: string, epoch: string): string => `${detecto
 /** URL base of a release's documents on the site. */
 export const siteDataBase = (releaseId: string): string => `/data/releases/${encodeURIComponent(releaseId)}/`;
 
-/** The finder's per-detector document, relative to the build output (the site's /data/). */
+/** The finder's manifest of a detector entry, relative to the build output (the site's /data/). */
 export const finderPath = (instrument: string, detector: string): string => `finder/${instrument}/${detector}.json`;
+/** Chunk k of that manifest (its own directory: no detector id can collide with a chunk). */
+export const finderChunkPath = (instrument: string, detector: string, chunk: number): string => `finder/${instrument}/${detector}/${chunk}.json`;

@@ -6,7 +6,7 @@
  * back together where a whole release is wanted (publishing, `kiln compare`, tests).
  */
 import { overlayDetector, overlayDocument } from './overlay.ts';
-import { finderPath, areaPath, checksPath, epochPath, matrixPath, modelPath, profilesPath } from './paths.ts';
+import { areaPath, checksPath, epochPath, matrixPath, modelPath, profilesPath } from './paths.ts';
 import type {
   Check,
   DetectorAreaDoc,
@@ -15,10 +15,8 @@ import type {
   DetectorMatrixDoc,
   DetectorModelDoc,
   DetectorProfilesDoc,
-  FinderDetectorDoc,
   DetectorSupplementDoc,
   OverlayDetector,
-  ReleaseIndex,
   DetectorSite,
   EpochDataDoc,
   ParameterRow,
@@ -261,22 +259,4 @@ export function detectorForCompare(model: DetectorModelDoc, area: DetectorAreaDo
     profiles: EMPTY_PROFILES,
     matrix: EMPTY_MATRIX,
   };
-}
-
-/** The finder's documents: per instrument and detector, the releases with their files for it. */
-export function finderDocuments(index: ReleaseIndex): SiteDocument[] {
-  const out: SiteDocument[] = [];
-  for (const inst of index.instruments)
-    for (const det of inst.detectors)
-      // One document per detector and configuration: a file of another filter is never in it.
-      for (const conf of inst.configurations ?? [null]) {
-        const entry = conf ? `${det.id}.${conf.id}` : det.id;
-        const releases = index.releases
-          .filter((r) => r.instrument === inst.id)
-          .map((r) => ({ ...r, products: r.products.filter((p) => p.detector === entry) }))
-          .filter((r) => r.products.length > 0);
-        const doc: FinderDetectorDoc = { schema: 'kiln/finder-detector/1', instrument: inst.id, detector: entry, ...(conf ? { filter: conf.id } : {}), releases };
-        out.push({ path: finderPath(inst.id, entry), doc });
-      }
-  return out;
 }

@@ -6,7 +6,8 @@
  * Layout written by `kiln build --out DIR` (default `.kiln/out`); `<id>` in a path is the release's
  * key, its folder name (the id, or `<instrument>~<id>`: content/release-key.ts):
  *   DIR/index.json                         ReleaseIndex
- *   DIR/finder/<instrument>/<det>.json     FinderDetectorDoc (one detector's files across releases, for the finder)
+ *   DIR/finder/<instrument>/<det>.json     FinderManifestDoc (one detector's file lists: what each chunk holds)
+ *   DIR/finder/<instrument>/<det>/<k>.json FinderChunkDoc (chunk k: at most FINDER_CHUNK_PRODUCTS files, whole releases where they fit)
  *   DIR/releases/<id>/manifest.json        ReleaseManifest
  *   DIR/releases/<id>/validation.json      ValidationReport
  *   DIR/releases/<id>/summary.json                       ReleaseSummaryDoc (small: what a page shows on load)
@@ -518,16 +519,71 @@ export interface DetectorAreaDoc {
   epochs: { id: string; energyKeV?: number[]; effectiveAreaCm2: number[] }[];
 }
 
-/** The finder's data for one detector: every release that has files for it, with only those files. */
-export interface FinderDetectorDoc {
-  schema: 'kiln/finder-detector/1';
+/**
+ * finder/<instrument>/<det>.json: what the finder fetches first for a detector entry, the list of
+ * its chunks (generators/site-data/finder.ts). Chunks are in the finder's order of preference
+ * (status, newest release, matrix before area file), so the page loads the first chunks that can
+ * hold a file for the asked date and position and the rest only on demand.
+ */
+export interface FinderManifestDoc {
+  schema: 'kiln/finder-manifest/1';
   instrument: string;
   /** The detector's entry id: `D.C` for detector D in configuration C of an instrument with configurations. */
   detector: string;
   /** Configuration id, for an instrument with configurations. */
   filter?: string;
-  /** Newest first, as in the index; products filtered to this detector. */
-  releases: ReleaseSummary[];
+  /** Files of the entry in all chunks (drafts included: the finder never offers them). */
+  products: number;
+  /** The most files a chunk holds. */
+  chunkProducts: number;
+  chunks: FinderChunk[];
+}
+
+/** A chunk as the manifest lists it: enough to tell whether it can hold a file for a date and a position. */
+export interface FinderChunk {
+  /** Relative to the build output (the site's /data/), e.g. "finder/cam/d0/0.json". */
+  path: string;
+  products: number;
+  /** Keys of the releases it holds files of; a release cut across chunks is in each of them. */
+  releases: string[];
+  /** Merged validity of its files: [validFrom, validTo) ISO dates, validTo null = open, ascending. */
+  spans: [string, string | null][];
+  /** Readout nodes and row bands of its per-region files (absent: none). */
+  nodes?: string[];
+  rowBands?: string[];
+  /** It holds files made for every node (no node stated), or for every row band (none stated). */
+  allNodes?: true;
+  allRowBands?: true;
+}
+
+/** A file as the finder keeps it: a ProductSummary without what its documents state once (detector, filter) or the finder never shows. */
+export type FinderProduct = Pick<ProductSummary, 'kind' | 'node' | 'rowBand' | 'epoch' | 'path' | 'bytes' | 'sha256' | 'validFrom' | 'validTo'>;
+
+/** A release in a chunk: the fields the finder ranks and links by, and its files in the chunk. */
+export interface FinderRelease {
+  id: string;
+  key: string;
+  status: ReleaseStatus;
+  date: string;
+  /** Id of the release that supersedes it (same instrument), for a superseded release where one is known. */
+  supersededBy?: string;
+  products: FinderProduct[];
+}
+
+/**
+ * finder/<instrument>/<det>/<k>.json: chunk k of the manifest, at most `chunkProducts` files. Each
+ * file keeps its release-relative path, size and SHA-256: a hit names and verifies its download
+ * without another fetch, and the same values are in the release's manifest.json.
+ */
+export interface FinderChunkDoc {
+  schema: 'kiln/finder-chunk/1';
+  instrument: string;
+  detector: string;
+  filter?: string;
+  /** Its position in the manifest's list. */
+  chunk: number;
+  /** In the finder's order of preference. */
+  releases: FinderRelease[];
 }
 
 /**

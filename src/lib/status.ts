@@ -1,9 +1,8 @@
 /** Release status order and wording shared by the pages. */
 import type { ReleaseStatus, ReleaseSummary } from '../../generators/site-data/types.ts';
 
-/** Preference when several releases cover the same date: published first. */
-export const STATUS_PREFERENCE: ReleaseStatus[] = ['published', 'candidate', 'superseded', 'withdrawn', 'draft'];
-export const statusRank = (s: ReleaseStatus): number => STATUS_PREFERENCE.indexOf(s);
+/** Preference when several releases cover the same date: published first (the finder's documents are cut in this order). */
+export { STATUS_PREFERENCE, statusRank } from '../../generators/site-data/finder.ts';
 
 export const STATUS_HINT: Record<ReleaseStatus, string> = {
   published: 'recommended for analysis',

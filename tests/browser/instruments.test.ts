@@ -37,7 +37,8 @@ beforeAll(() => {
   // finder reads) call them candidates; products, checks and every other document stay as built.
   const asCandidates = (file: string) => writeFileSync(file, readFileSync(file, 'utf8').replaceAll('"status":"draft"', '"status":"candidate"'));
   asCandidates(join(out, 'index.json'));
-  for (const ins of readdirSync(join(out, 'finder'))) for (const f of readdirSync(join(out, 'finder', ins))) asCandidates(join(out, 'finder', ins, f));
+  // Every manifest and chunk under finder/ (the chunks sit in a directory per detector entry).
+  for (const f of readdirSync(join(out, 'finder'), { recursive: true, withFileTypes: true })) if (f.isFile()) asCandidates(join(f.parentPath, f.name));
   const s = spawnSync(process.execPath, [join(REPO, 'scripts', 'build-site.mjs')], {
     cwd: REPO,
     encoding: 'utf8',

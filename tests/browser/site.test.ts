@@ -11,7 +11,8 @@ import { gunzipSync } from 'node:zlib';
 import type { ReleaseIndex, ReleaseManifest } from '../../generators/site-data/types.ts';
 import { contentPages, isInline } from './support/release-pages.ts';
 import { DIST, requireDist } from './support/server.ts';
-import { launch, siteSession } from './support/browser.ts';
+import { launch, siteSession, watch } from './support/browser.ts';
+import { finderDocuments } from '../../generators/site-data/finder.ts';
 
 const SHOTS = '/tmp/shots';
 /**
@@ -217,6 +218,63 @@ describe('finder page', () => {
     await expect.poll(async () => (await page.$$eval('#finder-hits td.file a', (as) => as.map((a) => a.getAttribute('href') ?? ''))).includes(`/releases/${perNode!.id}/${other.path}`)).toBe(true);
     expect(new URL(page.url()).searchParams.get('node')).toBeNull();
     await page.close();
+  });
+});
+
+describe('finder page with its file lists cut small or broken', () => {
+  // The demo's files fit in one chunk per detector; here the page is served the demo index's
+  // finder documents cut at 3 files per chunk (generators/site-data/finder.ts), or a chunk is
+  // missing or wrong, by intercepting /data/finder/ requests.
+  const det = index.instruments[0].detectors[0].id;
+  const date = index.releases.flatMap((r) => r.products).find((x) => x.detector === det)!.validFrom;
+  const path = `/finder/?detector=${det}&date=${date}`;
+  const hrefs = (page: import('playwright-core').Page) => page.$$eval('#finder-hits td.file a', (as) => as.map((a) => a.getAttribute('href') ?? ''));
+  const served = async (docs: Map<string, unknown>, status = (_p: string) => 200) => {
+    const page = await site.context.newPage();
+    const { problems } = watch(page, site.url);
+    await page.route('**/data/finder/**', (route) => {
+      const p = decodeURIComponent(new URL(route.request().url()).pathname.replace(/^\/data\//, ''));
+      const code = status(p);
+      return code === 200 && docs.has(p) ? route.fulfill({ status: 200, contentType: 'application/json', body: JSON.stringify(docs.get(p)) }) : route.fulfill({ status: code === 200 ? 404 : code, body: 'gone' });
+    });
+    await page.goto(site.url + path, { waitUntil: 'networkidle' });
+    return { page, problems };
+  };
+
+  it('loads the first chunks, then older releases on "Load more", ending with the same list as with one chunk', async () => {
+    const { page: whole } = await open(path);
+    const all = await hrefs(whole);
+    await whole.close();
+    expect(all.length).toBeGreaterThan(3);
+    const { page } = await served(new Map(finderDocuments(index, 3).map((d) => [d.path, d.doc])));
+    await page.waitForSelector('#finder-hits');
+    const first = await hrefs(page);
+    expect(first.length).toBeLessThan(all.length);
+    expect(all.slice(0, first.length)).toEqual(first);
+    for (let n = 0; n < 50 && (await page.$('#finder-more')); n++) {
+      if (n === 0) await page.screenshot({ path: `${SHOTS}/finder-load-more.png`, fullPage: true });
+      await page.click('#finder-more');
+      await page.waitForFunction(() => !document.querySelector('#finder-more[disabled]'));
+    }
+    expect(await page.$('#finder-more')).toBeNull();
+    expect(await hrefs(page)).toEqual(all);
+    await page.close();
+  });
+
+  it('a missing or wrong chunk is said on the page, with no file list', async () => {
+    const docs = new Map(finderDocuments(index).map((d) => [d.path, d.doc]));
+    const chunk = [...docs.keys()].find((p) => p.endsWith(`/${det}/0.json`))!;
+    const missing = await served(docs, (p) => (p === chunk ? 404 : 200));
+    await missing.page.waitForSelector('#finder-error');
+    expect(await missing.page.textContent('#finder-error')).toMatch(new RegExp(`Could not load the file lists of ${det} for ${date}: .*${chunk.replace(/[.]/g, '\\.')}: HTTP 404\\. No result is shown`));
+    expect(await missing.page.$('#finder-hits')).toBeNull();
+    await missing.page.close();
+    const wrong = await served(new Map([...docs, [chunk, docs.get(chunk.replace(/\/0\.json$/, '.json'))]]));
+    await wrong.page.waitForSelector('#finder-error');
+    expect(await wrong.page.textContent('#finder-error')).toMatch(/not a finder chunk \(schema kiln\/finder-manifest\/1, expected kiln\/finder-chunk\/1\)/);
+    expect(await wrong.page.$('#finder-hits')).toBeNull();
+    expect(wrong.problems).toEqual([]);
+    await wrong.page.close();
   });
 });
 

@@ -53,6 +53,7 @@ describe('kiln build of the demo content', () => {
         for (const f of ['model', 'profiles', 'matrix', 'checks', 'area']) expect(tree.has(`releases/${id}/detectors/${d.id}/${f}.json`), `${id}/${d.id}/${f}`).toBe(true);
         for (const e of d.epochs) expect(tree.has(`releases/${id}/detectors/${d.id}/epochs/${e.id}.json`), `${id}/${d.id}/${e.id}`).toBe(true);
         expect(tree.has(`finder/${index.instruments[0].id}/${d.id}.json`)).toBe(true);
+        expect(tree.has(`finder/${index.instruments[0].id}/${d.id}/0.json`)).toBe(true);
       }
       const files = readdirSync(join(ws.out, 'releases', id, 'files'));
       expect(files.length).toBeGreaterThan(0);
@@ -62,7 +63,7 @@ describe('kiln build of the demo content', () => {
     }
     // Nothing outside the documented layout.
     for (const p of tree.keys())
-      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|overlay\.json|reexamined\.json|spectral\.json|spectral-elements\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area|supplement)\.json|epochs\/[^/]+\.json)))$/);
+      expect(p).toMatch(/^(index\.json|finder\/[^/]+\/[^/]+(\/\d+)?\.json|releases\/[^/]+\/(manifest\.json|validation\.json|summary\.json|overlay\.json|reexamined\.json|spectral\.json|spectral-elements\.json|model\.json|model\.schema\.json|files\/[^/]+\.gz|detectors\/[^/]+\/((model|profiles|matrix|checks|area|supplement)\.json|epochs\/[^/]+\.json)))$/);
   });
 
   it('every check of a validation report is identified by its id and product alone (sign-off and comparisons join on them)', () => {

@@ -36,11 +36,11 @@ describe('kiln build is deterministic', () => {
     // model documents and schemas (built releases 2.0.0 and 2.1.0; the archives of 1.0.0 and 1.1.0 predate them),
     // a reexamined.json for each of the 2 archived releases (content/archive/),
     // plus the split site data: 5 documents per detector and one per epoch, an overlay per release, a
-    // supplement per detector of an archived release (the curves its site data predate), and a finder document per detector.
+    // supplement per detector of an archived release (the curves its site data predate), and a finder manifest and one chunk per detector (the demo's files fit in one).
     const summaries = [...one.keys()].filter((p) => p.endsWith('/summary.json')).map((p) => JSON.parse(one.get(p)!.toString('utf8')) as { detectors: { epochs: unknown[] }[] });
     const split = summaries.reduce((n, s) => n + s.detectors.reduce((m, d) => m + 5 + d.epochs.length, 0), 0);
     const finder = [...one.keys()].filter((p) => p.startsWith('finder/')).length;
-    expect(finder).toBe(2);
+    expect(finder).toBe(4);
     const overlays = summaries.length;
     const supplements = [...one.keys()].filter((p) => p.endsWith('/supplement.json'));
     expect(supplements.map((p) => p.split('/')[1]).sort()).toEqual(['1.0.0', '1.0.0', '1.1.0', '1.1.0']);

@@ -1,11 +1,11 @@
 /**
  * Site data split per product (generators/site-data/split.ts): the pieces join back into the whole
- * release, checks land with the detector of their product, and the finder's per-detector
- * documents hold exactly that detector's files. Hand-made inputs; expected values by inspection.
+ * release, and checks land with the detector of their product (the finder's documents:
+ * finder-chunks.test.ts). Hand-made inputs; expected values by inspection.
  */
 import { describe, expect, it } from 'vitest';
-import { checksByDetector, finderDocuments, joinRelease, splitRelease } from '../../generators/site-data/split.ts';
-import type { Check, DetectorSite, ProductSummary, ReleaseIndex, ReleaseSite } from '../../generators/site-data/types.ts';
+import { checksByDetector, joinRelease, splitRelease } from '../../generators/site-data/split.ts';
+import type { Check, DetectorSite, ProductSummary, ReleaseSite } from '../../generators/site-data/types.ts';
 
 const product = (id: string, detector: string, epoch: string, kind: 'rmf' | 'arf'): ProductSummary => ({ id, kind, detector, epoch, path: `files/${id}.gz`, bytes: 1, sha256: '0'.repeat(64), validFrom: '2026-01-01', validTo: null });
 const check = (id: string, product: string | null, status: Check['status'] = 'pass'): Check => ({ id, title: id, product, status, measured: null, tolerance: null, unit: null, message: '' });
@@ -61,20 +61,5 @@ describe('split and join', () => {
     const m = checksByDetector(checks, products);
     expect(m.get(null)!.map((c) => c.id)).toEqual(['x', 'w']);
     expect(m.get('a')!.map((c) => c.id)).toEqual(['y']);
-  });
-});
-
-describe('finder documents', () => {
-  it('one per detector, with only its files, releases without any left out', () => {
-    const summary = (id: string, ps: ProductSummary[]) => ({ id, instrument: 'inst', key: id, supersedesKey: null, title: '', date: '2026-01-01', status: 'published' as const, validFrom: '2026-01-01', validTo: null, supersedes: null, checks: { pass: 0, fail: 0, warn: 0, review: 0 }, products: ps });
-    const index: ReleaseIndex = {
-      schema: 'kiln/release-index/1',
-      instruments: [{ id: 'inst', telescope: '', instrument: '', title: '', description: '', channels: 1, detectors: ['a', 'b'].map((id) => ({ id, name: id, kind: '', description: '' })) }],
-      releases: [summary('2.0.0', [products[0]]), summary('1.0.0', products)],
-    };
-    const docs = finderDocuments(index);
-    expect(docs.map((d) => d.path)).toEqual(['finder/inst/a.json', 'finder/inst/b.json']);
-    const b = docs[1].doc as ReleaseIndex;
-    expect(b.releases.map((r) => [r.id, r.products.map((p) => p.id)])).toEqual([['1.0.0', ['b-rmf']]]);
   });
 });
