@@ -51,6 +51,7 @@ export class JobPool {
    * memory does not grow with the number of jobs.
    */
   async run(jobs: JobTask[], onDone: (r: JobOutput, index: number) => void): Promise<void> {
+    if (jobs.length === 0) return;
     if (this.size === 1) {
       for (let i = 0; i < jobs.length; i++) onDone(produceJobOutput(jobs[i].job, jobs[i].fingerprint, jobs[i].generator), i);
       return;

@@ -116,6 +116,19 @@ describe('one matrix on several threads: same bytes', () => {
   });
 });
 
+describe('the job pool', () => {
+  it('a batch with no job to run (every job of a release from the cache) finishes at once', { timeout: 10_000 }, async () => {
+    const pool = new JobPool(2);
+    let called = 0;
+    try {
+      await pool.run([], () => called++);
+    } finally {
+      await pool.close();
+    }
+    expect(called).toBe(0);
+  });
+});
+
 describe('a build of a single job', () => {
   it('spreads its matrices over the pool\'s threads (every region of a per-node release): the job output of one thread, byte for byte', async () => {
     const job = (await demoJobs()).get('2.1.0')!.find((j) => j.detector.id === 'bi1')!;
