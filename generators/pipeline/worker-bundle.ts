@@ -42,6 +42,9 @@ async function bundle(entry: URL): Promise<string | null> {
       write: false,
       logLevel: 'silent',
     });
+    // A module that reads import.meta (empty in a CommonJS script) would see no URL of its own:
+    // such a bundle is not used, the loader entry runs the modules as they are.
+    if (out.warnings.some((w) => w.text.includes('import.meta'))) return null;
     return out.outputFiles[0]?.text ?? null;
   } catch {
     return null;

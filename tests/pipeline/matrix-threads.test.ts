@@ -103,8 +103,9 @@ describe('one matrix on several threads: same bytes', () => {
     expect(sameBytes(loader.r, single)).toBe(true);
   });
 
-  it('a module that cannot be bundled gives no bundle (the caller falls back to the loader entry)', async () => {
+  it('a module that cannot be bundled, or reads import.meta, gives no bundle (the caller falls back to the loader entry)', async () => {
     expect(await workerBundle(new URL('no-such-module.ts', FIXTURES))).toBeNull();
+    expect(await workerBundle(new URL('reads-meta-url.ts', FIXTURES))).toBeNull();
   });
 
   it('a small matrix stays in this thread (no worker start-up): under the threshold no worker is asked', async () => {
