@@ -7,7 +7,7 @@
  * temporary build folders, temporary files, locks).
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { appendFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -77,6 +77,9 @@ describe('kiln build killed at each phase, then run again', () => {
       const { ws, tmp } = base;
       if (!existsSync(ws.out)) expect(run(['build', '--content', ws.content, '--out', ws.out, '--quiet'], tmp).status).toBe(0);
       const before = treeDigest(ws.out);
+      // A file the build does not read changes: the build record no longer matches (a real build
+      // runs through every phase; pipeline/build-stamp.ts), and the output bytes stay the same.
+      appendFileSync(ws.path('README.md'), `\nedited before the build killed at ${phase}\n`);
       const killed = run(['build', '--content', ws.content, '--out', ws.out, '--quiet'], tmp, phase);
       expect(killed.signal, killed.stderr).toBe('SIGKILL');
       if (phase === 'build:swap') {
