@@ -48,6 +48,7 @@ export interface FitResult {
   dof: number;
   reducedChi2: number | null;
   errorsScaledByReducedChi2: boolean;
+  /** Levenberg–Marquardt iterations (none below two points, which the package refuses) plus accepted Gauss–Newton steps. */
   iterations: number;
 }
 
@@ -101,7 +102,9 @@ export function weightedLeastSquares(p: LsqProblem): FitResult {
   const label = p.label ?? 'fit';
   const fixed = p.fixed ?? new Array<boolean>(nPar).fill(false);
   const freeIdx = [...Array(nPar).keys()].filter((k) => !fixed[k]);
-  const scale = p.scale ?? p.initial.map((v) => Math.max(Math.abs(v), 1e-12));
+  // A start at 0 says nothing of the magnitude: 1 then, not a tiny floor that would make the
+  // central-difference step vanish against the other terms of the model.
+  const scale = p.scale ?? p.initial.map((v) => Math.abs(v) || 1);
   const min = p.min ?? new Array<number>(nPar).fill(-Infinity);
   const max = p.max ?? new Array<number>(nPar).fill(Infinity);
   if (n < freeIdx.length)
