@@ -51,7 +51,14 @@ function randomDoubles(n: number, seed: number): number[] {
   return out.filter((x) => !Number.isNaN(x));
 }
 
-const SPECIAL = [0, -0, Infinity, -Infinity, NaN, 1, -1, 0.5, -0.5, 2, -2, 3, -3, Number.MIN_VALUE, -Number.MIN_VALUE, 2 ** -1022, Number.MAX_VALUE, -Number.MAX_VALUE];
+/** NaNs with either sign bit and payload (a NaN's sign must not steer a branch). */
+const NANS = [words(0x7ff80000), words(0xfff80000), words(0x7ff00000, 1), words(0xfff00000, 1), words(0xffffffff, 0xffffffff), words(0x7ff12345, 0x6789abcd)];
+const SPECIAL = [0, -0, Infinity, -Infinity, NaN, ...NANS, 1, -1, 0.5, -0.5, 2, -2, 3, -3, Number.MIN_VALUE, -Number.MIN_VALUE, 2 ** -1022, Number.MAX_VALUE, -Number.MAX_VALUE];
+/**
+ * Tiny arguments where 1 + x is (nearly) a tie on the grid of doubles: there e^x = 1 + x + x²/2
+ * and 1 + x round apart, so the shortcut below 2⁻²⁸ (exp) must be taken exactly where fdlibm takes it.
+ */
+const TIES = [1, 3, 5, 2 ** 10 + 1, 2 ** 20 + 1, 2 ** 24 + 1, 2 ** 24 + 3, 2 ** 25 - 1, 2 ** 25 - 3, 2 ** 25 - 5].flatMap((m) => [m * 2 ** -53, -m * 2 ** -54, m * 2 ** -53 * (1 - 2 ** -40), m * 2 ** -54 * -(1 + 2 ** -40)]);
 
 // exp.ts / expm1.ts thresholds (high words as in fdlibm's e_exp.c and s_expm1.c)
 const EXP_EDGES = both([
@@ -237,10 +244,10 @@ function calls(): Call[] {
   const rnd = randomDoubles(3000, 151515);
   const moderate = Array.from({ length: 2000 }, (_, i) => (mulberry32(i + 1)() - 0.5) * 2 ** ((i % 24) - 12));
   const c: Call[] = [
-    ...one('exp', [...SPECIAL, ...EXP_EDGES], [...rnd, ...moderate]),
-    ...one('expm1', [...SPECIAL, ...EXP_EDGES], [...rnd, ...moderate]),
+    ...one('exp', [...SPECIAL, ...EXP_EDGES, ...TIES], [...rnd, ...moderate]),
+    ...one('expm1', [...SPECIAL, ...EXP_EDGES, ...TIES], [...rnd, ...moderate]),
     ...one('log', [...SPECIAL, ...LOG_EDGES], [...rnd.map(Math.abs), ...moderate.map(Math.abs)]),
-    ...one('log1p', [...SPECIAL, ...LOG1P_EDGES], [...rnd, ...moderate]),
+    ...one('log1p', [...SPECIAL, ...LOG1P_EDGES, ...TIES], [...rnd, ...moderate]),
   ].filter((k) => !(k.fn === 'exp' && k.x === 1) && !(k.fn === 'log1p' && inMovedLog1pBand(k.x)));
   for (const x of POW_BASES) for (const y of POW_EXPONENTS) c.push({ fn: 'pow', x, y });
   for (const [x, y] of POW_LIMITS) c.push({ fn: 'pow', x, y });
