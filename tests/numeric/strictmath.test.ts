@@ -51,9 +51,9 @@ function randomDoubles(n: number, seed: number): number[] {
   return out.filter((x) => !Number.isNaN(x));
 }
 
-/** NaNs with either sign bit and payload (a NaN's sign must not steer a branch). */
-const NANS = [words(0x7ff80000), words(0xfff80000), words(0x7ff00000, 1), words(0xfff00000, 1), words(0xffffffff, 0xffffffff), words(0x7ff12345, 0x6789abcd)];
-const SPECIAL = [0, -0, Infinity, -Infinity, NaN, ...NANS, 1, -1, 0.5, -0.5, 2, -2, 3, -3, Number.MIN_VALUE, -Number.MIN_VALUE, 2 ** -1022, Number.MAX_VALUE, -Number.MAX_VALUE];
+// (NaNs of other signs and payloads are not listed: V8 stores a NaN in an array as its canonical
+// pattern, so they would not reach the functions as written.)
+const SPECIAL = [0, -0, Infinity, -Infinity, NaN, 1, -1, 0.5, -0.5, 2, -2, 3, -3, Number.MIN_VALUE, -Number.MIN_VALUE, 2 ** -1022, Number.MAX_VALUE, -Number.MAX_VALUE];
 /**
  * Tiny arguments where 1 + x is (nearly) a tie on the grid of doubles: there e^x = 1 + x + x²/2
  * and 1 + x round apart, so the shortcut below 2⁻²⁸ (exp) must be taken exactly where fdlibm takes it.
