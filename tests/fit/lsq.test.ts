@@ -177,12 +177,47 @@ describe('weighted least squares, exact one-parameter cases', () => {
     }
   });
 
+  it('two points, two parameters (the fewest the LM package takes): the curve through both, from a far start', () => {
+    // b1·(1 − e^(−b2·x)) through two points of b = (2, 0.7): χ² = 0 there, and the parameters are that b
+    const f = ([b1, b2]: readonly number[], x: number) => b1 * (1 - Math.exp(-b2 * x));
+    // errors of any size leave an exact fit where it is
+    for (const sigma of [[1, 1], [0.5, 2]]) {
+      const r = weightedLeastSquares({ names: ['b1', 'b2'], x: [1, 3], y: [f([2, 0.7], 1), f([2, 0.7], 3)], sigma, model: f, initial: [1, 0.1] });
+      expect(rel(r.params.b1, 2), `σ = ${sigma}`).toBeLessThan(1e-9);
+      expect(rel(r.params.b2, 0.7), `σ = ${sigma}`).toBeLessThan(1e-9);
+      expect(r.chi2).toBeLessThan(1e-20);
+    }
+  });
+
   it('Gauss–Newton solves a linear model in one step: iterations count the accepted steps', () => {
     // y = a·x through (2, 3) with the exact Jacobian: a = 1.5 after one step, and no further step lowers χ² = 0
     const r = weightedLeastSquares({ names: ['a'], x: [2], y: [3], sigma: [1], model: ([a], x) => a * x, jacobian: (_, x) => [x], initial: [1] });
     expect(r.params.a).toBe(1.5);
     expect(r.chi2).toBe(0);
     expect(r.iterations).toBe(1);
+  });
+
+  it('accepts only steps that lower χ²: a first step that overshoots leaves the start, and χ² is that of the returned parameters', () => {
+    // y = exp(a·x) through (2, 5) from a = 0.3: the undamped step goes to a ≈ 1.17, where χ² is larger
+    const p: LsqProblem = { names: ['a'], x: [2], y: [5], sigma: [0.5], model: ([a], x) => Math.exp(a * x), jacobian: ([a], x) => [x * Math.exp(a * x)], initial: [0.3] };
+    const r = weightedLeastSquares(p);
+    expect(r.params.a).toBe(0.3);
+    expect(r.iterations).toBe(0);
+    expect(r.chi2).toBe(chi2Of(p, [0.3]));
+  });
+
+  it('Gauss–Newton on f(a) = a² towards 0 halves a exactly each step; it stops when χ² falls by less than 1e-13, or after 30 steps', () => {
+    // the step is −f/f′ = −a/2 (exact in binary); χ² = a⁴ falls by 15/16 of itself per step, below
+    // 1e-13 once χ² ≤ 2⁻⁴⁴: from a = 1 that is the 12th step (a = 2⁻¹²)
+    const p = (a0: number): LsqProblem => ({ names: ['a'], x: [0], y: [0], sigma: [1], model: ([a]) => a * a, jacobian: ([a]) => [2 * a], initial: [a0] });
+    const one = weightedLeastSquares(p(1));
+    expect(one.params.a).toBe(2 ** -12);
+    expect(one.iterations).toBe(12);
+    expect(one.chi2).toBe(2 ** -48);
+    // from a = 2²⁰ the step cap (30, the code's stated limit) ends it at a = 2⁻¹⁰
+    const far = weightedLeastSquares(p(2 ** 20));
+    expect(far.params.a).toBe(2 ** -10);
+    expect(far.iterations).toBe(30);
   });
 
   it('with every parameter fixed: the initial values, χ² there, zero errors, dof = n', () => {

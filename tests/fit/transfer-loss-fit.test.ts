@@ -130,7 +130,30 @@ describe('transfer-loss fit against numpy (weighted straight lines, two stages)'
   });
 });
 
+describe('transfer-loss fit, the fewest measurements (exact two-point lines)', () => {
+  it('a line in exactly two bands: slope = Δln c/ΔN, loss = −expm1(slope)', () => {
+    const two = [bandLine('Mn Ka', 5.895, 100, 5.89, 0.4), bandLine('Mn Ka', 5.895, 900, 5.87, 0.4)];
+    const r = fitTransferLoss(two, { referenceKeV: REF_KEV });
+    const slope = (Math.log(5.87) - Math.log(5.89)) / 800;
+    expect(rel(r.perLine[0].loss, -Math.expm1(slope))).toBeLessThan(1e-9);
+    expect(rel(r.lossPerTransfer, -Math.expm1(slope))).toBeLessThan(1e-9);
+  });
+
+  it('exactly two line energies: α = −Δln f/Δln E through the two per-line losses', () => {
+    const rows = noisy(3).filter((x) => x.fit.line !== 'Ti Ka');
+    const r = fitTransferLoss(rows, { referenceKeV: REF_KEV });
+    const [lo, hi] = r.perLine;
+    expect(r.energyIndexErr).not.toBeNull();
+    expect(rel(r.energyIndex, -(Math.log(hi.loss) - Math.log(lo.loss)) / (Math.log(hi.energyKeV) - Math.log(lo.energyKeV)))).toBeLessThan(1e-9);
+  });
+});
+
 describe('transfer-loss fit, bad input', () => {
+  it('a line whose centroid does not change with the transfer count (zero loss, no power law through it) is refused', () => {
+    const flat = BANDS.map((n) => bandLine('Mn Ka', 5.895, n, 5.895, 0.4));
+    expect(() => fitTransferLoss(flat, { referenceKeV: REF_KEV })).toThrow(KilnInputError);
+  });
+
   it('a line whose centroid grows with the transfer count: named, with the fitted loss', () => {
     const rising = BANDS.map((n) => bandLine('Mn Ka', 5.895, n, 5.895 * (1 + 1e-6) ** n, 0.4));
     try {
