@@ -152,6 +152,9 @@ describe('transfer-loss fit, bad input', () => {
   it('a line whose centroid does not change with the transfer count (zero loss, no power law through it) is refused', () => {
     const flat = BANDS.map((n) => bandLine('Mn Ka', 5.895, n, 5.895, 0.4));
     expect(() => fitTransferLoss(flat, { referenceKeV: REF_KEV })).toThrow(KilnInputError);
+    // exactly zero: ln 1 = 0 and weights (1 keV / 0.5 keV)² = 4 make every sum exact, so the slope is 0
+    const zero = [100, 900].map((n) => bandLine('Mn Ka', 5.895, n, 1, 500));
+    expect(() => fitTransferLoss(zero, { referenceKeV: REF_KEV })).toThrow(/gains charge along the rows/);
   });
 
   it('a line whose centroid grows with the transfer count: named, with the fitted loss', () => {
