@@ -48,11 +48,13 @@ export interface FitResult {
   dof: number;
   reducedChi2: number | null;
   errorsScaledByReducedChi2: boolean;
+  /** Levenberg–Marquardt iterations (none below two points, which the package refuses) plus accepted Gauss–Newton steps. */
   iterations: number;
 }
 
 /** The package has no step-size stopping rule (it stops only at χ² ≤ errorTolerance), so it runs all its iterations; the Gauss–Newton polish settles the optimum. */
 const LM_MAX_ITERATIONS = 100;
+/** Gauss–Newton steps at most; the polish stops earlier when a step no longer lowers χ² by 1e-13·max(1, χ²). */
 const POLISH_ITERATIONS = 30;
 
 export function chi2Of(p: LsqProblem, theta: readonly number[]): number {
@@ -76,7 +78,7 @@ function jacobianRow(p: LsqProblem, theta: readonly number[], x: number, scale: 
   });
 }
 
-/** JᵀWJ over the free parameters, and JᵀW r. */
+/** JᵀWJ over the free parameters (its lower triangle: all that cholesky reads), and JᵀW r. */
 function normalEquations(p: LsqProblem, theta: readonly number[], freeIdx: readonly number[], scale: readonly number[]) {
   const m = freeIdx.length;
   const a = Array.from({ length: m }, () => new Array<number>(m).fill(0));
@@ -91,7 +93,6 @@ function normalEquations(p: LsqProblem, theta: readonly number[], freeIdx: reado
       for (let b1 = 0; b1 <= a1; b1++) a[a1][b1] += w * ja * jr[freeIdx[b1]];
     }
   }
-  for (let a1 = 0; a1 < m; a1++) for (let b1 = 0; b1 < a1; b1++) a[b1][a1] = a[a1][b1];
   return { a, g };
 }
 
@@ -99,9 +100,12 @@ export function weightedLeastSquares(p: LsqProblem): FitResult {
   const nPar = p.names.length;
   const n = p.x.length;
   const label = p.label ?? 'fit';
+  // Stryker disable next-line ArrayDeclaration: an empty array reads undefined at every index, which the free/fixed filters treat as false, the same as the filled array.
   const fixed = p.fixed ?? new Array<boolean>(nPar).fill(false);
   const freeIdx = [...Array(nPar).keys()].filter((k) => !fixed[k]);
-  const scale = p.scale ?? p.initial.map((v) => Math.max(Math.abs(v), 1e-12));
+  // A start at 0 says nothing of the magnitude: 1 then, not a tiny floor that would make the
+  // central-difference step vanish against the other terms of the model.
+  const scale = p.scale ?? p.initial.map((v) => Math.abs(v) || 1);
   const min = p.min ?? new Array<number>(nPar).fill(-Infinity);
   const max = p.max ?? new Array<number>(nPar).fill(Infinity);
   if (n < freeIdx.length)
@@ -115,6 +119,7 @@ export function weightedLeastSquares(p: LsqProblem): FitResult {
     freeIdx.forEach((k, j) => (t[k] = q[j] * scale[k]));
     return t;
   };
+  // Stryker disable next-line MethodExpression: theta is only ever replaced by new arrays (full(...), next), never written in place, so an alias of p.initial changes nothing.
   let theta = p.initial.slice();
   let iterations = 0;
   if (freeIdx.length > 0 && n >= 2) {
@@ -147,7 +152,8 @@ export function weightedLeastSquares(p: LsqProblem): FitResult {
 
   // Gauss–Newton polish within the bounds: accept only steps that lower χ²
   let chi2 = chi2Of(p, theta);
-  for (let it = 0; it < POLISH_ITERATIONS && freeIdx.length > 0; it++) {
+  // (with no free parameter the normal matrix is 0 × 0, the step empty, and the first pass ends the loop)
+  for (let it = 0; it < POLISH_ITERATIONS; it++) {
     const { a, g } = normalEquations(p, theta, freeIdx, scale);
     const l = cholesky(a);
     if (!l) break;
@@ -164,7 +170,7 @@ export function weightedLeastSquares(p: LsqProblem): FitResult {
   }
 
   const { a } = normalEquations(p, theta, freeIdx, scale);
-  const cov = freeIdx.length > 0 ? spdInverse(a) : [];
+  const cov = spdInverse(a); // the empty matrix when nothing is free
   if (!cov)
     throw new KilnInputError(`${label}: parameters are not constrained by the data (degenerate); fix one of them`, {
       file: p.file,

@@ -137,6 +137,31 @@ describe('FWHM law fit (weighted least squares, ml-levenberg-marquardt)', () => 
     }
   });
 
+  it('fits σ₀ with N_r held (σ² is constant + linear in E: two of the three separate); covariance equals 2·H⁻¹ of χ²', () => {
+    const truth = [4, 0.118, 25];
+    const lines = synthetic(normalSampler(99), 1, truth);
+    const r = fitFwhmLaw(lines, { pairEnergyEv: W, pixelsPerEvent: PPE, free: ['fano', 'sigma0Ev'], initial: { readNoiseE: 4, sigma0Ev: 10 } });
+    const fd = finiteDifferenceCovariance(
+      { names: ['readNoiseE', 'fano', 'sigma0Ev'], x: lines.map((l) => l.energyKeV), y: lines.map((l) => l.fwhmEv), sigma: lines.map((l) => l.fwhmErrEv), initial: [0, 0, 0], model: (t, e) => fwhmModelEv(t, e, W, PPE) },
+      [r.params.readNoiseE, r.params.fano, r.params.sigma0Ev],
+      [1, 2],
+      [1e-5, 1e-3],
+    );
+    for (let a = 0; a < 2; a++) for (let b = 0; b < 2; b++) expect(Math.abs(r.covariance[a][b] / fd[a][b] - 1), `cov[${a}][${b}]`).toBeLessThan(0.05);
+    expect(Math.abs(r.params.fano - truth[1]) / r.errors.fano).toBeLessThan(4);
+    expect(Math.abs(r.params.sigma0Ev - truth[2]) / r.errors.sigma0Ev).toBeLessThan(4);
+  });
+
+  it('keeps F below 1 (Poisson statistics, F = 1, bound the ionisation noise: Fano, Phys. Rev. 72, 26 (1947), from memory)', () => {
+    const r = fitFwhmLaw(synthetic(() => 0, 0, [4, 1.5, 0]), { pairEnergyEv: W, pixelsPerEvent: PPE });
+    expect(Math.abs(r.params.fano - (1 - 1e-6))).toBeLessThan(1e-9);
+  });
+
+  it('names the FWHM law in its errors', () => {
+    const lines = synthetic(() => 0);
+    expect(() => fitFwhmLaw(lines.slice(0, 1), { pairEnergyEv: W, pixelsPerEvent: PPE })).toThrow(/^FWHM law: fewer data points than free parameters$/);
+  });
+
   it('reports N_r and σ₀ as degenerate when pixels per event do not vary with energy', () => {
     const flat = { a: 2, bPerKeV: 0 };
     const lines = ENERGIES.map((e, i) => lineFit(`L${i}`, e, { fwhmEv: fwhmModelEv([4, 0.118, 5], e, W, flat), fwhmErrEv: 1 }));
