@@ -57,6 +57,8 @@ const MAX_THREADS = 256;
 /** The worker's module, and its entry through the TypeScript loader (used when it cannot be prebuilt). */
 const WORKER_MODULE = new URL('./matrix-worker.ts', import.meta.url);
 const WORKER_LOADER_ENTRY = new URL('./matrix-worker-entry.mjs', import.meta.url);
+/** Rows this thread computes between two looks at the events while no worker is ready yet (a few ms of rows). */
+const STARTUP_SLICE_ROWS = 16;
 /** Chunks per thread: small enough that the last chunk ends close to the others, large enough that handing out costs nothing. */
 const CHUNKS_PER_THREAD = 16;
 
@@ -100,15 +102,16 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
     return assembleRedistribution(p, [redistributionRows(p, 0, nE, onProgress)]);
 
   const chunks = rowChunks(nE, threads * CHUNKS_PER_THREAD);
-  const blocks: (RowBlock | undefined)[] = new Array(chunks.length);
+  const blocks: (RowBlock[] | undefined)[] = new Array(chunks.length);
   let next = 0;
   let rowsDone = 0;
   let failure: Error | null = null;
   let wake: (() => void) | null = null;
   const settle = () => wake?.();
-  const finished = (seq: number, block: RowBlock, thread: number) => {
-    blocks[seq] = block;
-    rowsDone += block.rows.length;
+  let workersReady = 0;
+  const finished = (seq: number, parts: RowBlock[], thread: number) => {
+    blocks[seq] = parts;
+    rowsDone += parts.reduce((n, b) => n + b.rows.length, 0);
     options.onChunk?.({ i0: chunks[seq][0], i1: chunks[seq][1], thread });
     onProgress?.(rowsDone, nE);
   };
@@ -137,11 +140,14 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
       throw Object.assign(new Error(`matrix input cannot be sent to a worker thread: ${(e as Error).message}`), { cause: e });
     }
     w.on('message', (m: MatrixWorkerReply) => {
-      if (m.kind === 'ready') return feed(w);
+      if (m.kind === 'ready') {
+        workersReady++;
+        return feed(w);
+      }
       if (m.kind === 'error') return fail(errorOf(m));
       busy.delete(w);
       try {
-        finished(m.seq, unpackRows(m.packed), thread);
+        finished(m.seq, [unpackRows(m.packed)], thread);
       } catch (e) {
         return fail(e as Error);
       }
@@ -178,7 +184,17 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
     // This thread takes the next chunk whenever it is free, and lets the workers' messages in between.
     while (shareThisThread && !failure && next < chunks.length) {
       const seq = next++;
-      finished(seq, redistributionRows(p, chunks[seq][0], chunks[seq][1]), 0);
+      const [i0, i1] = chunks[seq];
+      // Until a worker is ready, rows in short slices with the events let in between: the
+      // workers' start-up (the bundle made in esbuild's process, the thread's messages) moves on
+      // at each turn, not once per chunk.
+      const slice = workersReady > 0 ? i1 - i0 : STARTUP_SLICE_ROWS;
+      const parts: RowBlock[] = [];
+      for (let a = i0; a < i1; a += slice) {
+        parts.push(redistributionRows(p, a, Math.min(i1, a + slice)));
+        if (a + slice < i1) await yieldToEvents();
+      }
+      finished(seq, parts, 0);
       await yieldToEvents();
     }
     while (!failure && rowsDone < nE) await new Promise<void>((resolve) => (wake = resolve));
@@ -193,5 +209,5 @@ export async function buildRedistributionThreaded(input: PortableRedistributionI
     }
   }
   if (failure) throw failure;
-  return assembleRedistribution(p, blocks as RowBlock[]);
+  return assembleRedistribution(p, (blocks as RowBlock[][]).flat());
 }

@@ -6,6 +6,8 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { Worker } from 'node:worker_threads';
+import { createHash } from 'node:crypto';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { buildRedistributionThreaded, MIN_THREADED_CELLS, rowChunks, type MatrixThreadOptions } from '../../generators/pipeline/matrix-threads.ts';
 import { regionRedistribution, regionRedistributionInput, type CaseChoice } from '../../generators/model/parts.ts';
 import { regionsOf } from '../../generators/model/regions.ts';
@@ -14,7 +16,7 @@ import type { DetectorJob } from '../../generators/pipeline/job.ts';
 import { buildRedistribution, localInput, type PortableRedistributionInput, type RedistributionResult } from '../../generators/response/index.ts';
 import { writeRmf } from '../../generators/ogip/index.ts';
 import { KilnInputError } from '../../generators/errors.ts';
-import { workerBundle } from '../../generators/pipeline/worker-bundle.ts';
+import { keptBundle, workerBundle } from '../../generators/pipeline/worker-bundle.ts';
 import { JobPool } from '../../generators/pipeline/pool.ts';
 import { produceJobOutput, type JobOutput } from '../../generators/pipeline/job-output.ts';
 import { jobMatrixInputs } from '../../generators/pipeline/product.ts';
@@ -101,6 +103,22 @@ describe('one matrix on several threads: same bytes', () => {
     const single = regionRedistribution(c.job, c.choice, c.validFrom);
     const loader = await onWorkers(input, 2, { workerUrl: new URL('../../generators/pipeline/matrix-worker-entry.mjs', import.meta.url) });
     expect(sameBytes(loader.r, single)).toBe(true);
+  });
+
+  it('the bundle is kept under the digest of its sources with the SHA-256 of its body; a damaged file is not used', async () => {
+    const entry = new URL('../../generators/pipeline/matrix-worker.ts', import.meta.url);
+    const code = await workerBundle(entry);
+    const kept = keptBundle(entry);
+    expect(kept.body).toBe(code);
+    const text = readFileSync(kept.file, 'utf8');
+    const nl = text.indexOf('\n');
+    expect(text.slice(0, nl)).toBe(`// kiln worker bundle sha256:${createHash('sha256').update(text.slice(nl + 1)).digest('hex')}`);
+    writeFileSync(kept.file, text.replace('parentPort', 'parentPorT'));
+    try {
+      expect(keptBundle(entry).body).toBeNull();
+    } finally {
+      writeFileSync(kept.file, text);
+    }
   });
 
   it('a module that cannot be bundled, or reads import.meta, gives no bundle (the caller falls back to the loader entry)', async () => {
