@@ -35,8 +35,8 @@ export const LARGE_CASE = {
   kind: 'large' as const,
   name: 'large-instrument',
   sizes: [
-    { detectors: 4, epochs: 12, channels: 256, bins: 200 },
-    { detectors: 40, epochs: 12, channels: 256, bins: 200 },
+    { detectors: 8, epochs: 12, channels: 256, bins: 200 },
+    { detectors: 80, epochs: 12, channels: 256, bins: 200 },
   ],
 };
 
