@@ -81,7 +81,8 @@ export function buildKey(contentDir: string, generator: string): string | null {
   return sha256Hex(JSON.stringify({ schema: SCHEMA, content: content.sha256, generator, node: process.version }));
 }
 
-const stampFile = (cacheDir: string, outDir: string) => join(cacheDir, DIR, `${sha256Hex(outDir).slice(0, NAME_HEX)}.json`);
+/** Where the record of builds into outDir is kept in a cache. */
+export const stampFile = (cacheDir: string, outDir: string): string => join(cacheDir, DIR, `${sha256Hex(outDir).slice(0, NAME_HEX)}.json`);
 
 /** The record for outDir if present and intact, else null. */
 export function readBuildStamp<S>(cacheDir: string, outDir: string): BuildStamp<S> | null {
