@@ -65,8 +65,9 @@ export const command: CommandSpec = {
       const fails = s.releases.reduce((n, r) => n + r.checks.fail, 0);
       process.stdout.write(
         `kiln build: ${s.releases.length} releases, ${s.products} products (${s.jobs.built} jobs built, ${s.jobs.cached} from cache), ` +
-          (s.unchanged ? `nothing changed: the ${s.unchanged.files} files in ${outDir} verified and left in place` : `written to ${outDir}`) +
-          ` in ${((performance.now() - t0) / 1000).toFixed(1)} s` +
+          (s.unchanged
+            ? `nothing changed: the ${s.unchanged.files} files in ${outDir} verified and left in place (${((performance.now() - t0) / 1000).toFixed(1)} s)`
+            : `written to ${outDir} in ${((performance.now() - t0) / 1000).toFixed(1)} s`) +
           (fails ? `; ${fails} failed checks in draft releases (see validation.json)` : '') +
           '\n',
       );
